@@ -1,0 +1,264 @@
+// Package tally computes the sufficient statistics of one pass over a digit
+// sequence (a Tally) and merges the tallies of consecutive stretches into the
+// tally of their concatenation, exactly. Every check in borel reads a
+// finished Tally; nothing reads the digits twice.
+//
+// A Tally holds: n; the digit counts; overlapping K-block counts of the
+// windows that lie inside the stretch; non-overlapping k-block counts for
+// k = 2..K aligned to global digit positions (blocks start at multiples of k
+// counted from the start of the whole sequence, so a shard cut anywhere gives
+// the same blocks); gap-length histograms per digit class; and the first and
+// last K-1 digits, from which the blocks crossing a cut and the cyclic
+// wrap-around windows are recovered.
+package tally
+
+import (
+	"fmt"
+	"slices"
+)
+
+// DefaultGapCap is the gap length from which gaps are tallied together in
+// one tail cell. A gap check never needs classes beyond it: at q = 1/36 and
+// 10^9 digits the validity rule G(1-q)^t ≥ 5 stops at t ≈ 550.
+const DefaultGapCap = 2048
+
+// Spec fixes what a Tally records. Tallies merge only when their Specs are equal.
+type Spec struct {
+	Base     int // 2..256
+	MaxBlock int // K ≥ 1: overlapping counts at order K, blocks k = 2..K
+	// GapClass maps each digit to its gap class (len Base); nil means one
+	// class per digit.
+	GapClass []int
+	GapCap   int // 0 means DefaultGapCap
+}
+
+// Cells returns the number of int64 counters a Tally of this Spec holds,
+// including the cyclic tables a check derives at the end (k = 1..K): the
+// measure the memory budget is checked against.
+func (s Spec) Cells() float64 {
+	b := float64(s.Base)
+	cells := 0.0
+	pow := 1.0
+	for k := 1; k <= s.MaxBlock; k++ {
+		pow *= b
+		cells += pow // cyclic table of order k
+		if k >= 2 {
+			cells += pow // non-overlapping blocks
+		}
+	}
+	cells += pow // overlapping linear counts at K
+	return cells + float64(s.classes()*(s.gapCap()+1))
+}
+
+func (s Spec) gapCap() int {
+	if s.GapCap <= 0 {
+		return DefaultGapCap
+	}
+	return s.GapCap
+}
+
+func (s Spec) classes() int {
+	if s.GapClass == nil {
+		return s.Base
+	}
+	return slices.Max(s.GapClass) + 1
+}
+
+// Validate reports whether the Spec is usable.
+func (s Spec) Validate() error {
+	if s.Base < 2 || s.Base > 256 {
+		return fmt.Errorf("tally: base %d outside 2..256", s.Base)
+	}
+	if s.MaxBlock < 1 {
+		return fmt.Errorf("tally: block length %d, need at least 1", s.MaxBlock)
+	}
+	if s.GapClass != nil {
+		if len(s.GapClass) != s.Base {
+			return fmt.Errorf("tally: %d gap classes given for base %d", len(s.GapClass), s.Base)
+		}
+		for _, c := range s.GapClass {
+			if c < 0 {
+				return fmt.Errorf("tally: negative gap class")
+			}
+		}
+	}
+	return nil
+}
+
+// GapTally is the gap record of one digit class: Hist[r] counts complete gaps
+// of r other digits between consecutive occurrences (r < cap) and Hist[cap]
+// the gaps of cap or more. First and Last are the local positions of the
+// first and last occurrence (valid when Seen).
+type GapTally struct {
+	Hist        []int64
+	Seen        bool
+	First, Last int64
+}
+
+// Tally is the one-pass summary of a stretch of a sequence that starts at
+// global digit position Offset. The zero value is not usable: call New.
+type Tally struct {
+	Spec
+	Offset  int64
+	N       int64
+	Digits  []int64   // Digits[d]: occurrences of digit d
+	Overlap []int64   // K-windows lying inside the stretch, indexed by block value
+	Blocks  [][]int64 // Blocks[k], k = 2..K: aligned non-overlapping k-blocks
+	Gaps    []GapTally
+	Head    []byte // first min(N, K-1) digits
+	Tail    []byte // last min(N, K-1) digits
+}
+
+// New returns an empty Tally for a stretch starting at global position offset.
+func New(spec Spec, offset int64) (*Tally, error) {
+	if err := spec.Validate(); err != nil {
+		return nil, err
+	}
+	t := &Tally{Spec: spec, Offset: offset}
+	b := spec.Base
+	t.Digits = make([]int64, b)
+	t.Overlap = make([]int64, ipow(b, spec.MaxBlock))
+	t.Blocks = make([][]int64, spec.MaxBlock+1)
+	for k := 2; k <= spec.MaxBlock; k++ {
+		t.Blocks[k] = make([]int64, ipow(b, k))
+	}
+	t.Gaps = make([]GapTally, spec.classes())
+	for i := range t.Gaps {
+		t.Gaps[i].Hist = make([]int64, spec.gapCap()+1)
+	}
+	t.Head = []byte{}
+	t.Tail = []byte{}
+	return t, nil
+}
+
+func ipow(b, k int) int {
+	p := 1
+	for range k {
+		p *= b
+	}
+	return p
+}
+
+// value returns the block value of digits d (most significant first).
+func value(d []byte, base int) int {
+	v := 0
+	for _, x := range d {
+		v = v*base + int(x)
+	}
+	return v
+}
+
+// Add tallies the next digits of the stretch. Every digit must be below Base
+// (the reader guarantees it); Add panics otherwise.
+func (t *Tally) Add(d []byte) {
+	if len(d) == 0 {
+		return
+	}
+	t.addDigits(d)
+	t.addOverlap(d)
+	for k := 2; k <= t.MaxBlock; k++ {
+		t.addBlocks(k, d)
+	}
+	t.addGaps(d)
+	t.advance(d)
+}
+
+func (t *Tally) addDigits(d []byte) {
+	c := t.Digits
+	for _, x := range d {
+		c[x]++
+	}
+}
+
+// addOverlap counts the K-windows that end inside d.
+func (t *Tally) addOverlap(d []byte) {
+	K, b := t.MaxBlock, t.Base
+	cnt := t.Overlap
+	// Windows that begin in the tail: at most K-1 of them.
+	lead := min(len(d), K-1)
+	y := append(slices.Clip(t.Tail), d[:lead]...)
+	for end := len(t.Tail); end < len(y); end++ {
+		if end+1 >= K {
+			cnt[value(y[end+1-K:end+1], b)]++
+		}
+	}
+	if len(d) < K {
+		return
+	}
+	// Windows inside d, rolling: w' = (w - d[i-K]·b^(K-1))·b + d[i].
+	pow := ipow(b, K-1)
+	w := value(d[:K], b)
+	cnt[w]++
+	for i := K; i < len(d); i++ {
+		w = (w-int(d[i-K])*pow)*b + int(d[i])
+		cnt[w]++
+	}
+}
+
+// addBlocks counts the non-overlapping k-blocks, aligned to global positions
+// that are multiples of k, that end inside d.
+func (t *Tally) addBlocks(k int, d []byte) {
+	b := t.Base
+	cnt := t.Blocks[k]
+	pos := t.Offset + t.N // global position of d[0]
+	have := int(pos % int64(k))
+	cur, skip := 0, 0
+	if have > 0 {
+		if int64(have) <= t.N {
+			cur = value(t.Tail[len(t.Tail)-have:], b)
+		} else { // the block began before this stretch: not ours to count
+			skip = k - have
+			have = 0
+		}
+	}
+	i := 0
+	for ; i < len(d) && skip > 0; i++ {
+		skip--
+	}
+	for ; i < len(d) && have > 0; i++ {
+		cur = cur*b + int(d[i])
+		have++
+		if have == k {
+			cnt[cur]++
+			have, cur = 0, 0
+		}
+	}
+	for ; i+k <= len(d); i += k {
+		cnt[value(d[i:i+k], b)]++
+	}
+}
+
+func (t *Tally) addGaps(d []byte) {
+	cap64 := int64(t.gapCap())
+	for i, x := range d {
+		c := int(x)
+		if t.GapClass != nil {
+			c = t.GapClass[x]
+		}
+		g := &t.Gaps[c]
+		pos := t.N + int64(i)
+		if g.Seen {
+			g.Hist[min(pos-g.Last-1, cap64)]++
+		} else {
+			g.Seen, g.First = true, pos
+		}
+		g.Last = pos
+	}
+}
+
+// advance updates n, head and tail after d has been counted.
+func (t *Tally) advance(d []byte) {
+	keep := t.MaxBlock - 1
+	if len(t.Head) < keep {
+		t.Head = append(t.Head, d[:min(len(d), keep-len(t.Head))]...)
+	}
+	if len(d) >= keep {
+		t.Tail = append(t.Tail[:0], d[len(d)-keep:]...)
+	} else {
+		t.Tail = append(t.Tail, d...)
+		if len(t.Tail) > keep {
+			t.Tail = append(t.Tail[:0], t.Tail[len(t.Tail)-keep:]...)
+		}
+	}
+	t.N += int64(len(d))
+}
