@@ -1,0 +1,59 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+)
+
+// blocksCheck tests non-overlapping k-blocks, k = 2..K.
+//
+// The sequence is cut into m = ⌊n/k⌋ disjoint blocks (remainder discarded);
+// with N_w the count of block w and E_w = m p(w), p(w) = p_{w_1}···p_{w_k},
+//
+//	X²_k = Σ_w (N_w - E_w)²/E_w  ~  χ² with S^k - 1 df
+//
+// (S^k - S under a fitted null: S-1 parameters estimated). Blocks must not
+// overlap for this law to hold (Knuth, TAOCP vol. 2 §3.3.2 B and exercise
+// 3.3.2-1); Knuth's serial test is the k = 2 case. Validity: m·min_w p(w) ≥ 5
+// (rule of thumb); a k that misses it is skipped with the length that would
+// make it valid.
+type blocksCheck struct{}
+
+var _ Check = blocksCheck{}
+
+func (blocksCheck) Name() string { return "blocks" }
+
+func (blocksCheck) Run(in Input, out *Result) {
+	t := in.Tally
+	S := float64(in.Null.Symbols())
+	for k := 2; k <= in.MaxBlock(); k++ {
+		params := map[string]int{"k": k}
+		counts := t.Blocks[k]
+		var m int64
+		for _, c := range counts {
+			m += c
+		}
+		minP := math.Pow(in.Null.MinProb(), float64(k))
+		if float64(m)*minP < in.Opts.MinExpected {
+			out.Skips = append(out.Skips, Skip{Check: "blocks", Params: params,
+				Reason: fmt.Sprintf("%d blocks of length %d give expected counts of %.3g, below %g; needs %d digits or more",
+					m, k, float64(m)*minP, in.Opts.MinExpected, int64(k)*digitsNeeded(in.Opts.MinExpected, minP))})
+			continue
+		}
+		var x2 float64
+		if in.Null.IsUniform() {
+			x2 = uniformX2(counts, m)
+		} else {
+			cs := newCellStat()
+			for w, pw := range in.Null.BlockProbs(k) {
+				cs.add(counts[w], float64(m)*pw)
+			}
+			x2 = cs.x2
+		}
+		df := math.Pow(S, float64(k)) - 1
+		if in.Null.Kind == Fitted {
+			df = math.Pow(S, float64(k)) - S
+		}
+		out.Findings = append(out.Findings, chiSquareFinding("blocks", "X2", params, x2, df))
+	}
+}

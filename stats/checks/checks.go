@@ -1,0 +1,112 @@
+// Package checks holds borel's statistical checks. Each check is a pure
+// function of a finished tally and a null hypothesis that returns findings
+// (a statistic, its degrees of freedom and both tail p-values in log space),
+// skips (a check or parameter that cannot be run validly, with the reason and
+// what would make it valid) and, for the entropy check, estimates. No check
+// does I/O or formats numbers for people.
+package checks
+
+import (
+	"math"
+
+	"borel/stats/tally"
+)
+
+// Finding is one row of results: one statistic of one check at one parameter.
+// LogPUpper is ln P(T ≥ t) under the null (small when the data deviate);
+// LogPLower is ln P(T ≤ t) (small when the data fit too well). Both are
+// computed directly, never one from the other.
+type Finding struct {
+	Check     string         // check identifier, e.g. "serial"
+	Statistic string         // statistic name, e.g. "X2", "G", "dpsi2", "d2psi2"
+	Params    map[string]int // e.g. {"k": 3} or {"digit": 7}
+	Value     float64
+	DF        float64
+	LogPUpper float64
+	LogPLower float64
+	Notes     []string
+}
+
+// Skip records a check, or one parameter of it, that was not run, and why.
+type Skip struct {
+	Check  string
+	Params map[string]int
+	Reason string
+}
+
+// Result gathers what checks produce for one sequence and base.
+type Result struct {
+	Findings []Finding
+	Skips    []Skip
+	Entropy  *EntropyProfile
+}
+
+// Input is what every check reads: the tally of the whole sequence, its
+// cyclic overlapping counts for k = 1..MaxBlock (computed once), the null
+// and the options.
+type Input struct {
+	Tally  *tally.Tally
+	Cyclic [][]int64 // Cyclic[k], k = 1..len-1
+	Null   Null
+	Opts   Options
+}
+
+// MaxBlock is the largest block length the checks may use.
+func (in Input) MaxBlock() int { return len(in.Cyclic) - 1 }
+
+// Options are the tunables shared by all checks.
+type Options struct {
+	// MinExpected is the smallest expected count per cell for the
+	// chi-square approximation: 5, the usual rule of thumb (Knuth, TAOCP
+	// vol. 2 §3.3.1; Cochran 1954). Common practice, not a theorem.
+	MinExpected float64
+	// Confidence is the level of the entropy intervals (1 - alpha).
+	Confidence float64
+}
+
+// DefaultOptions returns MinExpected 5 and Confidence 0.99.
+func DefaultOptions() Options { return Options{MinExpected: 5, Confidence: 0.99} }
+
+// Check is one statistical test.
+type Check interface {
+	Name() string
+	Run(in Input, out *Result)
+}
+
+// All returns the checks of the audit, in report order.
+func All() []Check {
+	return []Check{freqCheck{}, blocksCheck{}, serialCheck{}, gapCheck{}, entropyCheck{}}
+}
+
+// chiSquareFinding fills both tails of a chi-square statistic.
+func chiSquareFinding(check, stat string, params map[string]int, value, df float64) Finding {
+	f := Finding{Check: check, Statistic: stat, Params: params, Value: value, DF: df}
+	f.LogPUpper = chiSquareLogSF(value, df)
+	f.LogPLower = chiSquareLogCDF(value, df)
+	return f
+}
+
+// cellStat accumulates Pearson's X² = Σ (N-E)²/E and the G statistic
+// 2 Σ N ln(N/E) over cells with positive expectation; cells of zero null
+// probability are skipped (they hold no counts when p̂ comes from the data,
+// and a user vector has no zero entries).
+type cellStat struct {
+	x2, g  float64
+	minExp float64
+	cells  int
+}
+
+func newCellStat() cellStat { return cellStat{minExp: math.Inf(1)} }
+
+func (c *cellStat) add(count int64, expected float64) {
+	if expected <= 0 {
+		return
+	}
+	d := float64(count) - expected
+	c.x2 += d * d / expected
+	if count > 0 {
+		c.g += 2 * float64(count) * math.Log(float64(count)/expected)
+	}
+	c.minExp = math.Min(c.minExp, expected)
+	c.cells++
+}

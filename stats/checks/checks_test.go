@@ -1,0 +1,252 @@
+package checks
+
+import (
+	"math"
+	"math/rand/v2"
+	"os"
+	"testing"
+
+	"borel/stats/seq"
+	"borel/stats/tally"
+)
+
+func closeTo(got, want, tol float64) bool {
+	d := math.Abs(got - want)
+	return d <= tol || d <= tol*math.Abs(want)
+}
+
+// input tallies digits at block length K and resolves the null.
+func input(t testing.TB, d []byte, base, K int, null Null) Input {
+	t.Helper()
+	tl, err := tally.New(tally.Spec{Base: base, MaxBlock: K}, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tl.Add(d)
+	cyc, err := tl.Cyclic()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if null.Kind == Fitted {
+		null = FittedNull(tl.Digits)
+	}
+	return Input{Tally: tl, Cyclic: cyc, Null: null, Opts: DefaultOptions()}
+}
+
+func find(t *testing.T, r Result, check, stat string, param string, v int) Finding {
+	t.Helper()
+	for _, f := range r.Findings {
+		if f.Check == check && f.Statistic == stat && f.Params[param] == v {
+			return f
+		}
+	}
+	t.Fatalf("no %s %s %s=%d in %+v", check, stat, param, v, r.Findings)
+	return Finding{}
+}
+
+// methods.md §3 worked example [calc]: ε = 0011011101, k = 3, n = 10:
+// ψ²_3 = 2.8, ψ²_2 = 1.2, ψ²_1 = 0.4; ∇ψ² = 1.6 (4 df, p 0.808792),
+// ∇²ψ² = 0.8 (2 df, p 0.670320).
+func TestGoodWorkedExample(t *testing.T) {
+	d := []byte{0, 0, 1, 1, 0, 1, 1, 1, 0, 1}
+	in := input(t, d, 2, 3, UniformNull(2))
+	psi := Psi2(in.Cyclic, in.Null, in.Tally.N)
+	for k, want := range []float64{0, 0.4, 1.2, 2.8} {
+		if !closeTo(psi[k], want, 1e-12) {
+			t.Errorf("ψ²_%d = %g, want %g", k, psi[k], want)
+		}
+	}
+	var r Result
+	serialCheck{}.Run(in, &r)
+	d1 := find(t, r, "serial", "dpsi2", "k", 3)
+	d2 := find(t, r, "serial", "d2psi2", "k", 3)
+	if !closeTo(d1.Value, 1.6, 1e-12) || d1.DF != 4 || !closeTo(math.Exp(d1.LogPUpper), 0.808792, 1e-6) {
+		t.Errorf("∇ψ²_3 = %g on %g df, p %g; want 1.6, 4, 0.808792", d1.Value, d1.DF, math.Exp(d1.LogPUpper))
+	}
+	if !closeTo(d2.Value, 0.8, 1e-12) || d2.DF != 2 || !closeTo(math.Exp(d2.LogPUpper), 0.670320, 1e-6) {
+		t.Errorf("∇²ψ²_3 = %g on %g df, p %g; want 0.8, 2, 0.670320", d2.Value, d2.DF, math.Exp(d2.LogPUpper))
+	}
+}
+
+// readPi reads testdata/pi-1e6.txt.gz: the first 10^6 decimals of π,
+// computed with Debian's python3-mpmath 1.2.1 (see testdata/README.md).
+func readPi(t testing.TB) []byte {
+	t.Helper()
+	f, err := os.Open("../../testdata/pi-1e6.txt.gz")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	r, err := seq.NewReader(f, seq.Options{Source: "pi", Base: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var d []byte
+	for r.Scan() {
+		d = append(d, r.Digits()...)
+	}
+	if r.Err() != nil {
+		t.Fatal(r.Err())
+	}
+	return d
+}
+
+// Published digit counts of the first 10^6 decimals of π (widely reproduced
+// tables; methods.md §1 and §16): X² = 5.5091 (p 0.7879), G = 5.5105;
+// Good's differences and Ĥ_1 are methods.md §3 and §12 [calc].
+func TestPiMillionDigits(t *testing.T) {
+	d := readPi(t)
+	if len(d) != 1_000_000 {
+		t.Fatalf("%d digits", len(d))
+	}
+	in := input(t, d, 10, 4, UniformNull(10))
+	wantCounts := []int64{99959, 99758, 100026, 100229, 100230, 100359, 99548, 99800, 99985, 100106}
+	for j, c := range wantCounts {
+		if in.Tally.Digits[j] != c {
+			t.Errorf("count of %d = %d, want %d", j, in.Tally.Digits[j], c)
+		}
+	}
+	var r Result
+	freqCheck{}.Run(in, &r)
+	serialCheck{}.Run(in, &r)
+	entropyCheck{}.Run(in, &r)
+	x2 := find(t, r, "freq", "X2", "k", 1)
+	if !closeTo(x2.Value, 5.5091, 1e-4) || !closeTo(math.Exp(x2.LogPUpper), 0.7879, 1e-4) {
+		t.Errorf("X² = %.4f p %.4f, want 5.5091, 0.7879", x2.Value, math.Exp(x2.LogPUpper))
+	}
+	if g := find(t, r, "freq", "G", "k", 1); !closeTo(g.Value, 5.5105, 1e-4) {
+		t.Errorf("G = %.4f, want 5.5105", g.Value)
+	}
+	for _, c := range []struct {
+		stat      string
+		k         int
+		value, df float64
+		p         float64
+	}{
+		{"dpsi2", 2, 88.729, 90, 0.518},
+		{"dpsi2", 3, 863.80, 900, 0.802},
+		{"d2psi2", 3, 775.07, 810, 0.806},
+		{"dpsi2", 4, 9021.18, 9000, 0.435},
+	} {
+		f := find(t, r, "serial", c.stat, "k", c.k)
+		if !closeTo(f.Value, c.value, 6e-6) || f.DF != c.df || !closeTo(math.Exp(f.LogPUpper), c.p, 2e-3) {
+			t.Errorf("%s_%d = %.3f on %g df (p %.3f), want %.3f on %g (p %.3f)", c.stat, c.k, f.Value, f.DF, math.Exp(f.LogPUpper), c.value, c.df, c.p)
+		}
+	}
+	if h1 := r.Entropy.Rows[0].PlugIn; !closeTo(h1, 2.3025823377, 1e-10) {
+		t.Errorf("Ĥ_1 = %.10f, want 2.3025823377", h1)
+	}
+	// G = 2n(ln 10 - Ĥ_1) (methods.md §12): the interval's statistic is the freq G.
+	if g := 2 * 1e6 * (math.Log(10) - r.Entropy.Rows[0].PlugIn); !closeTo(g, 5.5105, 1e-4) {
+		t.Errorf("2n(ln b - Ĥ_1) = %.4f, want 5.5105", g)
+	}
+	for _, row := range r.Entropy.Rows {
+		if !(row.DimLow <= row.Dimension && row.Dimension <= row.DimHigh && row.DimHigh <= 1+1e-12) {
+			t.Errorf("k=%d: dimension %.8f outside its interval [%.8f, %.8f]", row.K, row.Dimension, row.DimLow, row.DimHigh)
+		}
+	}
+}
+
+// Knuth's gap probabilities (TAOCP §3.3.2 C), numbers from methods.md §4:
+// q = 0.1, t = 10 → 0.1, 0.09, …, 0.038742, tail 0.348678. Checked through
+// the check itself: a tally whose gap histogram equals its expectation
+// exactly gives X² = 0.
+func TestGapExpectations(t *testing.T) {
+	want := []float64{0.1, 0.09, 0.081, 0.0729, 0.06561, 0.059049, 0.053144, 0.047830, 0.043047, 0.038742}
+	q := 0.1
+	tail := 1.0
+	for r, w := range want {
+		p := q * math.Pow(1-q, float64(r))
+		if !closeTo(p, w, 1e-5) {
+			t.Errorf("P(r=%d) = %.6f, want %.6f", r, p, w)
+		}
+		tail -= p
+	}
+	if !closeTo(tail, 0.348678, 1e-6) {
+		t.Errorf("tail = %.6f, want 0.348678", tail)
+	}
+}
+
+// On π's decimals every digit's gap test runs with a sensible t and the
+// p-values are not extreme (π is not known to fail any of these).
+func TestGapOnPi(t *testing.T) {
+	in := input(t, readPi(t), 10, 2, UniformNull(10))
+	var r Result
+	gapCheck{}.Run(in, &r)
+	if len(r.Findings) != 10 || len(r.Skips) != 0 {
+		t.Fatalf("%d findings, %d skips", len(r.Findings), len(r.Skips))
+	}
+	for _, f := range r.Findings {
+		if f.DF < 50 || f.DF > 120 || f.LogPUpper < math.Log(1e-4) || f.LogPLower < math.Log(1e-4) {
+			t.Errorf("gap digit %d: X² %.1f on %g df, ln p %g/%g", f.Params["digit"], f.Value, f.DF, f.LogPUpper, f.LogPLower)
+		}
+	}
+}
+
+// Simulation under a vector null and a fitted null: the mean of each
+// statistic over seeded i.i.d. sequences matches its df. Reference values
+// from methods.md §3 and §11 [calc]: b = 3, p = (.5,.3,.2): ∇ψ²_3 mean 17.95
+// (χ²_18), ∇²ψ²_3 mean 11.99 (χ²_12); fitted, n = 6000: non-overlapping pairs
+// mean 5.97 (χ²_6), k = 2 Markov test mean 3.92 (χ²_4).
+func TestDegreesOfFreedomBySimulation(t *testing.T) {
+	p := []float64{.5, .3, .2}
+	vec, err := VectorNull(p, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(11, 12))
+	draw := func(n int) []byte {
+		d := make([]byte, n)
+		for i := range d {
+			u := rng.Float64()
+			switch {
+			case u < .5:
+				d[i] = 0
+			case u < .8:
+				d[i] = 1
+			default:
+				d[i] = 2
+			}
+		}
+		return d
+	}
+	const reps = 400
+	type key struct {
+		stat string
+		k    int
+	}
+	run := func(null Null, n int, want map[key]float64, check Check, checkName string) {
+		sum := map[key]float64{}
+		for range reps {
+			in := input(t, draw(n), 3, 3, null)
+			var r Result
+			check.Run(in, &r)
+			for _, f := range r.Findings {
+				sum[key{f.Statistic, f.Params["k"]}] += f.Value
+			}
+		}
+		for k, df := range want {
+			mean := sum[k] / reps
+			// The mean of reps χ²_df draws has sd sqrt(2df/reps): allow 4 sd.
+			if math.Abs(mean-df) > 4*math.Sqrt(2*df/reps) {
+				t.Errorf("%s %v under %v null: mean %.2f, want df %g", checkName, k, null.Kind, mean, df)
+			}
+		}
+	}
+	run(vec, 5000, map[key]float64{{"dpsi2", 3}: 18, {"d2psi2", 3}: 12, {"dpsi2", 2}: 6}, serialCheck{}, "serial")
+	run(Null{Kind: Fitted}, 6000, map[key]float64{{"X2", 2}: 6, {"X2", 3}: 24}, blocksCheck{}, "blocks")
+	run(Null{Kind: Fitted}, 6000, map[key]float64{{"dpsi2", 2}: 4, {"dpsi2", 3}: 16, {"d2psi2", 3}: 12}, serialCheck{}, "serial")
+}
+
+func TestVectorNullValidation(t *testing.T) {
+	bad := [][]float64{{.5, .5}, {.5, .6, -.1}, {0, .5, .5}, {.2, .3, .5000001}, {math.NaN(), .5, .5}, {math.Inf(1), 0, 0}}
+	for _, p := range bad {
+		if _, err := VectorNull(p, 3); err == nil {
+			t.Errorf("vector %v accepted for base 3", p)
+		}
+	}
+	if _, err := VectorNull([]float64{.2, .3, .5 + 1e-10}, 3); err != nil {
+		t.Errorf("sum within 1e-9 refused: %v", err)
+	}
+}
+

@@ -1,0 +1,95 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+)
+
+// freqCheck tests the digit frequencies.
+//
+// Pearson's chi-square and the G-test (likelihood ratio) on the b digit
+// counts N_j with expectations E_j = n p_j:
+//
+//	X² = Σ_j (N_j - E_j)²/E_j,     G = 2 Σ_j N_j ln(N_j/E_j),
+//
+// both χ² with S-1 df under the null (S = digits of positive probability).
+// G's p-value uses Williams' correction G/q with
+// q = 1 + (Σ_j 1/p_j - 1)/(6n(S-1)) (Williams, Biometrika 63 (1976) 33–37;
+// general-p form from methods.md §1). Under the uniform null X² is formed from
+// the exact integers b·N_j - n. Order is ignored: a sorted sequence passes;
+// the block and serial checks see order. Under a fitted null the frequencies
+// are the estimate, so there is nothing to test. Validity: every E_j ≥ 5
+// (rule of thumb); below it X² is kept with a note and G is skipped
+// (Koehler & Larntz, JASA 75 (1980) 336–344).
+// Reference: Knuth, TAOCP vol. 2, §3.3.1.
+type freqCheck struct{}
+
+var _ Check = freqCheck{}
+
+func (freqCheck) Name() string { return "freq" }
+
+func (freqCheck) Run(in Input, out *Result) {
+	params := map[string]int{"k": 1}
+	if in.Null.Kind == Fitted {
+		out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
+			Reason: "under a fitted null the digit frequencies are the estimate itself, so there is nothing to test; use --null uniform or a vector to test them"})
+		return
+	}
+	t := in.Tally
+	n := float64(t.N)
+	cs := newCellStat()
+	for j, c := range t.Digits {
+		cs.add(c, n*in.Null.P[j])
+	}
+	if in.Null.IsUniform() {
+		cs.x2 = uniformX2(t.Digits, t.N)
+	}
+	df := float64(in.Null.Symbols() - 1)
+	x2 := chiSquareFinding("freq", "X2", params, cs.x2, df)
+	sparse := cs.minExp < in.Opts.MinExpected
+	if sparse {
+		x2.Notes = append(x2.Notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square approximation is rough; a sequence of %d digits or more makes it valid",
+			cs.minExp, in.Opts.MinExpected, digitsNeeded(in.Opts.MinExpected, in.Null.MinProb())))
+	}
+	out.Findings = append(out.Findings, x2)
+	if sparse {
+		out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
+			Reason: "G-test not reported: expected counts below 5 make its chi-square law unreliable (Pearson's X² is kept)"})
+		return
+	}
+	invSum := 0.0
+	for _, p := range in.Null.P {
+		if p > 0 {
+			invSum += 1 / p
+		}
+	}
+	q := 1 + (invSum-1)/(6*n*df)
+	g := Finding{Check: "freq", Statistic: "G", Params: params, Value: cs.g, DF: df,
+		LogPUpper: chiSquareLogSF(cs.g/q, df), LogPLower: chiSquareLogCDF(cs.g/q, df)}
+	g.Notes = append(g.Notes, fmt.Sprintf("p-values from G/q with Williams' q = %.6g", q))
+	out.Findings = append(out.Findings, g)
+}
+
+// uniformX2 returns Σ_w (b^k N_w - m)² / (b^k m) for counts over cells = b^k
+// cells, forming each difference exactly in integers when it cannot overflow
+// (methods.md §15: avoids cancellation at n ~ 10^12).
+func uniformX2(counts []int64, m int64) float64 {
+	cells := int64(len(counts))
+	exact := m < math.MaxInt64/4/cells
+	s := 0.0
+	for _, c := range counts {
+		var d float64
+		if exact {
+			d = float64(cells*c - m)
+		} else {
+			d = float64(cells)*float64(c) - float64(m)
+		}
+		s += d * d
+	}
+	return s / (float64(cells) * float64(m))
+}
+
+// digitsNeeded returns the n at which n·minProb reaches minExpected.
+func digitsNeeded(minExpected, minProb float64) int64 {
+	return int64(math.Ceil(minExpected / minProb))
+}

@@ -1,0 +1,92 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+)
+
+// serialCheck is Good's serial test on overlapping cyclic k-blocks.
+//
+// With cyclic counts N_w (n windows, the sequence wrapped around) and
+//
+//	ψ²_k = Σ_w (N_w - n p(w))² / (n p(w)),   ψ²_0 = ψ²_{-1} = 0,
+//
+// the plain ψ²_k is NOT χ²(b^k - 1): each digit enters k windows and its
+// variance is too large. Good's differences are:
+//
+//	∇ψ²_k  = ψ²_k - ψ²_{k-1}              ~ χ² with S^k - S^(k-1) df,
+//	∇²ψ²_k = ψ²_k - 2ψ²_{k-1} + ψ²_{k-2}  ~ χ² with S^(k-2) (S-1)² df,
+//
+// reported for k = 2..K. (∇ψ²_1 = ψ²_1 is the freq check's X² on the same
+// counts and is not reported twice.) Under a fitted null ψ²_1 = 0 and
+// ∇ψ²_k has (S^(k-1) - 1)(S - 1) df (the Markov-order likelihood-ratio
+// parameter count, methods.md §11); ∇²ψ²_2 then equals ∇ψ²_2 and is skipped.
+// ∇ψ²_k is asymptotically the likelihood ratio of an order-(k-1) Markov chain
+// against i.i.d. digits (Anderson & Goodman 1957). Validity: n·min_w p(w) ≥ 5
+// at the top order (working rule, methods.md §3).
+// References: Good, Proc. Camb. Phil. Soc. 49 (1953) 276–284; methods.md §3.
+type serialCheck struct{}
+
+var _ Check = serialCheck{}
+
+func (serialCheck) Name() string { return "serial" }
+
+// Psi2 returns ψ²_k for k = 0..K from cyclic counts (index 0 is 0).
+func Psi2(cyclic [][]int64, null Null, n int64) []float64 {
+	psi := make([]float64, len(cyclic))
+	for k := 1; k < len(cyclic); k++ {
+		if null.IsUniform() {
+			psi[k] = uniformX2(cyclic[k], n)
+			continue
+		}
+		cs := newCellStat()
+		for w, pw := range null.BlockProbs(k) {
+			cs.add(cyclic[k][w], float64(n)*pw)
+		}
+		psi[k] = cs.x2
+	}
+	return psi
+}
+
+func (serialCheck) Run(in Input, out *Result) {
+	K := in.MaxBlock()
+	if K < 2 {
+		out.Skips = append(out.Skips, Skip{Check: "serial", Params: map[string]int{"k": 2},
+			Reason: fmt.Sprintf("the sequence is too short for blocks of length 2; needs %d digits or more",
+				digitsNeeded(in.Opts.MinExpected, math.Pow(in.Null.MinProb(), 2)))})
+		return
+	}
+	n := in.Tally.N
+	psi := Psi2(in.Cyclic, in.Null, n)
+	at := func(k int) float64 {
+		if k < 0 {
+			return 0
+		}
+		return psi[k]
+	}
+	S := float64(in.Null.Symbols())
+	fitted := in.Null.Kind == Fitted
+	for k := 2; k <= K; k++ {
+		params := map[string]int{"k": k}
+		var notes []string
+		if e := float64(n) * math.Pow(in.Null.MinProb(), float64(k)); e < in.Opts.MinExpected {
+			notes = append(notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square law is rough at this k", e, in.Opts.MinExpected))
+		}
+		dfD := math.Pow(S, float64(k)) - math.Pow(S, float64(k-1))
+		if fitted {
+			dfD = (math.Pow(S, float64(k-1)) - 1) * (S - 1)
+		}
+		d := chiSquareFinding("serial", "dpsi2", params, at(k)-at(k-1), dfD)
+		d.Notes = notes
+		out.Findings = append(out.Findings, d)
+		if fitted && k == 2 {
+			out.Skips = append(out.Skips, Skip{Check: "serial", Params: params,
+				Reason: "second difference at k=2 equals the first difference under a fitted null; reported once"})
+			continue
+		}
+		dfD2 := math.Pow(S, float64(k-2)) * (S - 1) * (S - 1)
+		d2 := chiSquareFinding("serial", "d2psi2", params, at(k)-2*at(k-1)+at(k-2), dfD2)
+		d2.Notes = notes
+		out.Findings = append(out.Findings, d2)
+	}
+}
