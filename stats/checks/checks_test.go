@@ -249,4 +249,3 @@ func TestVectorNullValidation(t *testing.T) {
 		t.Errorf("sum within 1e-9 refused: %v", err)
 	}
 }
-
