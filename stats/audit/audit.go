@@ -1,0 +1,324 @@
+// Package audit runs borel's battery on one sequence in one base: it plans
+// the block lengths (validity rule and memory budget), makes the one pass
+// over the digits into a tally, runs every check, adjusts the p-values of
+// the whole family, and gives the verdict. It returns data; rendering is the
+// reports package's job.
+package audit
+
+import (
+	"fmt"
+	"math"
+
+	"borel/stats"
+	"borel/stats/checks"
+	"borel/stats/seq"
+	"borel/stats/tally"
+)
+
+// Verdicts.
+const (
+	Consistent    = "consistent"
+	NotConsistent = "not consistent"
+	TooUniform    = "too uniform"
+)
+
+// Finding marks.
+const (
+	MarkDeviates   = "deviates"    // upper tail significant after adjustment
+	MarkTooUniform = "too uniform" // lower tail significant after adjustment
+)
+
+// Adjustment methods.
+const (
+	Holm = "holm"
+	BH   = "bh"
+)
+
+// NullSpec is the null as the user gave it, before the data are seen.
+type NullSpec struct {
+	Kind checks.NullKind
+	P    []float64 // for Vector
+}
+
+// Options holds the tunables of an audit.
+type Options struct {
+	Alpha       float64 // significance level of the verdict, in (0, 1)
+	Adjustment  string  // Holm (default) or BH
+	MaxBlock    int     // 0: choose automatically
+	MemoryBytes int64   // budget for the count tables
+	MinExpected float64 // smallest expected count per cell (rule of thumb 5)
+	Null        NullSpec
+}
+
+// DefaultOptions returns alpha 0.01, Holm, automatic K, 256 MiB, minimum
+// expected count 5, uniform null.
+func DefaultOptions() Options {
+	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5}
+}
+
+// Source describes where a sequence came from, for the report.
+type Source struct {
+	Name        string // as the user gave it: a path, "-" or a built-in name
+	Kind        string // "file", "stdin" or "built-in"
+	Format      string // "text", "raw" or "bits"
+	Bytes       int64  // input size in bytes when known, else -1
+	Compressed  bool
+	IntegerPart string // dropped integer part, "" when none
+}
+
+// Finding is a check's finding with its adjusted p-values and mark.
+type Finding struct {
+	checks.Finding
+	LogAdjUpper float64
+	LogAdjLower float64
+	Mark        string
+}
+
+// Result is the audit of one sequence in one base.
+type Result struct {
+	Source      Source
+	Base        int
+	Digits      int64
+	Null        checks.Null
+	Alpha       float64
+	Adjustment  string
+	MaxBlock    int    // largest block length the checks used
+	BlockChoice string // how MaxBlock was chosen, in words
+	Findings    []Finding
+	Skips       []checks.Skip
+	Entropy     *checks.EntropyProfile
+	Verdict     string
+	Notes       []string
+}
+
+// Plan is what an audit decides before reading: the tally to fill.
+type Plan struct {
+	Spec  tally.Spec
+	Auto  bool
+	Notes []string
+	opts  Options
+}
+
+// unknownLengthCells caps the tables when the input length is not known in
+// advance (stdin, compressed input): about 8 MiB per table.
+const unknownLengthCells = 1 << 20
+
+// validBlock returns the largest k ≥ 1 with n·minP^k ≥ minExpected, or 0.
+func validBlock(n float64, minP, minExpected float64) int {
+	k := 0
+	for e := n * minP; e >= minExpected && k < 64; e *= minP {
+		k++
+	}
+	return k
+}
+
+func gapClasses(base int) []int {
+	if base <= seq.MaxTextBase {
+		return nil
+	}
+	classes := make([]int, base)
+	for d := range classes {
+		classes[d] = d * 16 / base
+	}
+	return classes
+}
+
+func mib(bytes float64) string { return fmt.Sprintf("%.0f MiB", math.Ceil(bytes/(1<<20))) }
+
+// NewPlan decides the tally for a sequence in base b whose length is at
+// most sizeHint digits (sizeHint < 0: unknown). An explicit MaxBlock whose
+// tables exceed the memory budget is an error that says what it would need.
+func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
+	if err := validateOptions(opts); err != nil {
+		return nil, err
+	}
+	p := &Plan{opts: opts, Spec: tally.Spec{Base: base, GapClass: gapClasses(base)}}
+	bytesFor := func(k int) float64 {
+		s := p.Spec
+		s.MaxBlock = k
+		return 8 * s.Cells()
+	}
+	if opts.MaxBlock > 0 {
+		if need := bytesFor(opts.MaxBlock); need > float64(opts.MemoryBytes) {
+			return nil, fmt.Errorf("--max-block %d needs %s of count tables in base %d, over the memory budget of %s; lower --max-block or raise --memory",
+				opts.MaxBlock, mib(need), base, mib(float64(opts.MemoryBytes)))
+		}
+		p.Spec.MaxBlock = opts.MaxBlock
+		return p, nil
+	}
+	p.Auto = true
+	budgetK := 1
+	for bytesFor(budgetK+1) <= float64(opts.MemoryBytes) {
+		budgetK++
+	}
+	minP := 1 / float64(base)
+	if opts.Null.Kind == checks.Vector {
+		minP = checks.Null{P: opts.Null.P}.MinProb()
+	}
+	var k int
+	if sizeHint >= 0 {
+		k = validBlock(float64(sizeHint), minP, opts.MinExpected)
+	} else {
+		k = 1
+		for math.Pow(float64(base), float64(k+1)) <= unknownLengthCells {
+			k++
+		}
+	}
+	k = max(1, min(k, budgetK))
+	p.Spec.MaxBlock = k
+	return p, nil
+}
+
+func validateOptions(o Options) error {
+	if !(o.Alpha > 0 && o.Alpha < 1) {
+		return fmt.Errorf("alpha %v is outside (0, 1)", o.Alpha)
+	}
+	if o.Adjustment != Holm && o.Adjustment != BH {
+		return fmt.Errorf("adjustment %q: use holm or bh", o.Adjustment)
+	}
+	if o.MemoryBytes <= 0 {
+		return fmt.Errorf("memory budget must be positive")
+	}
+	if !(o.MinExpected > 0) {
+		return fmt.Errorf("minimum expected count must be positive")
+	}
+	return nil
+}
+
+// Tally reads every digit of r into a new tally of the plan.
+func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
+	t, err := tally.New(p.Spec, 0)
+	if err != nil {
+		return nil, err
+	}
+	for r.Scan() {
+		t.Add(r.Digits())
+	}
+	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+// Finish runs the checks on a finished tally of the whole sequence and
+// returns the audit result.
+func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
+	opts := p.opts
+	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment}
+	switch opts.Null.Kind {
+	case checks.Vector:
+		null, err := checks.VectorNull(opts.Null.P, t.Base)
+		if err != nil {
+			return nil, err
+		}
+		res.Null = null
+	case checks.Fitted:
+		res.Null = checks.FittedNull(t.Digits)
+	default:
+		res.Null = checks.UniformNull(t.Base)
+	}
+	K := p.Spec.MaxBlock
+	valid := validBlock(float64(t.N), res.Null.MinProb(), opts.MinExpected)
+	if p.Auto {
+		switch {
+		case valid > K && src.Bytes < 0:
+			res.Notes = append(res.Notes, fmt.Sprintf("the input length was not known before reading (stdin or compressed), so blocks were tallied up to k=%d; k=%d would be valid for %d digits: audit a file, or set --max-block %d",
+				K, valid, t.N, valid))
+		case valid > K:
+			res.Notes = append(res.Notes, fmt.Sprintf("blocks stop at k=%d because of the memory budget (--memory); k=%d would be valid for %d digits", K, valid, t.N))
+		}
+		K = max(1, min(K, valid))
+		res.BlockChoice = fmt.Sprintf("largest k with every expected count n·min p(w) at least %g (rule of thumb), within the memory budget", opts.MinExpected)
+	} else {
+		res.BlockChoice = "set by --max-block"
+		if valid < K {
+			res.Notes = append(res.Notes, fmt.Sprintf("--max-block %d is beyond the rule of thumb (k ≤ %d for %d digits): expect notes on sparse cells", K, valid, t.N))
+		}
+	}
+	if t.N < int64(K) {
+		return nil, fmt.Errorf("%s: %d digits are too few for --max-block %d", src.Name, t.N, K)
+	}
+	cyc, err := t.Cyclic()
+	if err != nil {
+		return nil, err
+	}
+	res.MaxBlock = K
+	in := checks.Input{Tally: t, Cyclic: cyc[:K+1], Null: res.Null,
+		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
+	var out checks.Result
+	for _, c := range checks.All() {
+		c.Run(in, &out)
+	}
+	res.Skips = out.Skips
+	res.Entropy = out.Entropy
+	if src.IntegerPart != "" {
+		res.Notes = append(res.Notes, fmt.Sprintf("integer part %q dropped: the sequence is the digits after the radix point", src.IntegerPart))
+	}
+	res.Findings, res.Verdict = adjust(out.Findings, opts)
+	if res.Verdict == NotConsistent {
+		for _, f := range res.Findings {
+			if f.Mark == MarkTooUniform {
+				res.Notes = append(res.Notes, "some findings are also too uniform: the sequence deviates in some respects and fits better than chance allows in others, which points to construction rather than chance")
+				break
+			}
+		}
+	}
+	return res, nil
+}
+
+// adjust applies the multiple-testing adjustment to the family of every
+// (finding, tail) and returns the verdict: not consistent when any adjusted
+// upper-tail p is below alpha, else too uniform when any adjusted lower-tail
+// p is, else consistent.
+func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
+	logP := make([]float64, 0, 2*len(fs))
+	for _, f := range fs {
+		logP = append(logP, f.LogPUpper, f.LogPLower)
+	}
+	var adj []float64
+	if opts.Adjustment == BH {
+		adj = stats.BHLog(logP)
+	} else {
+		adj = stats.HolmLog(logP)
+	}
+	lnAlpha := math.Log(opts.Alpha)
+	out := make([]Finding, len(fs))
+	verdict := Consistent
+	for i, f := range fs {
+		a := Finding{Finding: f, LogAdjUpper: adj[2*i], LogAdjLower: adj[2*i+1]}
+		switch {
+		case a.LogAdjUpper <= lnAlpha:
+			a.Mark = MarkDeviates
+			verdict = NotConsistent
+		case a.LogAdjLower <= lnAlpha:
+			a.Mark = MarkTooUniform
+			if verdict == Consistent {
+				verdict = TooUniform
+			}
+		}
+		out[i] = a
+	}
+	return out, verdict
+}
+
+// Digits audits a sequence held in memory (built-in sequences, tests).
+func Digits(d []byte, base int, src Source, opts Options) (*Result, error) {
+	p, err := NewPlan(base, int64(len(d)), opts)
+	if err != nil {
+		return nil, err
+	}
+	t, err := tally.New(p.Spec, 0)
+	if err != nil {
+		return nil, err
+	}
+	for i, x := range d {
+		if int(x) >= base {
+			return nil, fmt.Errorf("%s: digit %d at position %d is not below base %d", src.Name, x, i, base)
+		}
+	}
+	t.Add(d)
+	if t.N == 0 {
+		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
+	}
+	return p.Finish(t, src)
+}

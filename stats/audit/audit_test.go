@@ -1,0 +1,223 @@
+package audit
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"borel/stats/checks"
+)
+
+// deBruijn returns the cyclic de Bruijn sequence B(b, k) of length b^k, by
+// the Fredricksen–Kessler–Maiorana (Lyndon word) construction: every k-word
+// occurs exactly once cyclically, so every j-word (j ≤ k) occurs exactly
+// b^(k-j) times (methods.md §16).
+func deBruijn(b, k int) []byte {
+	a := make([]int, b*k)
+	var out []byte
+	var db func(t, p int)
+	db = func(t, p int) {
+		if t > k {
+			if k%p == 0 {
+				for _, v := range a[1 : p+1] {
+					out = append(out, byte(v))
+				}
+			}
+			return
+		}
+		a[t] = a[t-p]
+		db(t+1, p)
+		for j := a[t-p] + 1; j < b; j++ {
+			a[t] = j
+			db(t+1, t)
+		}
+	}
+	db(1, 1)
+	return out
+}
+
+func auditOf(t *testing.T, d []byte, base int, opts Options) *Result {
+	t.Helper()
+	r, err := Digits(d, base, Source{Name: "test", Kind: "built-in"}, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// randomDeBruijn returns a de Bruijn sequence B(b, k) drawn by a random
+// Eulerian circuit of the de Bruijn graph (nodes: (k-1)-words; edges:
+// k-words), Hierholzer's algorithm with shuffled edge order. Every k-word
+// occurs once cyclically, as in any de Bruijn sequence, without the
+// lexicographic structure of the FKM construction.
+func randomDeBruijn(b, k int, rng *rand.Rand) []byte {
+	nodes := int(math.Pow(float64(b), float64(k-1)))
+	next := make([][]int, nodes) // unused out-edges (last digit) per node
+	for v := range next {
+		next[v] = rng.Perm(b)
+	}
+	stack := []int{0}
+	var circuit []int
+	for len(stack) > 0 {
+		v := stack[len(stack)-1]
+		if len(next[v]) > 0 {
+			a := next[v][len(next[v])-1]
+			next[v] = next[v][:len(next[v])-1]
+			stack = append(stack, (v*b+a)%nodes)
+		} else {
+			circuit = append(circuit, v)
+			stack = stack[:len(stack)-1]
+		}
+	}
+	// circuit is reversed; the digit added on each edge is the node's last digit.
+	out := make([]byte, 0, nodes*b)
+	for i := len(circuit) - 2; i >= 0; i-- {
+		out = append(out, byte(circuit[i]%b))
+	}
+	return out
+}
+
+// assertEveryWordOnce checks the de Bruijn property: each k-word once, cyclically.
+func assertEveryWordOnce(t *testing.T, d []byte, b, k int) {
+	t.Helper()
+	seen := make([]bool, int(math.Pow(float64(b), float64(k))))
+	for i := range d {
+		w := 0
+		for j := 0; j < k; j++ {
+			w = w*b + int(d[(i+j)%len(d)])
+		}
+		if seen[w] {
+			t.Fatalf("word %d occurs twice", w)
+		}
+		seen[w] = true
+	}
+	if len(d) != len(seen) {
+		t.Fatalf("length %d, want %d", len(d), len(seen))
+	}
+}
+
+// A de Bruijn sequence holds every k-word exactly once cyclically, so every
+// overlapping j-block count equals its expectation (ψ²_j = 0) — the
+// canonical "too uniform" input (methods.md §16).
+func TestDeBruijnIsTooUniform(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	for _, c := range []struct{ b, k int }{{2, 16}, {10, 5}} {
+		d := randomDeBruijn(c.b, c.k, rng)
+		assertEveryWordOnce(t, d, c.b, c.k)
+		r := auditOf(t, d, c.b, DefaultOptions())
+		if r.Verdict != TooUniform {
+			t.Errorf("random B(%d,%d): verdict %q, want %q", c.b, c.k, r.Verdict, TooUniform)
+			for _, f := range r.Findings {
+				t.Logf("%s %s %v: %g df %g up %g lo %g mark %q", f.Check, f.Statistic, f.Params, f.Value, f.DF, f.LogAdjUpper, f.LogAdjLower, f.Mark)
+			}
+		}
+	}
+}
+
+// The lexicographically least de Bruijn sequence (FKM) is too uniform in its
+// overlapping counts, yet its Lyndon-word order shows in the non-overlapping
+// blocks: it is not consistent, and the serial check still marks it too
+// uniform.
+func TestLexicographicDeBruijnIsNotConsistent(t *testing.T) {
+	d := deBruijn(10, 5)
+	assertEveryWordOnce(t, d, 10, 5)
+	r := auditOf(t, d, 10, DefaultOptions())
+	if r.Verdict != NotConsistent {
+		t.Errorf("FKM B(10,5): verdict %q, want %q", r.Verdict, NotConsistent)
+	}
+	for _, f := range r.Findings {
+		if f.Check == "serial" && f.Mark != MarkTooUniform {
+			t.Errorf("serial %s k=%d: mark %q, want too uniform", f.Statistic, f.Params["k"], f.Mark)
+		}
+	}
+}
+
+func TestPeriodicIsNotConsistent(t *testing.T) {
+	d := make([]byte, 100_000)
+	for i := range d {
+		d[i] = byte(i % 10)
+	}
+	r := auditOf(t, d, 10, DefaultOptions())
+	if r.Verdict != NotConsistent {
+		t.Errorf("periodic 0123456789…: verdict %q, want %q", r.Verdict, NotConsistent)
+	}
+	// Its digit frequencies are exactly uniform: freq alone says "too uniform",
+	// the serial check says it deviates.
+	for _, f := range r.Findings {
+		if f.Check == "freq" && f.Statistic == "X2" && f.Mark != MarkTooUniform {
+			t.Errorf("freq X² mark %q, want %q", f.Mark, MarkTooUniform)
+		}
+	}
+}
+
+func seededDigits(n, base int, seed uint64) []byte {
+	var key [32]byte
+	key[0] = byte(seed)
+	rng := rand.New(rand.NewChaCha8(key))
+	d := make([]byte, n)
+	for i := range d {
+		d[i] = byte(rng.IntN(base))
+	}
+	return d
+}
+
+func TestIIDIsConsistent(t *testing.T) {
+	for _, base := range []int{2, 10, 16} {
+		r := auditOf(t, seededDigits(200_000, base, 7), base, DefaultOptions())
+		if r.Verdict != Consistent {
+			t.Errorf("ChaCha8 digits in base %d: verdict %q, want consistent", base, r.Verdict)
+		}
+		if r.MaxBlock < 2 || len(r.Findings) < 4 {
+			t.Errorf("base %d: K = %d with %d findings", base, r.MaxBlock, len(r.Findings))
+		}
+	}
+}
+
+// Under a vector null, i.i.d. digits from that vector are consistent and
+// uniform digits are not; the fitted null accepts both.
+func TestVectorAndFittedNulls(t *testing.T) {
+	p := []float64{0.2, 0.3, 0.5}
+	rng := rand.New(rand.NewPCG(5, 6))
+	d := make([]byte, 100_000)
+	for i := range d {
+		u := rng.Float64()
+		switch {
+		case u < 0.2:
+			d[i] = 0
+		case u < 0.5:
+			d[i] = 1
+		default:
+			d[i] = 2
+		}
+	}
+	vec := DefaultOptions()
+	vec.Null = NullSpec{Kind: checks.Vector, P: p}
+	if r := auditOf(t, d, 3, vec); r.Verdict != Consistent {
+		t.Errorf("i.i.d. (0.2,0.3,0.5) under its own vector: %q", r.Verdict)
+	} else if math.Abs(r.Entropy.NullDimension-0.9372305632) > 1e-9 {
+		// mpmath 1.2.1: H(0.2,0.3,0.5)/ln 3 = 1.02965301406457/1.09861228866811
+		// = 0.937230563216 (methods.md §12 gives H = 1.029653).
+		t.Errorf("Besicovitch–Eggleston dimension %.10f, want 0.9372305632", r.Entropy.NullDimension)
+	}
+	if r := auditOf(t, seededDigits(100_000, 3, 1), 3, vec); r.Verdict != NotConsistent {
+		t.Errorf("uniform digits under vector (0.2,0.3,0.5): %q", r.Verdict)
+	}
+	fit := DefaultOptions()
+	fit.Null = NullSpec{Kind: checks.Fitted}
+	if r := auditOf(t, d, 3, fit); r.Verdict != Consistent {
+		t.Errorf("i.i.d. digits under a fitted null: %q", r.Verdict)
+	}
+}
+
+func TestPlanMemoryBudget(t *testing.T) {
+	opts := DefaultOptions()
+	opts.MaxBlock = 9
+	if _, err := NewPlan(10, 1e9, opts); err == nil {
+		t.Error("--max-block 9 in base 10 fits 256 MiB?")
+	}
+	opts.MaxBlock = 0
+	p, err := NewPlan(10, 1e6, opts)
+	if err != nil || p.Spec.MaxBlock != 5 {
+		t.Errorf("auto K for 1e6 decimal digits = %d (%v), want 5 (1e6·1e-5 = 10 ≥ 5)", p.Spec.MaxBlock, err)
+	}
+}
