@@ -1,0 +1,19 @@
+// Package reports renders audit results for people and programs: a text
+// report for terminals and logs, and a versioned JSON document. It reads
+// audit.Result values and never recomputes a statistic; every number it
+// prints was computed by the stats packages.
+package reports
+
+import "borel/stats/audit"
+
+// Document is everything one run of borel reports.
+type Document struct {
+	Version string   // borel version
+	Command []string // the command line, for provenance
+	Results []*audit.Result
+}
+
+// Caution ends every report. Consistency is evidence of nothing more.
+const Caution = "Caution: consistency with a null is not a proof of normality, and passing statistical checks " +
+	"is no evidence of cryptographic strength. For gambling, lottery or security certification, defer to " +
+	"the regulator's or standard body's accredited procedure."

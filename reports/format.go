@@ -1,0 +1,70 @@
+package reports
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+// formatP prints a probability given as its natural log: 4 significant
+// digits down to 1e-10, below that the power of ten with its log10 to two
+// decimals ("10^-15732.54"), since a double cannot hold it and a 0 would
+// lie. An exact zero (a statistic at the edge of its range) prints as
+// "0 (exact)".
+func formatP(logP float64) string {
+	switch {
+	case math.IsInf(logP, -1):
+		return "0 (exact)"
+	case logP >= 0:
+		return "1"
+	case logP < math.Log(1e-10):
+		return fmt.Sprintf("10^%.2f", logP/math.Ln10)
+	default:
+		return strconv.FormatFloat(math.Exp(logP), 'g', 4, 64)
+	}
+}
+
+// formatStat prints a statistic with 6 significant digits.
+func formatStat(v float64) string {
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// formatDF prints degrees of freedom (integers in borel).
+func formatDF(df float64) string { return strconv.FormatFloat(df, 'f', -1, 64) }
+
+// statisticName gives the printed name of a statistic identifier.
+func statisticName(id string) string {
+	switch id {
+	case "X2":
+		return "X²"
+	case "dpsi2":
+		return "∇ψ²"
+	case "d2psi2":
+		return "∇²ψ²"
+	default:
+		return id
+	}
+}
+
+// formatParams prints parameters as "k=3" or "digit 7", in key order.
+func formatParams(p map[string]int) string {
+	keys := make([]string, 0, len(p))
+	for k := range p {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	parts := make([]string, len(keys))
+	for i, k := range keys {
+		if k == "k" {
+			parts[i] = fmt.Sprintf("k=%d", p[k])
+		} else {
+			parts[i] = fmt.Sprintf("%s %d", k, p[k])
+		}
+	}
+	return strings.Join(parts, ", ")
+}

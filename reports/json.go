@@ -1,0 +1,185 @@
+package reports
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+	"slices"
+
+	"borel/stats/audit"
+)
+
+// SchemaName and SchemaVersion identify the JSON document. The version goes
+// up when a field changes meaning or disappears; adding a field does not
+// change it.
+const (
+	SchemaName    = "borel-audit"
+	SchemaVersion = 1
+)
+
+// JSONDocument is the JSON report, field by field (README.md documents it).
+type JSONDocument struct {
+	Schema        string      `json:"schema"`
+	SchemaVersion int         `json:"schema_version"`
+	BorelVersion  string      `json:"borel_version"`
+	Command       []string    `json:"command"`
+	Audits        []JSONAudit `json:"audits"`
+	Caution       string      `json:"caution"`
+}
+
+// JSONAudit is one sequence in one base.
+type JSONAudit struct {
+	Source      JSONSource    `json:"source"`
+	Base        int           `json:"base"`
+	Digits      int64         `json:"digits"`
+	Null        JSONNull      `json:"null"`
+	Alpha       float64       `json:"alpha"`
+	Adjustment  string        `json:"adjustment"`
+	MaxBlock    int           `json:"max_block"`
+	BlockChoice string        `json:"block_choice"`
+	Verdict     string        `json:"verdict"`
+	Findings    []JSONFinding `json:"findings"`
+	Skipped     []JSONSkip    `json:"skipped"`
+	Entropy     *JSONEntropy  `json:"entropy,omitempty"`
+	Notes       []string      `json:"notes"`
+}
+
+// JSONSource says where the digits came from.
+type JSONSource struct {
+	Name        string `json:"name"`
+	Kind        string `json:"kind"`
+	Format      string `json:"format,omitempty"`
+	Bytes       *int64 `json:"bytes,omitempty"`
+	Compressed  bool   `json:"compressed"`
+	IntegerPart string `json:"integer_part_dropped,omitempty"`
+}
+
+// JSONNull is the null hypothesis with its digit probabilities.
+type JSONNull struct {
+	Kind string    `json:"kind"`
+	P    []float64 `json:"p"`
+}
+
+// JSONFinding is one finding. Probabilities come twice: as numbers (which
+// underflow to 0 below about 1e-308) and as log10 values (which do not);
+// a log10 of null means the probability is exactly 0.
+type JSONFinding struct {
+	Check          string         `json:"check"`
+	Statistic      string         `json:"statistic"`
+	Params         map[string]int `json:"params"`
+	Value          float64        `json:"value"`
+	DF             float64        `json:"df"`
+	PUpper         float64        `json:"p_upper"`
+	PLower         float64        `json:"p_lower"`
+	Log10PUpper    *float64       `json:"log10_p_upper"`
+	Log10PLower    *float64       `json:"log10_p_lower"`
+	AdjPUpper      float64        `json:"adjusted_p_upper"`
+	AdjPLower      float64        `json:"adjusted_p_lower"`
+	Log10AdjPUpper *float64       `json:"log10_adjusted_p_upper"`
+	Log10AdjPLower *float64       `json:"log10_adjusted_p_lower"`
+	Mark           string         `json:"mark"`
+	Notes          []string       `json:"notes"`
+}
+
+// JSONSkip is a check or parameter that was not run.
+type JSONSkip struct {
+	Check  string         `json:"check"`
+	Params map[string]int `json:"params"`
+	Reason string         `json:"reason"`
+}
+
+// JSONEntropy is the entropy profile; interval ends are null where none exists.
+type JSONEntropy struct {
+	Confidence    float64          `json:"confidence"`
+	NullDimension float64          `json:"null_dimension"`
+	Rows          []JSONEntropyRow `json:"rows"`
+}
+
+// JSONEntropyRow is one block length of the entropy profile (nats).
+type JSONEntropyRow struct {
+	K           int      `json:"k"`
+	PlugIn      float64  `json:"h_plugin"`
+	MillerMadow float64  `json:"h_miller_madow"`
+	Conditional float64  `json:"h_conditional"`
+	Dimension   float64  `json:"dimension"`
+	DimLow      *float64 `json:"dimension_low"`
+	DimHigh     *float64 `json:"dimension_high"`
+	Deficit     float64  `json:"deficit"`
+}
+
+// ToJSON converts a document to its JSON form.
+func ToJSON(doc Document) JSONDocument {
+	out := JSONDocument{Schema: SchemaName, SchemaVersion: SchemaVersion, BorelVersion: doc.Version,
+		Command: doc.Command, Audits: []JSONAudit{}, Caution: Caution}
+	for _, r := range doc.Results {
+		out.Audits = append(out.Audits, jsonAudit(r))
+	}
+	return out
+}
+
+// JSON writes the document as indented JSON.
+func JSON(w io.Writer, doc Document) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(ToJSON(doc))
+}
+
+func jsonAudit(r *audit.Result) JSONAudit {
+	a := JSONAudit{
+		Source: JSONSource{Name: r.Source.Name, Kind: r.Source.Kind, Format: r.Source.Format,
+			Compressed: r.Source.Compressed, IntegerPart: r.Source.IntegerPart},
+		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
+		Alpha: r.Alpha, Adjustment: r.Adjustment, MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
+		Verdict: r.Verdict, Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),
+	}
+	if r.Source.Bytes >= 0 {
+		b := r.Source.Bytes
+		a.Source.Bytes = &b
+	}
+	for _, f := range r.Findings {
+		a.Findings = append(a.Findings, JSONFinding{
+			Check: f.Check, Statistic: f.Statistic, Params: f.Params, Value: f.Value, DF: f.DF,
+			PUpper: math.Exp(f.LogPUpper), PLower: math.Exp(f.LogPLower),
+			Log10PUpper: log10(f.LogPUpper), Log10PLower: log10(f.LogPLower),
+			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
+			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
+			Mark: f.Mark, Notes: nonNil(f.Notes),
+		})
+	}
+	for _, s := range r.Skips {
+		a.Skipped = append(a.Skipped, JSONSkip{Check: s.Check, Params: s.Params, Reason: s.Reason})
+	}
+	if e := r.Entropy; e != nil {
+		je := &JSONEntropy{Confidence: e.Confidence, NullDimension: e.NullDimension, Rows: []JSONEntropyRow{}}
+		for _, row := range e.Rows {
+			je.Rows = append(je.Rows, JSONEntropyRow{K: row.K, PlugIn: row.PlugIn, MillerMadow: row.MillerMadow,
+				Conditional: row.Conditional, Dimension: row.Dimension, DimLow: finite(row.DimLow),
+				DimHigh: finite(row.DimHigh), Deficit: row.Deficit})
+		}
+		a.Entropy = je
+	}
+	return a
+}
+
+// log10 converts a natural log to log10, with null for an exact zero.
+func log10(lnP float64) *float64 {
+	if math.IsInf(lnP, -1) {
+		return nil
+	}
+	v := lnP / math.Ln10
+	return &v
+}
+
+func finite(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+func nonNil(s []string) []string {
+	if s == nil {
+		return []string{}
+	}
+	return s
+}

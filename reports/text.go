@@ -1,0 +1,215 @@
+package reports
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"borel/stats/audit"
+	"borel/stats/checks"
+)
+
+// Text writes the report for terminals and logs: for each sequence and base,
+// what was audited, the findings table with footnotes, what was skipped and
+// why, the entropy profile, and the verdict; the caution once at the end.
+func Text(w io.Writer, doc Document) error {
+	bw := bufio.NewWriter(w)
+	for i, r := range doc.Results {
+		if i > 0 {
+			fmt.Fprintln(bw)
+		}
+		if err := textResult(bw, r); err != nil {
+			return err
+		}
+	}
+	fmt.Fprintln(bw)
+	fmt.Fprintln(bw, wrap(Caution, 100))
+	return bw.Flush()
+}
+
+func describeSource(s audit.Source) string {
+	var parts []string
+	parts = append(parts, s.Kind)
+	if s.Kind != "built-in" {
+		parts = append(parts, s.Format)
+	}
+	if s.Compressed {
+		parts = append(parts, "gzip")
+	}
+	if s.Bytes >= 0 && s.Kind == "file" {
+		parts = append(parts, fmt.Sprintf("%d bytes", s.Bytes))
+	}
+	return fmt.Sprintf("%s (%s)", s.Name, strings.Join(parts, ", "))
+}
+
+func describeNull(n checks.Null, base int) string {
+	switch n.Kind {
+	case checks.Vector:
+		return fmt.Sprintf("vector p = (%s): i.i.d. digits, P(w) = p_w1···p_wk", joinFloats(n.P))
+	case checks.Fitted:
+		return fmt.Sprintf("fitted: i.i.d. digits with p estimated from the data = (%s); df reduced", joinFloats(n.P))
+	default:
+		return fmt.Sprintf("uniform: i.i.d. digits, every k-block with probability %d^-k", base)
+	}
+}
+
+func joinFloats(p []float64) string {
+	s := make([]string, len(p))
+	for i, v := range p {
+		s[i] = strconv.FormatFloat(v, 'g', 4, 64)
+	}
+	return strings.Join(s, ", ")
+}
+
+func textResult(w io.Writer, r *audit.Result) error {
+	fmt.Fprintf(w, "borel audit of %s\n", r.Source.Name)
+	kv := [][2]string{
+		{"source", describeSource(r.Source)},
+		{"base", strconv.Itoa(r.Base)},
+		{"digits", strconv.FormatInt(r.Digits, 10)},
+		{"null", describeNull(r.Null, r.Base)},
+		{"blocks", fmt.Sprintf("k ≤ %d: %s", r.MaxBlock, r.BlockChoice)},
+		{"family", fmt.Sprintf("%d p-values (%d findings × 2 tails), %s adjustment, alpha %g", 2*len(r.Findings), len(r.Findings), adjustmentName(r.Adjustment), r.Alpha)},
+	}
+	for _, p := range kv {
+		fmt.Fprintf(w, "  %-7s %s\n", p[0], p[1])
+	}
+	fmt.Fprintln(w)
+
+	var notes []string
+	rows := make([][]string, 0, len(r.Findings))
+	for _, f := range r.Findings {
+		ref := ""
+		for _, n := range f.Notes {
+			notes = append(notes, n)
+			if ref != "" {
+				ref += ","
+			}
+			ref += fmt.Sprintf("[%d]", len(notes))
+		}
+		rows = append(rows, []string{f.Check, statisticName(f.Statistic), formatParams(f.Params),
+			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
+			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), f.Mark, ref})
+	}
+	header := []string{"check", "statistic", "parameter", "value", "df", "p upper", "p lower", "adjusted", "mark", "note"}
+	if err := writeTable(w, header, rows, []bool{false, false, false, true, true, true, true, true, false, false}); err != nil {
+		return err
+	}
+	fmt.Fprintln(w, "  p upper: chance of a statistic at least this large (deviation); p lower: at most this small (fit too good);")
+	fmt.Fprintf(w, "  adjusted: the smaller of the two after %s adjustment over the whole family.\n", adjustmentName(r.Adjustment))
+	for i, n := range notes {
+		fmt.Fprintf(w, "  [%d] %s\n", i+1, n)
+	}
+
+	if len(r.Skips) > 0 {
+		fmt.Fprintln(w)
+		fmt.Fprintln(w, "Not run:")
+		for _, s := range r.Skips {
+			fmt.Fprintf(w, "  %s %s: %s\n", s.Check, formatParams(s.Params), s.Reason)
+		}
+	}
+
+	if e := r.Entropy; e != nil && len(e.Rows) > 0 {
+		fmt.Fprintln(w)
+		fmt.Fprintf(w, "Entropy profile (nats; dimension = entropy rate / ln %d, with a %g%% interval)\n", r.Base, 100*e.Confidence)
+		var erows [][]string
+		for _, row := range e.Rows {
+			interval := "–"
+			if !math.IsNaN(row.DimLow) {
+				interval = fmt.Sprintf("[%s, %s]", formatDim(row.DimLow), formatDim(row.DimHigh))
+			}
+			erows = append(erows, []string{strconv.Itoa(row.K), formatFixed(row.PlugIn), formatFixed(row.MillerMadow),
+				formatFixed(row.Conditional), formatDim(row.Dimension), interval, formatDeficit(row.Deficit)})
+		}
+		if err := writeTable(w, []string{"k", "H_k plug-in", "H_k Miller–Madow", "h given k-1 digits", "dimension", "interval", "deficit"},
+			erows, []bool{true, true, true, true, true, false, true}); err != nil {
+			return err
+		}
+		if r.Null.Kind == checks.Uniform {
+			fmt.Fprintf(w, "  full dimension is 1 (ln %d = %s nats per digit).\n", r.Base, formatFixed(math.Log(float64(r.Base))))
+		} else {
+			fmt.Fprintf(w, "  the null's Besicovitch–Eggleston dimension H(p)/ln %d = %s.\n", r.Base, formatDim(e.NullDimension))
+		}
+	}
+
+	if len(r.Notes) > 0 {
+		fmt.Fprintln(w)
+		fmt.Fprintln(w, "Notes:")
+		for _, n := range r.Notes {
+			fmt.Fprintf(w, "  - %s\n", n)
+		}
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "Verdict for %s in base %d: %s\n", r.Source.Name, r.Base, strings.ToUpper(r.Verdict))
+	fmt.Fprintf(w, "  %s\n", verdictReason(r))
+	return nil
+}
+
+func adjustmentName(a string) string {
+	if a == audit.BH {
+		return "Benjamini–Hochberg"
+	}
+	return "Holm"
+}
+
+func formatFixed(v float64) string { return strconv.FormatFloat(v, 'f', 6, 64) }
+
+// formatDim prints a dimension near 1 with enough digits to see the gap.
+func formatDim(v float64) string { return strconv.FormatFloat(v, 'f', 6, 64) }
+
+func formatDeficit(v float64) string {
+	if math.Abs(v) < 5e-7 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 3, 64)
+}
+
+func verdictReason(r *audit.Result) string {
+	var dev, uni []string
+	for _, f := range r.Findings {
+		label := fmt.Sprintf("%s %s %s", f.Check, statisticName(f.Statistic), formatParams(f.Params))
+		switch f.Mark {
+		case audit.MarkDeviates:
+			dev = append(dev, label)
+		case audit.MarkTooUniform:
+			uni = append(uni, label)
+		}
+	}
+	switch r.Verdict {
+	case audit.NotConsistent:
+		return fmt.Sprintf("%d of %d findings deviate after adjustment (%s).", len(dev), len(r.Findings), listSome(dev))
+	case audit.TooUniform:
+		return fmt.Sprintf("no finding deviates, but %d fit better than chance allows (%s): counts this close to their expectations suggest constructed or low-discrepancy data, not independent digits.",
+			len(uni), listSome(uni))
+	default:
+		return fmt.Sprintf("no adjusted p-value is at or below alpha = %g in either tail: the digits are statistically consistent with the null at this length.", r.Alpha)
+	}
+}
+
+func listSome(s []string) string {
+	if len(s) <= 4 {
+		return strings.Join(s, "; ")
+	}
+	return strings.Join(s[:4], "; ") + fmt.Sprintf("; and %d more", len(s)-4)
+}
+
+// wrap breaks text into lines of at most width bytes at spaces.
+func wrap(s string, width int) string {
+	var b strings.Builder
+	line := 0
+	for i, word := range strings.Fields(s) {
+		if i > 0 && line+1+len(word) > width {
+			b.WriteByte('\n')
+			line = 0
+		} else if i > 0 {
+			b.WriteByte(' ')
+			line++
+		}
+		b.WriteString(word)
+		line += len(word)
+	}
+	return b.String()
+}
