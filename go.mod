@@ -15,5 +15,6 @@ require (
 	github.com/olekukonko/cat v0.0.0-20250911104152-50322a0618f6 // indirect
 	github.com/olekukonko/errors v1.2.0 // indirect
 	github.com/olekukonko/ll v0.1.6 // indirect
+	github.com/spf13/pflag v1.1.0 // indirect
 	golang.org/x/sys v0.30.0 // indirect
 )

@@ -78,6 +78,7 @@ type JSONFinding struct {
 	Log10AdjPUpper *float64       `json:"log10_adjusted_p_upper"`
 	Log10AdjPLower *float64       `json:"log10_adjusted_p_lower"`
 	Mark           string         `json:"mark"`
+	Detail         string         `json:"detail,omitempty"`
 	Notes          []string       `json:"notes"`
 }
 
@@ -143,7 +144,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			Log10PUpper: log10(f.LogPUpper), Log10PLower: log10(f.LogPLower),
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
-			Mark: f.Mark, Notes: nonNil(f.Notes),
+			Mark: f.Mark, Detail: f.Detail, Notes: nonNil(f.Notes),
 		})
 	}
 	for _, s := range r.Skips {

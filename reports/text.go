@@ -80,15 +80,19 @@ func textResult(w io.Writer, r *audit.Result) error {
 	fmt.Fprintln(w)
 
 	var notes []string
+	number := map[string]int{} // identical notes share a footnote
 	rows := make([][]string, 0, len(r.Findings))
 	for _, f := range r.Findings {
 		ref := ""
 		for _, n := range f.Notes {
-			notes = append(notes, n)
+			if number[n] == 0 {
+				notes = append(notes, n)
+				number[n] = len(notes)
+			}
 			if ref != "" {
 				ref += ","
 			}
-			ref += fmt.Sprintf("[%d]", len(notes))
+			ref += fmt.Sprintf("[%d]", number[n])
 		}
 		rows = append(rows, []string{f.Check, statisticName(f.Statistic), formatParams(f.Params),
 			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),

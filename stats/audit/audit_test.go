@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"borel/stats/checks"
+	"borel/stats/expand"
 )
 
 // deBruijn returns the cyclic de Bruijn sequence B(b, k) of length b^k, by
@@ -45,38 +46,6 @@ func auditOf(t *testing.T, d []byte, base int, opts Options) *Result {
 	return r
 }
 
-// randomDeBruijn returns a de Bruijn sequence B(b, k) drawn by a random
-// Eulerian circuit of the de Bruijn graph (nodes: (k-1)-words; edges:
-// k-words), Hierholzer's algorithm with shuffled edge order. Every k-word
-// occurs once cyclically, as in any de Bruijn sequence, without the
-// lexicographic structure of the FKM construction.
-func randomDeBruijn(b, k int, rng *rand.Rand) []byte {
-	nodes := int(math.Pow(float64(b), float64(k-1)))
-	next := make([][]int, nodes) // unused out-edges (last digit) per node
-	for v := range next {
-		next[v] = rng.Perm(b)
-	}
-	stack := []int{0}
-	var circuit []int
-	for len(stack) > 0 {
-		v := stack[len(stack)-1]
-		if len(next[v]) > 0 {
-			a := next[v][len(next[v])-1]
-			next[v] = next[v][:len(next[v])-1]
-			stack = append(stack, (v*b+a)%nodes)
-		} else {
-			circuit = append(circuit, v)
-			stack = stack[:len(stack)-1]
-		}
-	}
-	// circuit is reversed; the digit added on each edge is the node's last digit.
-	out := make([]byte, 0, nodes*b)
-	for i := len(circuit) - 2; i >= 0; i-- {
-		out = append(out, byte(circuit[i]%b))
-	}
-	return out
-}
-
 // assertEveryWordOnce checks the de Bruijn property: each k-word once, cyclically.
 func assertEveryWordOnce(t *testing.T, d []byte, b, k int) {
 	t.Helper()
@@ -102,7 +71,7 @@ func assertEveryWordOnce(t *testing.T, d []byte, b, k int) {
 func TestDeBruijnIsTooUniform(t *testing.T) {
 	rng := rand.New(rand.NewPCG(21, 22))
 	for _, c := range []struct{ b, k int }{{2, 16}, {10, 5}} {
-		d := randomDeBruijn(c.b, c.k, rng)
+		d := expand.RandomDeBruijn(c.b, c.k, rng)
 		assertEveryWordOnce(t, d, c.b, c.k)
 		r := auditOf(t, d, c.b, DefaultOptions())
 		if r.Verdict != TooUniform {

@@ -24,7 +24,8 @@ type Finding struct {
 	DF        float64
 	LogPUpper float64
 	LogPLower float64
-	Notes     []string
+	Detail    string   // information on how the statistic was formed
+	Notes     []string // caveats: validity rules that bite, and how to fix them
 }
 
 // Skip records a check, or one parameter of it, that was not run, and why.

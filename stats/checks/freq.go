@@ -66,7 +66,7 @@ func (freqCheck) Run(in Input, out *Result) {
 	q := 1 + (invSum-1)/(6*n*df)
 	g := Finding{Check: "freq", Statistic: "G", Params: params, Value: cs.g, DF: df,
 		LogPUpper: chiSquareLogSF(cs.g/q, df), LogPLower: chiSquareLogCDF(cs.g/q, df)}
-	g.Notes = append(g.Notes, fmt.Sprintf("p-values from G/q with Williams' q = %.6g", q))
+	g.Detail = fmt.Sprintf("p-values from G/q with Williams' q = %.6g", q)
 	out.Findings = append(out.Findings, g)
 }
 

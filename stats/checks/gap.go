@@ -89,7 +89,7 @@ func (gapCheck) Run(in Input, out *Result) {
 			df--
 		}
 		f := chiSquareFinding("gap", "X2", params, cs.x2, df)
-		f.Notes = append(f.Notes, fmt.Sprintf("%d gaps, lengths 0..%d and ≥%d", gaps, tmax-1, tmax))
+		f.Detail = fmt.Sprintf("%d gaps, lengths 0..%d and ≥%d", gaps, tmax-1, tmax)
 		out.Findings = append(out.Findings, f)
 	}
 }

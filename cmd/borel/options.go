@@ -1,0 +1,112 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"borel/stats/audit"
+	"borel/stats/checks"
+)
+
+// parseBase reads --base: an integer in lo..hi.
+func parseBase(s string, lo, hi int, what string) (int, error) {
+	b, err := strconv.Atoi(strings.TrimSpace(s))
+	if err != nil {
+		return 0, usagef("--base %q is not a number; give an integer from %d to %d (%s)", s, lo, hi, what)
+	}
+	if b < lo || b > hi {
+		return 0, usagef("--base %d is outside %d..%d (%s)", b, lo, hi, what)
+	}
+	return b, nil
+}
+
+// parseVector reads a comma-separated list of probabilities.
+func parseVector(s string) ([]float64, error) {
+	parts := strings.Split(s, ",")
+	p := make([]float64, len(parts))
+	for i, part := range parts {
+		v, err := strconv.ParseFloat(strings.TrimSpace(part), 64)
+		if err != nil {
+			return nil, fmt.Errorf("entry %d %q is not a number", i+1, strings.TrimSpace(part))
+		}
+		p[i] = v
+	}
+	return p, nil
+}
+
+// parseNull reads --null: uniform, fitted, or a vector p0,p1,… for the base.
+func parseNull(s string, base int) (audit.NullSpec, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "uniform", "":
+		return audit.NullSpec{Kind: checks.Uniform}, nil
+	case "fitted":
+		return audit.NullSpec{Kind: checks.Fitted}, nil
+	}
+	p, err := parseVector(s)
+	if err != nil {
+		return audit.NullSpec{}, usagef("--null %q: %v; give uniform, fitted or %d probabilities p0,p1,… summing to 1", s, err, base)
+	}
+	if _, err := checks.VectorNull(p, base); err != nil {
+		return audit.NullSpec{}, usagef("--null: %v", err)
+	}
+	return audit.NullSpec{Kind: checks.Vector, P: p}, nil
+}
+
+// parseAlpha reads --alpha: a number strictly between 0 and 1.
+func parseAlpha(s string) (float64, error) {
+	a, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil || math.IsNaN(a) {
+		return 0, usagef("--alpha %q is not a number; give a level such as 0.01", s)
+	}
+	if !(a > 0 && a < 1) {
+		return 0, usagef("--alpha %v is outside (0, 1); give a level such as 0.01", a)
+	}
+	return a, nil
+}
+
+// parseMaxBlock reads --max-block: "auto" (0) or a positive integer.
+func parseMaxBlock(s string) (int, error) {
+	if strings.EqualFold(strings.TrimSpace(s), "auto") {
+		return 0, nil
+	}
+	k, err := strconv.Atoi(strings.TrimSpace(s))
+	if err != nil || k < 1 {
+		return 0, usagef("--max-block %q: give a block length of 1 or more, or auto", s)
+	}
+	return k, nil
+}
+
+// parseSize reads a memory size: bytes, or a number with KiB, MiB, GiB
+// (or K, M, G, taken as the same powers of two).
+func parseSize(s string) (int64, error) {
+	t := strings.TrimSpace(s)
+	mult := int64(1)
+	for _, u := range []struct {
+		suffix string
+		m      int64
+	}{{"GiB", 1 << 30}, {"MiB", 1 << 20}, {"KiB", 1 << 10}, {"G", 1 << 30}, {"M", 1 << 20}, {"K", 1 << 10}, {"B", 1}} {
+		if strings.HasSuffix(strings.ToUpper(t), strings.ToUpper(u.suffix)) {
+			t = strings.TrimSpace(t[:len(t)-len(u.suffix)])
+			mult = u.m
+			break
+		}
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil || !(v > 0) || math.IsInf(v, 0) {
+		return 0, usagef("--memory %q: give a size such as 256MiB or 2GiB", s)
+	}
+	return int64(v * float64(mult)), nil
+}
+
+// parseAdjust reads --adjust.
+func parseAdjust(s string) (string, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "holm":
+		return audit.Holm, nil
+	case "bh":
+		return audit.BH, nil
+	}
+	return "", usagef("--adjust %q: use holm (family-wise, the default) or bh (false discovery rate)", s)
+}

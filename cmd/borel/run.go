@@ -1,0 +1,123 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/pflag"
+)
+
+// version is borel's version, printed in every report.
+const version = "0.1.0"
+
+// Exit statuses.
+const (
+	exitOK      = 0
+	exitError   = 1 // run-time error: input that cannot be read or is not a sequence of the base
+	exitUsage   = 2 // an invalid option or argument, found before any work
+	exitVerdict = 3 // --strict and a verdict other than consistent
+)
+
+// usageError marks an error in what the user asked for (exit status 2).
+type usageError struct{ msg string }
+
+func (e usageError) Error() string { return e.msg }
+
+func usagef(format string, a ...any) error { return usageError{fmt.Sprintf(format, a...)} }
+
+// env is what a subcommand may touch.
+type env struct {
+	args   []string // the whole command line after "borel", for provenance
+	stdin  io.Reader
+	stdout io.Writer
+	stderr io.Writer
+}
+
+type subcommand struct {
+	name, summary string
+	run           func(e env, args []string) (int, error)
+}
+
+func subcommands() []subcommand {
+	return []subcommand{
+		{"audit", "run the battery on a digit sequence and give a verdict", runAudit},
+		{"demo", "run the built-in scenario: a whole audit in seconds", runDemo},
+		{"dimension", "print the Besicovitch–Eggleston dimension of a frequency vector", runDimension},
+	}
+}
+
+const mainHelp = `borel tells whether a digit sequence is statistically consistent with a normal
+sequence (every k-block in base b with frequency b^-k), or with a stated digit-frequency
+vector, and shows the evidence.
+
+Usage: borel COMMAND [options]
+
+Commands:
+%s
+Run "borel COMMAND --help" for a command's options and a worked example.
+
+Examples:
+  $ borel demo
+  $ borel audit digits.txt --base 7
+  $ borel audit - --raw < generator.bin
+
+Exit status: 0 success; 1 the input could not be read or is not a sequence of the base;
+2 invalid options or arguments; 3 with --strict, a verdict other than consistent.
+`
+
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	e := env{args: args, stdin: stdin, stdout: stdout, stderr: stderr}
+	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
+		var list strings.Builder
+		for _, c := range subcommands() {
+			fmt.Fprintf(&list, "  %-10s %s\n", c.name, c.summary)
+		}
+		fmt.Fprintf(stdout, mainHelp, list.String())
+		if len(args) == 0 {
+			return exitUsage
+		}
+		return exitOK
+	}
+	if args[0] == "--version" || args[0] == "version" {
+		fmt.Fprintf(stdout, "borel %s\n", version)
+		return exitOK
+	}
+	for _, c := range subcommands() {
+		if c.name == args[0] {
+			code, err := c.run(e, args[1:])
+			if err != nil {
+				fmt.Fprintf(stderr, "borel: %s\n", oneLine(err.Error()))
+				var ue usageError
+				if errors.As(err, &ue) {
+					return exitUsage
+				}
+				return exitError
+			}
+			return code
+		}
+	}
+	fmt.Fprintf(stderr, "borel: unknown command %q; the commands are audit, demo and dimension (borel --help)\n", args[0])
+	return exitUsage
+}
+
+// oneLine keeps an error message on one line.
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// parseFlags parses a subcommand's flags; --help prints help and returns
+// done = true. pflag's own messages are kept but marked as usage errors.
+func parseFlags(fs *pflag.FlagSet, args []string, help string, stdout io.Writer) (done bool, err error) {
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, pflag.ErrHelp) {
+			fmt.Fprint(stdout, help)
+			fmt.Fprintln(stdout, "\nOptions:")
+			fmt.Fprint(stdout, fs.FlagUsagesWrapped(100))
+			return true, nil
+		}
+		return false, usagef("%s: %v (see borel %s --help)", fs.Name(), err, fs.Name())
+	}
+	return false, nil
+}

@@ -1,0 +1,75 @@
+package expand
+
+import (
+	"math"
+	"math/rand/v2"
+)
+
+// IID returns n digits drawn independently from the frequency vector p
+// (the product measure μ_p), by inversion of the cumulative sums.
+func IID(n int, p []float64, rng *rand.Rand) []byte {
+	cum := make([]float64, len(p))
+	s := 0.0
+	for i, v := range p {
+		s += v
+		cum[i] = s
+	}
+	d := make([]byte, n)
+	for i := range d {
+		u := rng.Float64() * s
+		j := 0
+		for j < len(cum)-1 && u >= cum[j] {
+			j++
+		}
+		d[i] = byte(j)
+	}
+	return d
+}
+
+// Sticky returns n base-b digits in which each digit repeats the previous
+// one with probability stay and is otherwise uniform: a first-order Markov
+// chain whose digit frequencies are uniform but whose repeats are too common
+// (the chance of a repeat is stay + (1-stay)/b instead of 1/b).
+func Sticky(n, b int, stay float64, rng *rand.Rand) []byte {
+	d := make([]byte, n)
+	for i := range d {
+		if i > 0 && rng.Float64() < stay {
+			d[i] = d[i-1]
+		} else {
+			d[i] = byte(rng.IntN(b))
+		}
+	}
+	return d
+}
+
+// RandomDeBruijn returns a de Bruijn sequence B(b, k): every k-word occurs
+// exactly once in it, read cyclically. It follows a random Eulerian circuit
+// of the de Bruijn graph (nodes: (k-1)-words; edges: k-words) by
+// Hierholzer's algorithm with shuffled edge order, so it lacks the
+// lexicographic structure of the classic Lyndon-word construction.
+func RandomDeBruijn(b, k int, rng *rand.Rand) []byte {
+	nodes := int(math.Pow(float64(b), float64(k-1)))
+	next := make([][]int, nodes) // unused out-edges (the appended digit) per node
+	for v := range next {
+		next[v] = rng.Perm(b)
+	}
+	stack := []int{0}
+	var circuit []int
+	for len(stack) > 0 {
+		v := stack[len(stack)-1]
+		if out := next[v]; len(out) > 0 {
+			a := out[len(out)-1]
+			next[v] = out[:len(out)-1]
+			stack = append(stack, (v*b+a)%nodes)
+		} else {
+			circuit = append(circuit, v)
+			stack = stack[:len(stack)-1]
+		}
+	}
+	// The circuit comes out reversed; each edge appends its head's last digit.
+	d := make([]byte, 0, nodes*b)
+	for i := len(circuit) - 2; i >= 0; i-- {
+		d = append(d, byte(circuit[i]%b))
+	}
+	return d
+}
