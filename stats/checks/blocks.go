@@ -26,6 +26,12 @@ func (blocksCheck) Name() string { return "blocks" }
 func (blocksCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	S := float64(in.Null.Symbols())
+	if in.MaxBlock() < 2 {
+		minP := math.Pow(in.Null.MinProb(), 2)
+		out.Skips = append(out.Skips, Skip{Check: "blocks", Params: map[string]int{"k": 2},
+			Reason: fmt.Sprintf("the sequence is too short for blocks of length 2; needs %d digits or more", 2*digitsNeeded(in.Opts.MinExpected, minP))})
+		return
+	}
 	for k := 2; k <= in.MaxBlock(); k++ {
 		params := map[string]int{"k": k}
 		counts := t.Blocks[k]

@@ -53,6 +53,12 @@ type EntropyProfile struct {
 // and so for the dimension. The point estimate is the moment estimate
 // λ̂ = max(0, G^M - df) (E[G^M] = df + λ): the plug-in ĥ is biased low by
 // about df/(2n) and would fall outside its own interval near full dimension.
+// G^M is divided by a Williams-type factor q = 1 + Σ_c (Σ_j 1/p_j - 1)/(6 N_c df)
+// over the contexts c (the k-1 preceding digits, N_c windows each): each
+// context is a goodness-of-fit G whose mean is (S-1) + (Σ_j 1/p_j - 1)/(6 N_c)
+// (Williams 1976; methods.md §1). Without it the interval excludes full
+// dimension for ideal digits once contexts hold ~100 windows (π, 10^6 digits,
+// k = 5: E[G^M] ≈ 90000 + 1650).
 // Near full dimension this interval is the right
 // construction: a normal delta-method interval collapses there (Basharin
 // 1959; methods.md §12). Under a fitted null CE is Ĥ_1 and the df drop by
@@ -82,7 +88,7 @@ func (entropyCheck) Run(in Input, out *Result) {
 		}
 		if df > 0 {
 			twoN := 2 * float64(n)
-			gm := math.Max(0, twoN*(ce-row.Conditional))
+			gm := math.Max(0, twoN*(ce-row.Conditional)) / williamsQ(in, k, df)
 			row.Dimension = (ce - math.Max(0, gm-df)/twoN) / lnb
 			lamLo, lamHi := stats.NoncentralityInterval(gm, df, in.Opts.Confidence)
 			row.DimLow = (ce - lamHi/twoN) / lnb
@@ -97,4 +103,28 @@ func (entropyCheck) Run(in Input, out *Result) {
 		prof.Summary = prof.Rows[len(prof.Rows)-1]
 	}
 	out.Entropy = prof
+}
+
+// williamsQ returns the mean correction of G^M_k: with N_c the cyclic count
+// of each (k-1)-digit context, q = 1 + Σ_c (Σ_j 1/p_j - 1)/(6 N_c) / df.
+func williamsQ(in Input, k int, df float64) float64 {
+	inv := -1.0
+	for _, p := range in.Null.P {
+		if p > 0 {
+			inv += 1 / p
+		}
+	}
+	var contexts []int64
+	if k == 1 {
+		contexts = []int64{in.Tally.N}
+	} else {
+		contexts = in.Cyclic[k-1]
+	}
+	corr := 0.0
+	for _, c := range contexts {
+		if c > 0 {
+			corr += inv / (6 * float64(c))
+		}
+	}
+	return 1 + corr/df
 }

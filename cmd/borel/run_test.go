@@ -1,0 +1,216 @@
+package main
+
+import (
+	"bytes"
+	"compress/gzip"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// borel runs the command in-process and returns exit status, stdout, stderr.
+func borel(t *testing.T, stdin string, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(args, strings.NewReader(stdin), &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+func writeFile(t *testing.T, name string, data []byte) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// Every bad input and option of the audit: exit status and the one-line
+// message that names what is wrong.
+func TestBadInputs(t *testing.T) {
+	dir := t.TempDir()
+	letter := writeFile(t, "letter.txt", []byte("0123456789\n01234x6789\n"))
+	big := writeFile(t, "big.txt", []byte("0123456"))
+	empty := writeFile(t, "empty.txt", nil)
+	blank := writeFile(t, "blank.txt", []byte(" \n\n\t "))
+	var z bytes.Buffer
+	zw := gzip.NewWriter(&z)
+	zw.Write(bytes.Repeat([]byte("31415926535897932384"), 5000))
+	zw.Close()
+	trunc := writeFile(t, "trunc.gz", z.Bytes()[:z.Len()/2])
+	cases := []struct {
+		name  string
+		stdin string
+		args  []string
+		code  int
+		want  string
+	}{
+		{"letter", "", []string{"audit", letter}, 1, letter + ": byte 16 (line 2, column 6): 'x' is digit value 33, not below base 10"},
+		{"digit not below base", "", []string{"audit", big, "--base", "6"}, 1, "'6' is digit value 6, not below base 6"},
+		{"symbol on stdin", "0101#01", []string{"audit", "-", "--base", "2"}, 1, "stdin: byte 4 (line 1, column 5): '#' is not a digit of base 2"},
+		{"empty", "", []string{"audit", empty}, 1, "the input is empty"},
+		{"only whitespace", "", []string{"audit", blank}, 1, "holds no digits (only whitespace)"},
+		{"empty stdin", "", []string{"audit", "-"}, 1, "stdin: the input is empty"},
+		{"truncated gzip", "", []string{"audit", trunc}, 1, "the gzip stream is damaged or truncated"},
+		{"directory", "", []string{"audit", dir}, 1, "is a directory"},
+		{"missing file", "", []string{"audit", filepath.Join(dir, "nope.txt")}, 1, "cannot open " + filepath.Join(dir, "nope.txt") + ": no such file or directory"},
+		{"base 0", "", []string{"audit", letter, "--base", "0"}, 2, "--base 0 is outside 2..36"},
+		{"base 1", "", []string{"audit", letter, "--base", "1"}, 2, "--base 1 is outside 2..36"},
+		{"base 37", "", []string{"audit", letter, "--base", "37"}, 2, "--base 37 is outside 2..36"},
+		{"base text", "", []string{"audit", letter, "--base", "ten"}, 2, `--base "ten" is not a number`},
+		{"vector length", "", []string{"audit", letter, "--base", "3", "--null", "0.5,0.5"}, 2, "has 2 entries but base 3 needs 3"},
+		{"vector zero", "", []string{"audit", letter, "--base", "3", "--null", "0,0.5,0.5"}, 2, "entry 0 is 0"},
+		{"vector negative", "", []string{"audit", letter, "--base", "3", "--null", "-0.1,0.6,0.5"}, 2, "entry 0 is -0.1"},
+		{"vector sum", "", []string{"audit", letter, "--base", "3", "--null", "0.2,0.3,0.6"}, 2, "sums to 1.1, not 1"},
+		{"vector NaN", "", []string{"audit", letter, "--base", "2", "--null", "NaN,0.5"}, 2, "entry 0 is NaN"},
+		{"vector Inf", "", []string{"audit", letter, "--base", "2", "--null", "Inf,0.5"}, 2, "entry 0 is +Inf"},
+		{"vector word", "", []string{"audit", letter, "--base", "2", "--null", "half,half"}, 2, `entry 1 "half" is not a number`},
+		{"alpha 0", "", []string{"audit", letter, "--alpha", "0"}, 2, "--alpha 0 is outside (0, 1)"},
+		{"alpha 1", "", []string{"audit", letter, "--alpha", "1"}, 2, "--alpha 1 is outside (0, 1)"},
+		{"alpha text", "", []string{"audit", letter, "--alpha", "x"}, 2, `--alpha "x" is not a number`},
+		{"block 0", "", []string{"audit", letter, "--max-block", "0"}, 2, "give a block length of 1 or more"},
+		// 8 bytes × (cyclic Σ_{k=1..9} 10^k + blocks Σ_{k=2..9} 10^k + overlapping 10^9 + gaps 10·2049) = 24584 MiB.
+		{"block too big", "", []string{"audit", letter, "--max-block", "9"}, 2, "--max-block 9 needs 24584 MiB of count tables in base 10, over the memory budget of 256 MiB"},
+		{"format", "", []string{"audit", letter, "--format", "pdf"}, 2, `--format "pdf": borel writes text or json`},
+		{"raw and bits", "", []string{"audit", letter, "--raw", "--bits"}, 2, "--raw and --bits exclude each other"},
+		{"raw with base", "", []string{"audit", letter, "--raw", "--base", "16"}, 2, "--raw reads bytes as base-256 digits"},
+		{"no input", "", []string{"audit"}, 2, "audit needs one input"},
+		{"two inputs", "", []string{"audit", letter, big}, 2, "audit needs one input"},
+		{"unknown flag", "", []string{"audit", letter, "--colour"}, 2, "unknown flag: --colour"},
+		{"unknown command", "", []string{"audti"}, 2, `unknown command "audti"`},
+		{"memory", "", []string{"audit", letter, "--memory", "lots"}, 2, `--memory "lots": give a size such as 256MiB`},
+		{"adjust", "", []string{"audit", letter, "--adjust", "bonferroni"}, 2, `--adjust "bonferroni": use holm`},
+	}
+	for _, c := range cases {
+		code, out, errs := borel(t, c.stdin, c.args...)
+		if code != c.code || !strings.Contains(errs, c.want) {
+			t.Errorf("%s: exit %d, stderr %q; want exit %d and %q", c.name, code, errs, c.code, c.want)
+			continue
+		}
+		if out != "" {
+			t.Errorf("%s: printed a report on bad input: %q", c.name, out)
+		}
+		if !strings.HasPrefix(errs, "borel: ") || strings.Count(errs, "\n") != 1 {
+			t.Errorf("%s: message is not one line starting with 'borel: ': %q", c.name, errs)
+		}
+	}
+}
+
+func TestStrictExitStatus(t *testing.T) {
+	periodic := writeFile(t, "periodic.txt", bytes.Repeat([]byte("0123456789"), 2000))
+	code, out, _ := borel(t, "", "audit", periodic, "--strict")
+	if code != exitVerdict || !strings.Contains(out, "NOT CONSISTENT") {
+		t.Errorf("--strict on a periodic sequence: exit %d, want 3", code)
+	}
+	if code, _, _ := borel(t, "", "audit", periodic); code != 0 {
+		t.Errorf("without --strict a verdict is a result, not an error: exit %d", code)
+	}
+}
+
+// -o never overwrites the input; it writes the whole report atomically; a
+// failed write leaves an earlier report untouched.
+func TestOutputFile(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "digits.txt")
+	os.WriteFile(in, bytes.Repeat([]byte("2718281828459045"), 500), 0o644)
+	code, _, errs := borel(t, "", "audit", in, "-o", in)
+	if code != 2 || !strings.Contains(errs, "is the input file") {
+		t.Errorf("-o onto the input: exit %d %q", code, errs)
+	}
+	if data, _ := os.ReadFile(in); !bytes.HasPrefix(data, []byte("2718")) {
+		t.Error("input was changed")
+	}
+	out := filepath.Join(dir, "report.json")
+	if code, _, errs := borel(t, "", "audit", in, "--format", "json", "-o", out); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	data, _ := os.ReadFile(out)
+	if err := json.Unmarshal(data, &doc); err != nil || doc["schema"] != "borel-audit" {
+		t.Errorf("report is not the JSON document: %v", err)
+	}
+	// A failing run (bad option) leaves the earlier report as it was.
+	borel(t, "", "audit", in, "--base", "99", "-o", out)
+	if again, _ := os.ReadFile(out); !bytes.Equal(again, data) {
+		t.Error("a failed run changed the earlier report")
+	}
+	// A report into a missing folder is an error and leaves nothing behind.
+	code, _, errs = borel(t, "", "audit", in, "-o", filepath.Join(dir, "no", "such", "r.txt"))
+	if code != 1 || !strings.Contains(errs, "cannot write the report") {
+		t.Errorf("missing folder: exit %d %q", code, errs)
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if strings.HasPrefix(e.Name(), ".borel-") {
+			t.Errorf("temporary file left behind: %s", e.Name())
+		}
+	}
+}
+
+// Besicovitch–Eggleston check values [calc] from methods.md §0.
+func TestDimensionCommand(t *testing.T) {
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"dimension", "0.5,0,0.5"}, "dim F(p) = 0.630930 in base 3"},
+		{[]string{"dimension", "0.3333333333333333,0.6666666666666667"}, "dim F(p) = 0.918296 in base 2"},
+		{[]string{"dimension", "0.2,0,0.2,0,0.2,0,0.2,0,0.2", "--base", "10"}, "dim F(p) = 0.698970 in base 10"},
+	}
+	for _, c := range cases {
+		code, out, errs := borel(t, "", c.args...)
+		if code != 0 || !strings.Contains(out, c.want) {
+			t.Errorf("%v: exit %d %q %q, want %q", c.args, code, out, errs, c.want)
+		}
+	}
+	for _, bad := range [][]string{{"dimension", "0.5,0.6"}, {"dimension", "1"}, {"dimension", "0.5,0.5", "--base", "1"}, {"dimension"}} {
+		if code, _, _ := borel(t, "", bad...); code != 2 {
+			t.Errorf("%v: exit %d, want 2", bad, code)
+		}
+	}
+}
+
+// Every subcommand has --help with a worked example.
+func TestHelp(t *testing.T) {
+	for _, c := range subcommands() {
+		code, out, _ := borel(t, "", c.name, "--help")
+		if code != 0 || !strings.Contains(out, "Example") || !strings.Contains(out, "$ borel "+c.name) {
+			t.Errorf("%s --help: exit %d, no worked example:\n%s", c.name, code, out)
+		}
+	}
+	if code, out, _ := borel(t, "", "--help"); code != 0 || !strings.Contains(out, "Exit status") {
+		t.Errorf("borel --help: exit %d", code)
+	}
+}
+
+// The worked examples in every --help run as shown, from the repository
+// root, so the manual cannot drift from the command.
+func TestHelpExamplesRun(t *testing.T) {
+	wd, _ := os.Getwd()
+	t.Cleanup(func() { os.Chdir(wd) })
+	if err := os.Chdir("../.."); err != nil {
+		t.Fatal(err)
+	}
+	tmp := t.TempDir()
+	os.WriteFile(filepath.Join(tmp, "lab.txt"), bytes.Repeat([]byte("0120210122"), 300), 0o644)
+	for _, c := range subcommands() {
+		_, help, _ := borel(t, "", c.name, "--help")
+		for _, line := range strings.Split(help, "\n") {
+			line = strings.TrimSpace(line)
+			if !strings.HasPrefix(line, "$ borel ") {
+				continue
+			}
+			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
+			for i, a := range args { // examples name files in the working folder
+				if a == "lab.txt" || a == "lab.json" {
+					args[i] = filepath.Join(tmp, a)
+				}
+			}
+			if code, _, errs := borel(t, "", args...); code != 0 {
+				t.Errorf("example %q: exit %d: %s", line, code, errs)
+			}
+		}
+	}
+}
