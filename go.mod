@@ -2,7 +2,11 @@ module borel
 
 go 1.26.8
 
-require github.com/olekukonko/tablewriter v1.1.5
+require (
+	github.com/olekukonko/tablewriter v1.1.5
+	github.com/spf13/pflag v1.1.0
+	gonum.org/v1/gonum v0.17.0
+)
 
 require (
 	github.com/cespare/xxhash/v2 v2.3.0 // indirect
@@ -15,6 +19,5 @@ require (
 	github.com/olekukonko/cat v0.0.0-20250911104152-50322a0618f6 // indirect
 	github.com/olekukonko/errors v1.2.0 // indirect
 	github.com/olekukonko/ll v0.1.6 // indirect
-	github.com/spf13/pflag v1.1.0 // indirect
 	golang.org/x/sys v0.30.0 // indirect
 )

@@ -3,6 +3,8 @@ package checks
 import (
 	"math"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"borel/stats"
 )
 
@@ -30,39 +32,41 @@ type EntropyProfile struct {
 	Summary EntropyRow
 }
 
-// entropyCheck estimates block entropies, the entropy rate and the entropy
-// deficit; it adds no p-value to the family, because its test forms are the
-// freq check's G and the serial check's ∇ψ² (asymptotically the same
-// statistics).
+// entropyCheck estimates block entropies, the entropy rate h of the law that
+// produced the digits, its dimension h/ln b and the entropy deficit
+// 1 - h/ln b. It adds no p-value to the family: its test forms are the freq
+// check's G and the serial check's ∇ψ² (asymptotically the same statistics).
 //
 // From cyclic counts over n windows, Ĥ_k = -Σ_w (N_w/n) ln(N_w/n) (plug-in)
-// and Ĥ_k + (K̂-1)/(2n) (Miller–Madow; Miller 1955); the conditional entropy
-// ĥ_{k-1} = Ĥ_k - Ĥ_{k-1} is a proper conditional entropy with cyclic
-// counts. ĥ/ln b estimates the dimension of the law that generated the
-// digits: the Besicovitch–Eggleston value H(p)/ln b for i.i.d. p
-// (Billingsley, Ergodic Theory and Information, 1965). The deficit is
-// 1 - dimension.
+// and Ĥ_k + (K̂-1)/(2n) (Miller–Madow; Miller 1955); ĥ_{k-1} = Ĥ_k - Ĥ_{k-1}
+// is a proper conditional entropy with cyclic counts. For i.i.d. digits with
+// frequency vector p, h/ln b is the Besicovitch–Eggleston dimension
+// H(p)/ln b; for an ergodic law it is the entropy rate over ln b
+// (Billingsley, Ergodic Theory and Information, 1965).
 //
-// Interval: with cyclic counts the Markov-order likelihood ratio is exactly
+// The estimate at order k splits h_{k-1} = H_1 - I_{k-1}, where H_1 is the
+// digit entropy and I_{k-1} ≥ 0 the information the k-1 preceding digits
+// carry about the next one:
 //
-//	G^M_k = 2n (CE - ĥ_{k-1}),   CE = -Σ_j (N_j/n) ln p_j,
+//   - H_1: Miller–Madow Ĥ_1; its interval is the union of the delta-method
+//     interval Ĥ_1 ± z·√((Σ f ln² f - Ĥ_1²)/n) (Basharin 1959; right away from
+//     uniform frequencies, where it collapses) and the inversion of
+//     G = 2n(ln b - Ĥ_1) ~ χ'²(b-1, 2n(ln b - H_1)) (right near them;
+//     methods.md §12), capped at ln b.
+//   - I_{k-1}: the fitted Markov likelihood ratio G = 2n(Ĥ_1 - ĥ_{k-1}), with
+//     (S^(k-1) - 1)(S - 1) df (Anderson & Goodman 1957; S = digits seen),
+//     divided by the Williams-type factor q = 1 + Σ_c (Σ_j 1/f_j - 1)/(6 N_c df)
+//     over the contexts c (Williams 1976): each context is a goodness-of-fit
+//     G of mean (S-1) + (Σ_j 1/f_j - 1)/(6 N_c), and without q the estimate is
+//     biased up once contexts hold ~100 windows (π, 10^6 digits, k = 5:
+//     E[G] ≈ 90000 + 1650). Point Î = max(0, G - df)/(2n) (E[G] = df + λ);
+//     interval by inverting the noncentral chi-square law in λ, which is
+//     exact because that law is stochastically increasing in λ.
 //
-// (CE = ln b under the uniform null; methods.md §3, §12). Treating G^M_k as
-// noncentral χ² with S^(k-1)(S-1) df and noncentrality λ = 2n(CE - h) (the
-// usual local-alternative law), inverting it for λ gives an interval for h
-// and so for the dimension. The point estimate is the moment estimate
-// λ̂ = max(0, G^M - df) (E[G^M] = df + λ): the plug-in ĥ is biased low by
-// about df/(2n) and would fall outside its own interval near full dimension.
-// G^M is divided by a Williams-type factor q = 1 + Σ_c (Σ_j 1/p_j - 1)/(6 N_c df)
-// over the contexts c (the k-1 preceding digits, N_c windows each): each
-// context is a goodness-of-fit G whose mean is (S-1) + (Σ_j 1/p_j - 1)/(6 N_c)
-// (Williams 1976; methods.md §1). Without it the interval excludes full
-// dimension for ideal digits once contexts hold ~100 windows (π, 10^6 digits,
-// k = 5: E[G^M] ≈ 90000 + 1650).
-// Near full dimension this interval is the right
-// construction: a normal delta-method interval collapses there (Basharin
-// 1959; methods.md §12). Under a fitted null CE is Ĥ_1 and the df drop by
-// S-1; no interval is given at k = 1 there.
+// Each part is taken at level 1 - (1-c)/2, so the interval for
+// h = H_1 - I has coverage at least c (Bonferroni). The construction does not
+// depend on the null: the dimension belongs to the data's law; the null's
+// own dimension H(p)/ln b is reported beside it.
 type entropyCheck struct{}
 
 var _ Check = entropyCheck{}
@@ -70,32 +74,42 @@ var _ Check = entropyCheck{}
 func (entropyCheck) Name() string { return "entropy" }
 
 func (entropyCheck) Run(in Input, out *Result) {
-	n := in.Tally.N
-	lnb := math.Log(float64(in.Tally.Base))
-	ce := in.Null.CrossEntropy(in.Tally.Digits)
-	S := float64(in.Null.Symbols())
-	prof := &EntropyProfile{Confidence: in.Opts.Confidence,
-		NullDimension: stats.BesicovitchEgglestonDimension(in.Null.P, in.Tally.Base)}
+	t := in.Tally
+	n := float64(t.N)
+	b := t.Base
+	lnb := math.Log(float64(b))
+	conf := in.Opts.Confidence
+	partConf := 1 - (1-conf)/2
+	prof := &EntropyProfile{Confidence: conf,
+		NullDimension: stats.BesicovitchEgglestonDimension(in.Null.P, b)}
+
+	h1, h1Lo, h1Hi := digitEntropyInterval(t.Digits, b, partConf)
+	freq := make([]float64, b)
+	seen := 0
+	for j, c := range t.Digits {
+		freq[j] = float64(c) / n
+		if c > 0 {
+			seen++
+		}
+	}
+	plugIn1, _, _ := stats.PlugInEntropy(t.Digits)
 	prev := 0.0
 	for k := 1; k <= in.MaxBlock(); k++ {
-		h, _, _ := stats.PlugInEntropy(in.Cyclic[k])
-		row := EntropyRow{K: k, Blocks: n, PlugIn: h, MillerMadow: stats.MillerMadowEntropy(in.Cyclic[k]),
-			Conditional: h - prev, DimLow: math.NaN(), DimHigh: math.NaN()}
-		prev = h
-		df := math.Pow(S, float64(k-1)) * (S - 1)
-		if in.Null.Kind == Fitted {
-			df = (math.Pow(S, float64(k-1)) - 1) * (S - 1)
+		hk, _, _ := stats.PlugInEntropy(in.Cyclic[k])
+		row := EntropyRow{K: k, Blocks: t.N, PlugIn: hk, MillerMadow: stats.MillerMadowEntropy(in.Cyclic[k]),
+			Conditional: hk - prev}
+		prev = hk
+		info, infoLo, infoHi := 0.0, 0.0, 0.0
+		df := (math.Pow(float64(seen), float64(k-1)) - 1) * float64(seen-1)
+		if k >= 2 && df > 0 {
+			g := math.Max(0, 2*n*(plugIn1-row.Conditional)) / williamsQ(freq, in.Cyclic[k-1], df)
+			info = math.Max(0, g-df) / (2 * n)
+			lamLo, lamHi := stats.NoncentralityInterval(g, df, partConf)
+			infoLo, infoHi = lamLo/(2*n), lamHi/(2*n)
 		}
-		if df > 0 {
-			twoN := 2 * float64(n)
-			gm := math.Max(0, twoN*(ce-row.Conditional)) / williamsQ(in, k, df)
-			row.Dimension = (ce - math.Max(0, gm-df)/twoN) / lnb
-			lamLo, lamHi := stats.NoncentralityInterval(gm, df, in.Opts.Confidence)
-			row.DimLow = (ce - lamHi/twoN) / lnb
-			row.DimHigh = (ce - lamLo/twoN) / lnb
-		} else {
-			row.Dimension = row.MillerMadow / lnb
-		}
+		row.Dimension = (h1 - info) / lnb
+		row.DimLow = math.Max(0, (h1Lo-infoHi)/lnb)
+		row.DimHigh = math.Min(1, (h1Hi-infoLo)/lnb)
 		row.Deficit = 1 - row.Dimension
 		prof.Rows = append(prof.Rows, row)
 	}
@@ -105,23 +119,50 @@ func (entropyCheck) Run(in Input, out *Result) {
 	out.Entropy = prof
 }
 
-// williamsQ returns the mean correction of G^M_k: with N_c the cyclic count
-// of each (k-1)-digit context, q = 1 + Σ_c (Σ_j 1/p_j - 1)/(6 N_c) / df.
-func williamsQ(in Input, k int, df float64) float64 {
-	inv := -1.0
-	for _, p := range in.Null.P {
-		if p > 0 {
-			inv += 1 / p
+// digitEntropyInterval returns the Miller–Madow digit entropy and an
+// interval at level conf: the union of the delta-method interval and the
+// inversion of G against the uniform law, capped at ln b (see entropyCheck).
+func digitEntropyInterval(counts []int64, base int, conf float64) (h, lo, hi float64) {
+	n := 0.0
+	for _, c := range counts {
+		n += float64(c)
+	}
+	plug, _, _ := stats.PlugInEntropy(counts)
+	h = stats.MillerMadowEntropy(counts)
+	lnb := math.Log(float64(base))
+	h = math.Min(h, lnb)
+	// Delta method (Basharin 1959): Var Ĥ ≈ (Σ f ln² f - H²)/n.
+	m2 := 0.0
+	for _, c := range counts {
+		if c > 0 {
+			f := float64(c) / n
+			m2 += f * math.Log(f) * math.Log(f)
 		}
 	}
-	var contexts []int64
-	if k == 1 {
-		contexts = []int64{in.Tally.N}
-	} else {
-		contexts = in.Cyclic[k-1]
+	z := distuv.UnitNormal.Quantile(1 - (1-conf)/2)
+	se := math.Sqrt(math.Max(0, m2-plug*plug) / n)
+	lo, hi = h-z*se, h+z*se
+	// Chi-square route: G = 2n(ln b - Ĥ_1), Williams q = 1 + (b+1)/(6n).
+	df := float64(base - 1)
+	g := math.Max(0, 2*n*(lnb-plug)) / (1 + float64(base+1)/(6*n))
+	lamLo, lamHi := stats.NoncentralityInterval(g, df, conf)
+	lo = math.Min(lo, lnb-lamHi/(2*n))
+	hi = math.Min(lnb, math.Max(hi, lnb-lamLo/(2*n)))
+	return h, lo, hi
+}
+
+// williamsQ returns the mean correction of a Markov likelihood ratio whose
+// contexts hold ctx[c] windows and whose cells have probabilities p:
+// q = 1 + Σ_c (Σ_j 1/p_j - 1)/(6 N_c) / df.
+func williamsQ(p []float64, ctx []int64, df float64) float64 {
+	inv := -1.0
+	for _, v := range p {
+		if v > 0 {
+			inv += 1 / v
+		}
 	}
 	corr := 0.0
-	for _, c := range contexts {
+	for _, c := range ctx {
 		if c > 0 {
 			corr += inv / (6 * float64(c))
 		}

@@ -1,0 +1,51 @@
+package reports
+
+import (
+	"math"
+	"strings"
+	"testing"
+)
+
+// Printing rules (methods.md §15): 4 significant digits; below 1e-10 the
+// log10; never 0 for a probability that is only small.
+func TestFormatP(t *testing.T) {
+	cases := []struct {
+		logP float64
+		want string
+	}{
+		{math.Log(0.78790123), "0.7879"},
+		{math.Log(1.2345678e-5), "1.235e-05"},
+		{math.Log(2e-10), "2e-10"},
+		{-36225.509012653212, "10^-15732.54"}, // Champernowne, methods.md §16
+		{-1e5, "10^-43429.45"},
+		{0, "1"},
+		{math.Inf(-1), "0 (exact)"},
+	}
+	for _, c := range cases {
+		if got := formatP(c.logP); got != c.want {
+			t.Errorf("formatP(%g) = %q, want %q", c.logP, got, c.want)
+		}
+	}
+	for lp := -1.0; lp > -1e6; lp *= 1.7 {
+		if s := formatP(lp); s == "0" || strings.HasPrefix(s, "0 ") {
+			t.Errorf("ln p = %g printed as %q", lp, s)
+		}
+	}
+}
+
+func TestFormatParams(t *testing.T) {
+	if got := formatParams(map[string]int{"k": 3}); got != "k=3" {
+		t.Errorf("%q", got)
+	}
+	if got := formatParams(map[string]int{"digit": 7}); got != "digit 7" {
+		t.Errorf("%q", got)
+	}
+}
+
+func TestWrap(t *testing.T) {
+	for _, line := range strings.Split(wrap(Caution, 100), "\n") {
+		if len(line) > 100 {
+			t.Errorf("line longer than 100: %q", line)
+		}
+	}
+}
