@@ -7,11 +7,16 @@ import "math"
 //
 //	P(X ≤ x) = Σ_{j≥0} e^(-λ/2) (λ/2)^j / j! · P(df/2 + j, x/2).
 //
-// The sum starts at the Poisson mode and walks both ways until the weights
-// are negligible, so it costs O(√λ) terms. Accurate to about 1e-12 absolute,
-// which is what interval inversion needs; it is not a far-tail routine.
-// Reference: Johnson, Kotz & Balakrishnan, Continuous Univariate
-// Distributions vol. 2, ch. 29 (Poisson-mixture form).
+// The sum starts at the Poisson mode with one incomplete gamma evaluation and
+// walks both ways with the exact recurrences
+//
+//	P(a+1, y) = P(a, y) - y^a e^(-y) / Γ(a+1),   w_{j+1} = w_j · (λ/2)/(j+1),
+//
+// until the weights are negligible: O(√λ) steps of constant cost. Accurate
+// to about 1e-12 absolute, which is what interval inversion needs; it is not
+// a far-tail routine. Reference: Johnson, Kotz & Balakrishnan, Continuous
+// Univariate Distributions vol. 2, ch. 29 (Poisson-mixture form); DLMF 8.8.5
+// (the recurrence).
 func NoncentralChiSquareCDF(x, df, lambda float64) float64 {
 	if x <= 0 {
 		return 0
@@ -19,27 +24,36 @@ func NoncentralChiSquareCDF(x, df, lambda float64) float64 {
 	if lambda <= 0 {
 		return math.Exp(ChiSquareLogCDF(x, df))
 	}
-	mu := lambda / 2
-	mode := math.Floor(mu)
-	term := func(j float64) float64 {
-		lgj, _ := math.Lgamma(j + 1)
-		logw := -mu + j*math.Log(mu) - lgj
-		return math.Exp(logw + LogGammaP(df/2+j, x/2))
-	}
-	weight := func(j float64) float64 {
-		lgj, _ := math.Lgamma(j + 1)
-		return math.Exp(-mu + j*math.Log(mu) - lgj)
-	}
-	sum := term(mode)
-	for j := mode + 1; ; j++ {
-		sum += term(j)
-		if weight(j) < 1e-17 && j > mu {
+	mu, y, a0 := lambda/2, x/2, df/2
+	lny := math.Log(y)
+	jm := math.Floor(mu)
+	lgj, _ := math.Lgamma(jm + 1)
+	wMode := math.Exp(-mu + jm*math.Log(mu) - lgj)
+	pMode := math.Exp(LogGammaP(a0+jm, y))
+	// lnTerm(a) = ln(y^a e^-y / Γ(a+1)), the step between P(a, y) and P(a+1, y).
+	lga, _ := math.Lgamma(a0 + jm + 1)
+	lnTermMode := (a0+jm)*lny - y - lga
+
+	sum := wMode * pMode
+	// Upward: j = jm+1, jm+2, …
+	w, p, lnT := wMode, pMode, lnTermMode
+	for j := jm; ; j++ {
+		p = math.Max(0, p-math.Exp(lnT)) // P(a0+j+1)
+		lnT += lny - math.Log(a0+j+1)
+		w *= mu / (j + 1)
+		sum += w * p
+		if (w < 1e-17 && j > mu) || p == 0 {
 			break
 		}
 	}
-	for j := mode - 1; j >= 0; j-- {
-		sum += term(j)
-		if weight(j) < 1e-17 {
+	// Downward: j = jm-1, …, 0.
+	w, p, lnT = wMode, pMode, lnTermMode
+	for j := jm; j > 0; j-- {
+		lnT -= lny - math.Log(a0+j) // now ln y^(a0+j-1) e^-y / Γ(a0+j)
+		p = math.Min(1, p+math.Exp(lnT))
+		w *= j / mu
+		sum += w * p
+		if w < 1e-17 {
 			break
 		}
 	}
