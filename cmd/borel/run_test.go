@@ -214,3 +214,48 @@ func TestHelpExamplesRun(t *testing.T) {
 		}
 	}
 }
+
+// The package doc is the manual: each "$ borel" example in doc.go runs (from
+// the repository root; "< FILE" feeds a generated file on standard input).
+func TestManualExamplesRun(t *testing.T) {
+	src, err := os.ReadFile("doc.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	wd, _ := os.Getwd()
+	t.Cleanup(func() { os.Chdir(wd) })
+	if err := os.Chdir("../.."); err != nil {
+		t.Fatal(err)
+	}
+	bin := make([]byte, 400_000)
+	for i := range bin {
+		bin[i] = byte(i*2654435761>>13) ^ byte(i>>5)
+	}
+	ran := 0
+	for _, line := range strings.Split(string(src), "\n") {
+		line = strings.TrimSpace(strings.TrimPrefix(line, "//"))
+		if !strings.HasPrefix(line, "$ borel ") {
+			continue
+		}
+		cmdline, stdin := line, ""
+		if i := strings.Index(cmdline, " < "); i >= 0 {
+			cmdline, stdin = cmdline[:i], string(bin)
+		}
+		args := strings.Fields(strings.TrimPrefix(cmdline, "$ borel "))
+		code, _, errs := borel(t, stdin, args...)
+		want := 0
+		if strings.Contains(line, "--strict") {
+			want = code // the verdict decides; only a usage or read error fails here
+			if code != 0 && code != exitVerdict {
+				want = 0
+			}
+		}
+		if code != want {
+			t.Errorf("manual example %q: exit %d: %s", line, code, errs)
+		}
+		ran++
+	}
+	if ran < 7 {
+		t.Errorf("only %d examples found in doc.go", ran)
+	}
+}

@@ -1,0 +1,37 @@
+// Command borel tells whether a digit sequence is statistically consistent
+// with a normal sequence (every k-block in base b with frequency b^-k), or
+// with a stated digit-frequency vector, and shows the evidence.
+//
+// Run the built-in scenario, a whole audit in about a second:
+//
+//	$ borel demo
+//
+// Audit a file of digits (text in base 2..36, gzip or not; "-" reads
+// standard input), against the uniform null:
+//
+//	$ borel audit testdata/pi-1e6.txt.gz
+//
+// Against a stated digit-frequency vector, or one estimated from the data:
+//
+//	$ borel audit testdata/pi-1e6.txt.gz --null 0.1,0.1,0.1,0.1,0.1,0.1,0.1,0.1,0.1,0.1
+//	$ borel audit testdata/pi-1e6.txt.gz --null fitted --format json
+//
+// Raw bytes as base-256 digits or as bits (most significant first):
+//
+//	$ borel audit - --raw < generator.bin
+//	$ borel audit - --bits < generator.bin
+//
+// Gate a pipeline on the verdict (exit status 3 unless consistent):
+//
+//	$ borel audit testdata/pi-1e6.txt.gz --strict
+//
+// The Hausdorff dimension of the numbers with given digit frequencies
+// (Besicovitch–Eggleston):
+//
+//	$ borel dimension 0.5,0,0.5
+//
+// Exit status: 0 success; 1 the input could not be read or is not a sequence
+// of the base; 2 invalid options or arguments, found before any work; 3 with
+// --strict, a verdict other than consistent. Every error is one line on
+// standard error starting with "borel:".
+package main
