@@ -6,6 +6,7 @@ import (
 	"os"
 	"testing"
 
+	"borel/stats/expand"
 	"borel/stats/seq"
 	"borel/stats/tally"
 )
@@ -199,21 +200,7 @@ func TestDegreesOfFreedomBySimulation(t *testing.T) {
 		t.Fatal(err)
 	}
 	rng := rand.New(rand.NewPCG(11, 12))
-	draw := func(n int) []byte {
-		d := make([]byte, n)
-		for i := range d {
-			u := rng.Float64()
-			switch {
-			case u < .5:
-				d[i] = 0
-			case u < .8:
-				d[i] = 1
-			default:
-				d[i] = 2
-			}
-		}
-		return d
-	}
+	draw := func(n int) []byte { return expand.IID(n, p, rng) }
 	const reps = 400
 	type key struct {
 		stat string
@@ -296,18 +283,7 @@ func TestEntropyIntervalCoverageVector(t *testing.T) {
 	const reps = 300
 	misses := make([]int, 5)
 	for range reps {
-		d := make([]byte, 6000)
-		for i := range d {
-			switch u := rng.Float64(); {
-			case u < .2:
-				d[i] = 0
-			case u < .5:
-				d[i] = 1
-			default:
-				d[i] = 2
-			}
-		}
-		in := input(t, d, 3, 4, vec)
+		in := input(t, expand.IID(6000, vec.P, rng), 3, 4, vec)
 		var r Result
 		entropyCheck{}.Run(in, &r)
 		for _, row := range r.Entropy.Rows {
