@@ -41,7 +41,7 @@ func Merge(a, b *Tally) (*Tally, error) {
 	x := append(slices.Clone(a.Tail), b.Head...)
 	cut := len(a.Tail)          // index in x of b's first digit
 	xs := b.Offset - int64(cut) // global position of x[0]
-	for s := 0; s < cut && s+K <= len(x); s++ {
+	for s := max(0, cut-K+1); s < cut && s+K <= len(x); s++ {
 		t.Overlap[value(x[s:s+K], base)]++
 	}
 	for k := 2; k <= K; k++ {
@@ -68,7 +68,9 @@ func Merge(a, b *Tally) (*Tally, error) {
 		ga.Last = a.N + gb.Last
 	}
 
-	keep := K - 1
+	t.mergeExtras(a, b, x, xs, cut)
+
+	keep := t.span() - 1
 	if len(t.Head) < keep {
 		t.Head = append(t.Head, b.Head[:min(len(b.Head), keep-len(t.Head))]...)
 	}
@@ -80,7 +82,11 @@ func Merge(a, b *Tally) (*Tally, error) {
 
 func sameSpec(a, b Spec) bool {
 	return a.Base == b.Base && a.MaxBlock == b.MaxBlock && a.gapCap() == b.gapCap() &&
-		slices.Equal(a.GapClass, b.GapClass)
+		slices.Equal(a.GapClass, b.GapClass) && a.PokerHand == b.PokerHand &&
+		a.UpDownDigits == b.UpDownDigits && a.Lags == b.Lags && a.RunDigit == b.RunDigit &&
+		a.WalkHull == b.WalkHull && a.CouponClasses == b.CouponClasses &&
+		slices.Equal(a.CouponClass, b.CouponClass) && a.CouponCap == b.CouponCap &&
+		a.CouponEvery == b.CouponEvery
 }
 
 func addInto(dst, src []int64) {
@@ -106,6 +112,13 @@ func (t *Tally) Clone() *Tally {
 	}
 	u.Head = slices.Clone(t.Head)
 	u.Tail = slices.Clone(t.Tail)
+	u.CouponClass = slices.Clone(t.CouponClass)
+	u.Poker = slices.Clone(t.Poker)
+	u.LagProd = slices.Clone(t.LagProd)
+	u.Walk.Upper = slices.Clone(t.Walk.Upper)
+	u.Walk.Lower = slices.Clone(t.Walk.Lower)
+	u.Coupon.Hist = slices.Clone(t.Coupon.Hist)
+	u.Coupon.Head = slices.Clone(t.Coupon.Head)
 	return &u
 }
 
@@ -122,7 +135,8 @@ func (t *Tally) Cyclic() ([][]int64, error) {
 	}
 	out := make([][]int64, K+1)
 	top := slices.Clone(t.Overlap)
-	wrap := append(slices.Clone(t.Tail), t.Head...)
+	// The wrap-around windows start in the last K-1 positions.
+	wrap := append(slices.Clone(t.Tail[len(t.Tail)-(K-1):]), t.Head[:K-1]...)
 	for s := 0; s < K-1; s++ {
 		top[value(wrap[s:s+K], b)]++
 	}

@@ -30,6 +30,16 @@ type Spec struct {
 	// class per digit.
 	GapClass []int
 	GapCap   int // 0 means DefaultGapCap
+
+	PokerHand     int   // hand size h of the poker check; 0: off
+	UpDownDigits  int   // digits L per value of the up/down runs check; 0: off
+	Lags          int   // largest lag H of the serial-correlation check; 0: off
+	RunDigit      int   // the digit whose longest run is tallied
+	WalkHull      bool  // keep the walk's convex hulls (non-uniform or fitted null)
+	CouponClasses int   // number d ≤ 32 of coupon classes; 0: off
+	CouponClass   []int // class of each digit (len Base) when CouponClasses > 0
+	CouponCap     int   // coupon segment length from which lengths are pooled
+	CouponEvery   int   // restart spacing of coupon segments; 0: CouponRestart
 }
 
 // Cells returns the number of int64 counters a Tally of this Spec holds,
@@ -47,7 +57,7 @@ func (s Spec) Cells() float64 {
 		}
 	}
 	cells += pow // overlapping linear counts at K
-	return cells + float64(s.classes()*(s.gapCap()+1))
+	return cells + float64(s.classes()*(s.gapCap()+1)) + float64(s.PokerHand+s.Lags+s.CouponCap+CouponRestart/8)
 }
 
 func (s Spec) gapCap() int {
@@ -71,6 +81,12 @@ func (s Spec) Validate() error {
 	}
 	if s.MaxBlock < 1 {
 		return fmt.Errorf("tally: block length %d, need at least 1", s.MaxBlock)
+	}
+	if s.CouponClasses > 32 || (s.CouponClasses > 0 && (len(s.CouponClass) != s.Base || s.CouponCap < s.CouponClasses)) {
+		return fmt.Errorf("tally: coupon classes need ≤ 32 classes, one per digit, and a cap of at least the class count")
+	}
+	if s.RunDigit < 0 || s.RunDigit >= s.Base {
+		return fmt.Errorf("tally: run digit %d is not a digit of base %d", s.RunDigit, s.Base)
 	}
 	if s.GapClass != nil {
 		if len(s.GapClass) != s.Base {
@@ -105,8 +121,18 @@ type Tally struct {
 	Overlap []int64   // K-windows lying inside the stretch, indexed by block value
 	Blocks  [][]int64 // Blocks[k], k = 2..K: aligned non-overlapping k-blocks
 	Gaps    []GapTally
-	Head    []byte // first min(N, K-1) digits
-	Tail    []byte // last min(N, K-1) digits
+	Head    []byte // first min(N, span-1) digits (span: the longest window any record needs)
+	Tail    []byte // last min(N, span-1) digits
+
+	Poker    []int64 // Poker[r]: aligned hands with r distinct digits
+	UDValues int64   // aligned L-digit values
+	UDTurns  int64   // turning points among consecutive values
+	UDTies   int64   // consecutive equal values
+	LagProd  []int64 // LagProd[h]: Σ x_i x_{i+h} over pairs inside the stretch
+	RunAny   RunTally
+	RunDig   RunTally // runs of the digit RunDigit
+	Walk     WalkTally
+	Coupon   CouponTally
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -128,6 +154,7 @@ func New(spec Spec, offset int64) (*Tally, error) {
 	}
 	t.Head = []byte{}
 	t.Tail = []byte{}
+	newExtras(t)
 	return t, nil
 }
 
@@ -160,6 +187,7 @@ func (t *Tally) Add(d []byte) {
 		t.addBlocks(k, d)
 	}
 	t.addGaps(d)
+	t.addExtras(d)
 	t.advance(d)
 }
 
@@ -248,7 +276,7 @@ func (t *Tally) addGaps(d []byte) {
 
 // advance updates n, head and tail after d has been counted.
 func (t *Tally) advance(d []byte) {
-	keep := t.MaxBlock - 1
+	keep := t.span() - 1
 	if len(t.Head) < keep {
 		t.Head = append(t.Head, d[:min(len(d), keep-len(t.Head))]...)
 	}

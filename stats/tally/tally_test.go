@@ -1,6 +1,7 @@
 package tally
 
 import (
+	"math"
 	"math/rand/v2"
 	"reflect"
 	"slices"
@@ -45,13 +46,7 @@ func TestMergeEqualsWhole(t *testing.T) {
 	for trial := 0; trial < 200; trial++ {
 		base := 2 + rng.IntN(9)
 		K := 1 + rng.IntN(5)
-		spec := Spec{Base: base, MaxBlock: K, GapCap: 1 + rng.IntN(12)}
-		if rng.IntN(2) == 0 {
-			spec.GapClass = make([]int, base)
-			for i := range spec.GapClass {
-				spec.GapClass[i] = i % 3
-			}
-		}
+		spec := randomSpec(rng, base, K)
 		n := 1 + rng.IntN(400)
 		d := randomDigits(rng, n, base)
 		whole := mustNew(t, spec, 0)
@@ -171,5 +166,160 @@ func TestMergeRejectsGapsAndOverlaps(t *testing.T) {
 	d := mustNew(t, Spec{Base: 10, MaxBlock: 3}, 3)
 	if _, err := Merge(a, d); err == nil {
 		t.Error("merge of different specs accepted")
+	}
+}
+
+// randomSpec switches every record on, with random parameters.
+func randomSpec(rng *rand.Rand, base, K int) Spec {
+	spec := Spec{Base: base, MaxBlock: K, GapCap: 1 + rng.IntN(12),
+		PokerHand: 2 + rng.IntN(4), UpDownDigits: 1 + rng.IntN(3), Lags: 1 + rng.IntN(4),
+		RunDigit: rng.IntN(base), WalkHull: rng.IntN(2) == 0,
+		CouponClasses: min(base, 2+rng.IntN(3)), CouponCap: 12, CouponEvery: 5 + rng.IntN(40)}
+	spec.CouponClass = make([]int, base)
+	for i := range spec.CouponClass {
+		spec.CouponClass[i] = i % spec.CouponClasses
+	}
+	if rng.IntN(2) == 0 {
+		spec.GapClass = make([]int, base)
+		for i := range spec.GapClass {
+			spec.GapClass[i] = i % 3
+		}
+	}
+	return spec
+}
+
+// The extra records against their definitions, computed naively.
+func TestExtrasAgainstDefinition(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := 0; trial < 300; trial++ {
+		base := 2 + rng.IntN(6)
+		spec := randomSpec(rng, base, 1+rng.IntN(3))
+		n := 1 + rng.IntN(300)
+		d := randomDigits(rng, n, base)
+		if rng.IntN(4) == 0 { // long runs now and then
+			for i := range d {
+				if rng.IntN(3) > 0 && i > 0 {
+					d[i] = d[i-1]
+				}
+			}
+		}
+		tl := mustNew(t, spec, 0)
+		tl.Add(d)
+
+		h := spec.PokerHand
+		poker := make([]int64, h+1)
+		for i := 0; i+h <= n; i += h {
+			seen := map[byte]bool{}
+			for _, x := range d[i : i+h] {
+				seen[x] = true
+			}
+			poker[len(seen)]++
+		}
+		if !slices.Equal(tl.Poker, poker) {
+			t.Fatalf("trial %d: poker %v, want %v", trial, tl.Poker, poker)
+		}
+
+		L := spec.UpDownDigits
+		var vals []uint64
+		for i := 0; i+L <= n; i += L {
+			vals = append(vals, udValue(d[i:i+L], base))
+		}
+		var turns, ties int64
+		for i := range vals {
+			if i+1 < len(vals) && vals[i] == vals[i+1] {
+				ties++
+			}
+			if i+2 < len(vals) {
+				a, b, c := vals[i], vals[i+1], vals[i+2]
+				if (b > a && b > c) || (b < a && b < c) {
+					turns++
+				}
+			}
+		}
+		if tl.UDValues != int64(len(vals)) || tl.UDTurns != turns || tl.UDTies != ties {
+			t.Fatalf("trial %d: up/down %d %d %d, want %d %d %d", trial, tl.UDValues, tl.UDTurns, tl.UDTies, len(vals), turns, ties)
+		}
+
+		for lag := 1; lag <= spec.Lags; lag++ {
+			var s int64
+			for i := 0; i+lag < n; i++ {
+				s += int64(d[i]) * int64(d[i+lag])
+			}
+			if tl.LagProd[lag] != s {
+				t.Fatalf("trial %d: lag %d sum %d, want %d", trial, lag, tl.LagProd[lag], s)
+			}
+		}
+
+		var maxAny, maxDig, run, runD int64
+		for i, x := range d {
+			if i > 0 && x == d[i-1] {
+				run++
+			} else {
+				run = 1
+			}
+			if int(x) == spec.RunDigit {
+				runD++
+			} else {
+				runD = 0
+			}
+			maxAny, maxDig = max(maxAny, run), max(maxDig, runD)
+		}
+		if tl.RunAny.Max != maxAny || tl.RunDig.Max != maxDig {
+			t.Fatalf("trial %d: runs %d %d, want %d %d", trial, tl.RunAny.Max, tl.RunDig.Max, maxAny, maxDig)
+		}
+
+		// Walk: max over k of T_k - kμ for a few μ, from the hull or the extremes.
+		var sum int64
+		umax, umin := int64(0), int64(0)
+		for k, x := range d {
+			sum += int64(x)
+			u := 2*sum - int64(k+1)*int64(base-1)
+			umax, umin = max(umax, u), min(umin, u)
+		}
+		if tl.Walk.Sum != sum {
+			t.Fatalf("walk sum")
+		}
+		if !spec.WalkHull && (tl.Walk.UMax != umax || tl.Walk.UMin != umin) {
+			t.Fatalf("trial %d: walk extremes %d %d, want %d %d", trial, tl.Walk.UMax, tl.Walk.UMin, umax, umin)
+		}
+		if spec.WalkHull {
+			for _, mu := range []float64{0, 0.5, float64(base-1) / 2, 1.37} {
+				hi, lo := 0.0, 0.0
+				var s int64
+				for k, x := range d {
+					s += int64(x)
+					v := float64(s) - float64(k+1)*mu
+					hi, lo = math.Max(hi, v), math.Min(lo, v)
+				}
+				hHi, hLo := math.Inf(-1), math.Inf(1)
+				for _, p := range tl.Walk.Upper {
+					hHi = math.Max(hHi, float64(p.T)-float64(p.K)*mu)
+				}
+				for _, p := range tl.Walk.Lower {
+					hLo = math.Min(hLo, float64(p.T)-float64(p.K)*mu)
+				}
+				if math.Abs(hHi-hi) > 1e-9 || math.Abs(hLo-lo) > 1e-9 {
+					t.Fatalf("trial %d μ=%g: hull extremes %g %g, want %g %g", trial, mu, hHi, hLo, hi, lo)
+				}
+			}
+		}
+
+		hist := make([]int64, spec.CouponCap+1)
+		var seen uint32
+		var length int64
+		for i, x := range d {
+			if i%spec.CouponEvery == 0 {
+				seen, length = 0, 0
+			}
+			seen |= 1 << spec.CouponClass[x]
+			length++
+			if seen == 1<<spec.CouponClasses-1 {
+				hist[min(length, int64(spec.CouponCap))]++
+				seen, length = 0, 0
+			}
+		}
+		if !slices.Equal(tl.Coupon.Hist, hist) {
+			t.Fatalf("trial %d: coupon %v, want %v", trial, tl.Coupon.Hist, hist)
+		}
 	}
 }
