@@ -34,8 +34,14 @@ func formatStat(v float64) string {
 	return strconv.FormatFloat(v, 'g', 6, 64)
 }
 
-// formatDF prints degrees of freedom (integers in borel).
-func formatDF(df float64) string { return strconv.FormatFloat(df, 'f', -1, 64) }
+// formatDF prints degrees of freedom (integers in borel), or "–" for a
+// statistic that has none (z scores, run lengths, excursions).
+func formatDF(df float64) string {
+	if df == 0 {
+		return "–"
+	}
+	return strconv.FormatFloat(df, 'f', -1, 64)
+}
 
 // statisticName gives the printed name of a statistic identifier.
 func statisticName(id string) string {
@@ -46,6 +52,12 @@ func statisticName(id string) string {
 		return "∇ψ²"
 	case "d2psi2":
 		return "∇²ψ²"
+	case "run_any":
+		return "L (any digit)"
+	case "run_digit":
+		return "L"
+	case "M":
+		return "max|S|/√n"
 	default:
 		return id
 	}

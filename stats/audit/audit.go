@@ -112,6 +112,40 @@ func validBlock(n float64, minP, minExpected float64) int {
 	return k
 }
 
+// batterySpec fixes the parameters of every check but the block length:
+// poker hands of 5 digits (4 below base 5); up/down values of as many digits
+// as a 63-bit integer holds, so ties are negligible; serial correlation at
+// lags 1..5; longest runs of identical digits and of digit b-1; the walk's
+// hulls unless the null is uniform; coupon classes (the digits up to base 16,
+// else 16 classes of consecutive digits) with lengths pooled from 8 times
+// the expected segment length.
+func batterySpec(base int, null NullSpec) tally.Spec {
+	s := tally.Spec{Base: base, GapClass: gapClasses(base), PokerHand: 5, Lags: 5, RunDigit: base - 1,
+		UpDownDigits: int(63 / math.Log2(float64(base))), WalkHull: null.Kind != checks.Uniform}
+	if base < 5 {
+		s.PokerHand = 4
+	}
+	d := min(base, 16)
+	s.CouponClasses = d
+	s.CouponClass = make([]int, base)
+	q := make([]float64, d)
+	for j := range s.CouponClass {
+		s.CouponClass[j] = j * d / base
+		if null.Kind == checks.Vector {
+			q[s.CouponClass[j]] += null.P[j]
+		} else {
+			q[s.CouponClass[j]] += 1 / float64(base)
+		}
+	}
+	minQ, harmonic := 1.0, 0.0
+	for i, v := range q {
+		minQ = math.Min(minQ, v)
+		harmonic += 1 / float64(i+1)
+	}
+	s.CouponCap = min(4096, max(d+1, int(math.Ceil(8*harmonic/minQ))))
+	return s
+}
+
 func gapClasses(base int) []int {
 	if base <= seq.MaxTextBase {
 		return nil
@@ -132,7 +166,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 	if err := validateOptions(opts); err != nil {
 		return nil, err
 	}
-	p := &Plan{opts: opts, Spec: tally.Spec{Base: base, GapClass: gapClasses(base)}}
+	p := &Plan{opts: opts, Spec: batterySpec(base, opts.Null)}
 	bytesFor := func(k int) float64 {
 		s := p.Spec
 		s.MaxBlock = k
@@ -268,8 +302,8 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 
 // adjust applies the multiple-testing adjustment to the family of every
 // (finding, tail) and returns the verdict: not consistent when any adjusted
-// upper-tail p is below alpha, else too uniform when any adjusted lower-tail
-// p is, else consistent.
+// upper-tail p (or either tail of a two-sided z score) is at or below alpha,
+// else too uniform when any adjusted lower-tail p is, else consistent.
 func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
 	logP := make([]float64, 0, 2*len(fs))
 	for _, f := range fs {
@@ -287,7 +321,7 @@ func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
 	for i, f := range fs {
 		a := Finding{Finding: f, LogAdjUpper: adj[2*i], LogAdjLower: adj[2*i+1]}
 		switch {
-		case a.LogAdjUpper <= lnAlpha:
+		case a.LogAdjUpper <= lnAlpha, a.TwoSided && a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkDeviates
 			verdict = NotConsistent
 		case a.LogAdjLower <= lnAlpha:

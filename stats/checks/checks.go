@@ -9,6 +9,7 @@ package checks
 import (
 	"math"
 
+	"borel/stats"
 	"borel/stats/tally"
 )
 
@@ -26,6 +27,9 @@ type Finding struct {
 	LogPLower float64
 	Detail    string   // information on how the statistic was formed
 	Notes     []string // caveats: validity rules that bite, and how to fix them
+	// TwoSided marks a statistic whose both tails are deviations (a z
+	// score); for the others a small lower tail means "fits too well".
+	TwoSided bool
 }
 
 // Skip records a check, or one parameter of it, that was not run, and why.
@@ -76,7 +80,8 @@ type Check interface {
 
 // All returns the checks of the audit, in report order.
 func All() []Check {
-	return []Check{freqCheck{}, blocksCheck{}, serialCheck{}, gapCheck{}, entropyCheck{}}
+	return []Check{freqCheck{}, blocksCheck{}, serialCheck{}, gapCheck{}, pokerCheck{}, couponCheck{},
+		updownCheck{}, lagcorrCheck{}, maxrunCheck{}, driftCheck{}, entropyCheck{}}
 }
 
 // chiSquareFinding fills both tails of a chi-square statistic.
@@ -110,4 +115,47 @@ func (c *cellStat) add(count int64, expected float64) {
 	}
 	c.minExp = math.Min(c.minExp, expected)
 	c.cells++
+}
+
+// normalFinding fills both tails of a standard normal z score.
+func normalFinding(check, stat string, params map[string]int, z float64) Finding {
+	return Finding{Check: check, Statistic: stat, Params: params, Value: z,
+		LogPUpper: stats.NormalLogSF(z), LogPLower: stats.NormalLogSF(-z), TwoSided: true}
+}
+
+// poolClasses merges adjacent classes, left to right, until each pooled
+// class has an expected count of at least minExp; a short last group joins
+// the one before it. It returns the pooled observed and expected counts.
+func poolClasses(obs []int64, exp []float64, minExp float64) ([]int64, []float64) {
+	var po []int64
+	var pe []float64
+	var o int64
+	e := 0.0
+	for i := range obs {
+		o += obs[i]
+		e += exp[i]
+		if e >= minExp {
+			po, pe = append(po, o), append(pe, e)
+			o, e = 0, 0
+		}
+	}
+	if e > 0 || o > 0 {
+		if len(po) == 0 {
+			po, pe = append(po, o), append(pe, e)
+		} else {
+			po[len(po)-1] += o
+			pe[len(pe)-1] += e
+		}
+	}
+	return po, pe
+}
+
+// pooledChiSquare pools the classes and returns X² and the number of classes.
+func pooledChiSquare(obs []int64, exp []float64, minExp float64) (x2 float64, classes int) {
+	po, pe := poolClasses(obs, exp, minExp)
+	cs := newCellStat()
+	for i := range po {
+		cs.add(po[i], pe[i])
+	}
+	return cs.x2, len(po)
 }

@@ -1,0 +1,164 @@
+package checks
+
+import (
+	"math"
+	"testing"
+
+	"borel/stats/tally"
+)
+
+// Poker probabilities, Knuth's formula; numbers from methods.md §5
+// [pub formula, calc numbers]: P(R = r) for (b, h).
+func TestPokerProbs(t *testing.T) {
+	uni := func(b int) []float64 {
+		p := make([]float64, b)
+		for i := range p {
+			p[i] = 1 / float64(b)
+		}
+		return p
+	}
+	cases := []struct {
+		b, h int
+		want []float64 // r = 1..h
+	}{
+		{10, 5, []float64{0.0001, 0.0135, 0.18, 0.504, 0.3024}},
+		{10, 4, []float64{0.001, 0.063, 0.432, 0.504}},
+		{16, 4, []float64{0.000244, 0.025635, 0.307617, 0.666504}},
+		{8, 4, []float64{0.001953, 0.095703, 0.492188, 0.410156}},
+	}
+	for _, c := range cases {
+		got := PokerProbs(uni(c.b), c.h)
+		for r, w := range c.want {
+			if math.Abs(got[r+1]-w) > 5.01e-7 { // the table is rounded to 6 decimals
+				t.Errorf("b=%d h=%d: P(R=%d) = %.6f, want %.6f", c.b, c.h, r+1, got[r+1], w)
+			}
+		}
+	}
+	// A non-uniform vector: the probabilities still sum to 1 and R=1 is Σ p_j^h.
+	p := []float64{0.5, 0.3, 0.2}
+	got := PokerProbs(p, 4)
+	sum := 0.0
+	for _, v := range got {
+		sum += v
+	}
+	if math.Abs(sum-1) > 1e-12 || math.Abs(got[1]-(math.Pow(.5, 4)+math.Pow(.3, 4)+math.Pow(.2, 4))) > 1e-12 {
+		t.Errorf("vector poker law %v (sum %g)", got, sum)
+	}
+}
+
+// Coupon-collector law, methods.md §6 [calc]: d = 10: P(T = 10..21) =
+// 0.000363, 0.001633, 0.004191, 0.008083, 0.013046, 0.018634, 0.024360,
+// 0.029785, 0.034578, 0.038529, 0.041536, 0.043587; P(T ≥ 41) = 0.141903;
+// d = 4: P(T = 4..7) = 0.09375, 0.140625, 0.146484, 0.131836.
+func TestCouponCDF(t *testing.T) {
+	q := make([]float64, 10)
+	for i := range q {
+		q[i] = 0.1
+	}
+	cdf := CouponCDF(q, 60)
+	want := []float64{0.000363, 0.001633, 0.004191, 0.008083, 0.013046, 0.018634, 0.024360, 0.029785, 0.034578, 0.038529, 0.041536, 0.043587}
+	for i, w := range want {
+		r := 10 + i
+		if got := cdf[r] - cdf[r-1]; math.Abs(got-w) > 5e-7 {
+			t.Errorf("d=10: P(T=%d) = %.6f, want %.6f", r, got, w)
+		}
+	}
+	if got := 1 - cdf[40]; math.Abs(got-0.141903) > 5e-7 {
+		t.Errorf("P(T ≥ 41) = %.6f, want 0.141903", got)
+	}
+	mean := 0.0
+	for r := 0; r < 60; r++ {
+		mean += 1 - cdf[r]
+	}
+	q4 := []float64{.25, .25, .25, .25}
+	c4 := CouponCDF(q4, 8)
+	for i, w := range []float64{0.09375, 0.140625, 0.146484, 0.131836} {
+		r := 4 + i
+		if got := c4[r] - c4[r-1]; math.Abs(got-w) > 5e-7 {
+			t.Errorf("d=4: P(T=%d) = %.6f, want %.6f", r, got, w)
+		}
+	}
+	// The subset form (unequal classes) agrees with the equal-class form.
+	near := []float64{.25, .25, .25 + 1e-13, .25 - 1e-13}
+	cn := CouponCDF(near, 8)
+	for r := range cn {
+		if math.Abs(cn[r]-c4[r]) > 1e-9 {
+			t.Errorf("subset form at r=%d: %g vs %g", r, cn[r], c4[r])
+		}
+	}
+}
+
+// Levene & Wolfowitz (1944): the number of runs up and down R in m distinct
+// values has E = (2m-1)/3 and Var = (16m-29)/90 — checked here against full
+// enumeration of the permutations of m = 5..8 (methods.md §7 did n = 5..9).
+func TestRunsUpDownMoments(t *testing.T) {
+	for m := 5; m <= 8; m++ {
+		perm := make([]int, m)
+		for i := range perm {
+			perm[i] = i
+		}
+		var count, sum, sumSq float64
+		var rec func(k int)
+		rec = func(k int) {
+			if k == m {
+				turns := 0
+				for i := 1; i+1 < m; i++ {
+					a, b, c := perm[i-1], perm[i], perm[i+1]
+					if (b > a && b > c) || (b < a && b < c) {
+						turns++
+					}
+				}
+				r := float64(turns + 1)
+				count++
+				sum += r
+				sumSq += r * r
+				return
+			}
+			for i := k; i < m; i++ {
+				perm[k], perm[i] = perm[i], perm[k]
+				rec(k + 1)
+				perm[k], perm[i] = perm[i], perm[k]
+			}
+		}
+		rec(0)
+		mean := sum / count
+		v := sumSq/count - mean*mean
+		if math.Abs(mean-float64(2*m-1)/3) > 1e-12 || math.Abs(v-float64(16*m-29)/90) > 1e-12 {
+			t.Errorf("m=%d: E %.6f Var %.6f, want %.6f %.6f", m, mean, v, float64(2*m-1)/3, float64(16*m-29)/90)
+		}
+	}
+}
+
+// π's first 10^6 decimals: lag-h correlations z = -1.390, 0.218, -0.643 for
+// h = 1, 2, 3 (methods.md §8 [calc]); the longest run of identical digits is
+// 7 ("3333333" at decimal 710 100; methods.md §9, §16, also M. E. Lines,
+// A Number for Your Thoughts, ch. 18) and of 9s is 6 (decimals 762–767,
+// methods.md §16).
+func TestBatteryOnPi(t *testing.T) {
+	d := readPi(t)
+	spec := tally.Spec{Base: 10, MaxBlock: 2, PokerHand: 5, UpDownDigits: 18, Lags: 3, RunDigit: 9}
+	tl, err := tally.New(spec, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tl.Add(d)
+	cyc, _ := tl.Cyclic()
+	in := Input{Tally: tl, Cyclic: cyc, Null: UniformNull(10), Opts: DefaultOptions()}
+	var r Result
+	lagcorrCheck{}.Run(in, &r)
+	maxrunCheck{}.Run(in, &r)
+	for h, want := range []float64{-1.390, 0.218, -0.643} {
+		if f := find(t, r, "lagcorr", "z", "lag", h+1); math.Abs(f.Value-want) > 5e-4 {
+			t.Errorf("lag %d: z = %.4f, want %.3f", h+1, f.Value, want)
+		}
+	}
+	if f := find(t, r, "maxrun", "run_any", "k", 0); f.Value != 7 {
+		t.Errorf("longest run %g, want 7", f.Value)
+	} else if p := math.Exp(f.LogPUpper); math.Abs(p-0.593) > 2e-3 {
+		// methods.md §9: P(L ≥ 7) ≈ 1 - e^-0.9 = 0.593.
+		t.Errorf("P(L ≥ 7) = %.4f, want about 0.593", p)
+	}
+	if f := find(t, r, "maxrun", "run_digit", "digit", 9); f.Value != 6 {
+		t.Errorf("longest run of 9s %g, want 6", f.Value)
+	}
+}

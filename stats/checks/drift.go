@@ -1,0 +1,67 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+
+	"borel/stats"
+)
+
+// driftCheck is the maximal excursion of the digit-sum walk. With the null's
+// mean μ and standard deviation σ, S_k = Σ_{i≤k} (x_i - μ)/σ and
+//
+//	M = max_{k≤n} |S_k| / √n  →  sup_{0≤t≤1} |W_t|   (Erdős & Kac 1946),
+//
+// whose law P(sup|W| ≥ x) = 4 Σ_{k≥0} (-1)^k Φc((2k+1)x) is exact in the
+// limit (stats.BrownianMaxLogSF). Under a fitted null μ̂ is the sample mean,
+// the walk is a bridge, and M follows Kolmogorov's law of sup|B|. The
+// maximum is taken exactly: from integer extremes under the uniform null,
+// from the walk's convex hulls otherwise. A small M (a walk held too close
+// to its mean) is a fit that is too good. The iterated-logarithm envelope
+// √(2n ln ln n) is shown in the detail as a description only: at a fixed n
+// it is not a test (methods.md §10). Validity: n ≥ 100 (common practice).
+type driftCheck struct{}
+
+var _ Check = driftCheck{}
+
+func (driftCheck) Name() string { return "drift" }
+
+func (driftCheck) Run(in Input, out *Result) {
+	t := in.Tally
+	n := float64(t.N)
+	if t.N < 100 {
+		out.Skips = append(out.Skips, Skip{Check: "drift", Reason: "fewer than 100 digits: the Brownian law of the excursion is not reached"})
+		return
+	}
+	mu, m2 := 0.0, 0.0
+	for j, p := range in.Null.P {
+		mu += float64(j) * p
+		m2 += float64(j*j) * p
+	}
+	sigma := math.Sqrt(m2 - mu*mu)
+	var excursion float64 // max_k |T_k - kμ|
+	if !t.WalkHull {
+		excursion = float64(max(t.Walk.UMax, -t.Walk.UMin)) / 2
+	} else {
+		hi, lo := math.Inf(-1), math.Inf(1)
+		for _, p := range t.Walk.Upper {
+			hi = math.Max(hi, float64(p.T)-float64(p.K)*mu)
+		}
+		for _, p := range t.Walk.Lower {
+			lo = math.Min(lo, float64(p.T)-float64(p.K)*mu)
+		}
+		excursion = math.Max(hi, -lo)
+	}
+	M := excursion / (sigma * math.Sqrt(n))
+	f := Finding{Check: "drift", Statistic: "M", Value: M}
+	if in.Null.Kind == Fitted {
+		f.LogPUpper, f.LogPLower = stats.KolmogorovLogSF(M), stats.KolmogorovLogCDF(M)
+		f.Detail = "fitted null: the walk is a bridge; Kolmogorov's law of sup|B|"
+	} else {
+		f.LogPUpper, f.LogPLower = stats.BrownianMaxLogSF(M), stats.BrownianMaxLogCDF(M)
+		if lil := math.Log(math.Log(n)); lil > 0 {
+			f.Detail = fmt.Sprintf("max |S_k| is %.3g of the iterated-logarithm envelope √(2n ln ln n) (descriptive)", M/math.Sqrt(2*lil))
+		}
+	}
+	out.Findings = append(out.Findings, f)
+}

@@ -1,0 +1,43 @@
+package checks
+
+import (
+	"fmt"
+
+	"borel/stats"
+)
+
+// maxrunCheck is the longest run: of identical digits (any digit), and of
+// one digit (b-1: ones for bits). Its exact law comes from a Markov chain on
+// the current run length raised to the n-th power (stats.LongestRunLogTails;
+// Poisson approximation only in far tails beyond the chain, which a note
+// says). L is discrete: p upper is P(L ≥ l), p lower is P(L ≤ l) — a longest
+// run shorter than chance allows is a fit that is too good (constructed
+// sequences avoid long runs). The second level uses randomized p-values.
+// Checks: π's first 10^6 decimals have a longest run of 7 ("3333333" at
+// decimal 710 100; P(L ≥ 7) ≈ 0.59). References: methods.md §9; Schilling,
+// College Math. J. 21 (1990) 196–207.
+type maxrunCheck struct{}
+
+var _ Check = maxrunCheck{}
+
+func (maxrunCheck) Name() string { return "maxrun" }
+
+func (maxrunCheck) Run(in Input, out *Result) {
+	t := in.Tally
+	add := func(stat string, params map[string]int, class int, l int64) {
+		up, lo, approx := stats.LongestRunLogTails(t.N, in.Null.P, class, l)
+		f := Finding{Check: "maxrun", Statistic: stat, Params: params, Value: float64(l),
+			LogPUpper: up, LogPLower: lo}
+		if approx {
+			f.Notes = append(f.Notes, "a tail beyond the exact chain uses the Poisson approximation (Erdős–Rényi)")
+		}
+		out.Findings = append(out.Findings, f)
+	}
+	add("run_any", nil, -1, t.RunAny.Max)
+	if in.Null.P[t.RunDigit] > 0 {
+		add("run_digit", map[string]int{"digit": t.RunDigit}, t.RunDigit, t.RunDig.Max)
+	} else {
+		out.Skips = append(out.Skips, Skip{Check: "maxrun", Params: map[string]int{"digit": t.RunDigit},
+			Reason: fmt.Sprintf("digit %d has probability 0 under the null", t.RunDigit)})
+	}
+}

@@ -1,0 +1,52 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+)
+
+// updownCheck counts runs up and down (Levene & Wolfowitz 1944). Digits
+// tie too often for a runs test, so the values are u_j = the base-b integer
+// of L consecutive digits (disjoint groups aligned at multiples of L). With
+// m values and T turning points (strict peaks and troughs), the number of
+// maximal monotone runs is R = T + 1 and, for continuous i.i.d. values,
+//
+//	E[R] = (2m - 1)/3,   Var[R] = (16m - 29)/90,   z = (R - E[R])/√Var[R] ~ N(0, 1).
+//
+// Both tails deviate: too few runs (long monotone stretches) and too many
+// (alternation). The test is rank-based, so the same law holds under every
+// null provided ties are negligible: the expected number of ties,
+// (m-1)(Σ_j p_j²)^L, must be ≪ 1 (methods.md §7); L is chosen as large as a
+// 64-bit value allows, and any tie seen is reported.
+// References: Levene & Wolfowitz, Ann. Math. Statist. 15 (1944) 58–69;
+// methods.md §7.
+type updownCheck struct{}
+
+var _ Check = updownCheck{}
+
+func (updownCheck) Name() string { return "updown" }
+
+func (updownCheck) Run(in Input, out *Result) {
+	t := in.Tally
+	L := t.UpDownDigits
+	m := t.UDValues
+	params := map[string]int{"digits": L}
+	if m < 100 {
+		out.Skips = append(out.Skips, Skip{Check: "updown", Params: params,
+			Reason: fmt.Sprintf("%d values of %d digits are too few for the normal law of the run count (needs 100 values: %d digits)", m, L, 100*L)})
+		return
+	}
+	mf := float64(m)
+	runs := float64(t.UDTurns + 1)
+	z := (runs - (2*mf-1)/3) / math.Sqrt((16*mf-29)/90)
+	f := normalFinding("updown", "z", params, z)
+	f.Detail = fmt.Sprintf("%d runs up and down in %d values of %d digits (expected %.1f)", t.UDTurns+1, m, L, (2*mf-1)/3)
+	sq := 0.0
+	for _, p := range in.Null.P {
+		sq += p * p
+	}
+	if expTies := (mf - 1) * math.Pow(sq, float64(L)); t.UDTies > 0 || expTies > 0.01 {
+		f.Notes = append(f.Notes, fmt.Sprintf("%d ties between consecutive values (%.3g expected under the null); the run law assumes none", t.UDTies, expTies))
+	}
+	out.Findings = append(out.Findings, f)
+}
