@@ -2,6 +2,8 @@ package reports
 
 import (
 	"fmt"
+
+	"borel/stats/checks"
 	"math"
 	"sort"
 	"strconv"
@@ -61,6 +63,29 @@ func statisticName(id string) string {
 	default:
 		return id
 	}
+}
+
+// findingParams prints a finding's parameters, or for a second-level
+// finding the statistic it tests.
+func findingParams(f checks.Finding) string {
+	if f.Of != "" {
+		return "of " + readableLabel(f.Of)
+	}
+	return formatParams(f.Params)
+}
+
+// readableLabel turns "serial dpsi2 k=2" into "serial ∇ψ² k=2".
+func readableLabel(l string) string {
+	parts := strings.Fields(l)
+	if len(parts) >= 2 {
+		parts[1] = statisticName(parts[1])
+	}
+	for i := 2; i < len(parts); i++ {
+		if k, v, ok := strings.Cut(parts[i], "="); ok && k != "k" {
+			parts[i] = k + " " + v
+		}
+	}
+	return strings.Join(parts, " ")
 }
 
 // formatParams prints parameters as "k=3" or "digit 7", in key order.

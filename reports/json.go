@@ -67,6 +67,8 @@ type JSONFinding struct {
 	Check          string         `json:"check"`
 	Statistic      string         `json:"statistic"`
 	Params         map[string]int `json:"params"`
+	Of             string         `json:"of,omitempty"`
+	TwoSided       bool           `json:"two_sided"`
 	Value          float64        `json:"value"`
 	DF             float64        `json:"df"`
 	PUpper         float64        `json:"p_upper"`
@@ -139,7 +141,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 	}
 	for _, f := range r.Findings {
 		a.Findings = append(a.Findings, JSONFinding{
-			Check: f.Check, Statistic: f.Statistic, Params: f.Params, Value: f.Value, DF: f.DF,
+			Check: f.Check, Statistic: f.Statistic, Params: f.Params, Of: f.Of, TwoSided: f.TwoSided, Value: f.Value, DF: f.DF,
 			PUpper: math.Exp(f.LogPUpper), PLower: math.Exp(f.LogPLower),
 			Log10PUpper: log10(f.LogPUpper), Log10PLower: log10(f.LogPLower),
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),

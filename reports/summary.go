@@ -23,7 +23,7 @@ func Summary(w io.Writer, doc Document) error {
 			}
 			if label == "–" || lp < worst || (lp == worst && raw < worstRaw) {
 				worst, worstRaw = lp, raw
-				label = fmt.Sprintf("%s %s %s (%s)", f.Check, statisticName(f.Statistic), formatParams(f.Params), tail)
+				label = fmt.Sprintf("%s %s %s (%s)", f.Check, statisticName(f.Statistic), findingParams(f.Finding), tail)
 			}
 		}
 		dim, interval := "–", "–"

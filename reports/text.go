@@ -94,7 +94,7 @@ func textResult(w io.Writer, r *audit.Result) error {
 			}
 			ref += fmt.Sprintf("[%d]", number[n])
 		}
-		rows = append(rows, []string{f.Check, statisticName(f.Statistic), formatParams(f.Params),
+		rows = append(rows, []string{f.Check, statisticName(f.Statistic), findingParams(f.Finding),
 			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
 			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), f.Mark, ref})
 	}
@@ -174,7 +174,7 @@ func formatDeficit(v float64) string {
 func verdictReason(r *audit.Result) string {
 	var dev, uni []string
 	for _, f := range r.Findings {
-		label := fmt.Sprintf("%s %s %s", f.Check, statisticName(f.Statistic), formatParams(f.Params))
+		label := fmt.Sprintf("%s %s %s", f.Check, statisticName(f.Statistic), findingParams(f.Finding))
 		switch f.Mark {
 		case audit.MarkDeviates:
 			dev = append(dev, label)

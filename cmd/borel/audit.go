@@ -29,6 +29,9 @@ Example: the first million decimals of pi, against the uniform null:
   ...
   Verdict for testdata/pi-1e6.txt.gz in base 10: CONSISTENT
 
+Second level: 20 segments, each statistic's 20 p-values tested for uniformity:
+  $ borel audit testdata/pi-1e6.txt.gz --segments 20
+
 Against a stated digit-frequency vector, with a JSON report written atomically:
   $ borel audit lab.txt --base 3 --null 0.2,0.3,0.5 --format json -o lab.json
 `
@@ -46,6 +49,8 @@ func runAudit(e env, args []string) (int, error) {
 	format := fs.String("format", "text", "report format: text or json")
 	output := fs.StringP("output", "o", "", "write the report to this file (atomically) instead of standard output")
 	strict := fs.Bool("strict", false, "exit with status 3 unless the verdict is consistent")
+	segments := fs.Int("segments", 0, "second level: split into this many segments and test each statistic's segment p-values for uniformity (KS, Anderson–Darling)")
+	seed := fs.Uint64("seed", 1, "seed of the randomized p-values that discrete statistics give the second level")
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
@@ -92,6 +97,10 @@ func runAudit(e env, args []string) (int, error) {
 	if opts.MemoryBytes, err = parseSize(*memory); err != nil {
 		return 0, err
 	}
+	if *segments < 0 || *segments == 1 {
+		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", *segments)
+	}
+	opts.Segments, opts.Seed = *segments, *seed
 	if _, err := checkFormat(*format); err != nil {
 		return 0, err
 	}

@@ -48,12 +48,14 @@ type Options struct {
 	MemoryBytes int64   // budget for the count tables
 	MinExpected float64 // smallest expected count per cell (rule of thumb 5)
 	Null        NullSpec
+	Segments    int    // second level: number of segments, 0 for none
+	Seed        uint64 // seed of the randomized p-values of discrete statistics
 }
 
 // DefaultOptions returns alpha 0.01, Holm, automatic K, 256 MiB, minimum
 // expected count 5, uniform null.
 func DefaultOptions() Options {
-	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5}
+	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5, Seed: 1}
 }
 
 // Source describes where a sequence came from, for the report.
@@ -97,6 +99,7 @@ type Plan struct {
 	Auto  bool
 	Notes []string
 	opts  Options
+	seg   *segmenter
 }
 
 // unknownLengthCells caps the tables when the input length is not known in
@@ -167,6 +170,10 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 		return nil, err
 	}
 	p := &Plan{opts: opts, Spec: batterySpec(base, opts.Null)}
+	if opts.Segments > 0 && sizeHint >= 0 && sizeHint/int64(opts.Segments) < MinSegmentDigits {
+		return nil, fmt.Errorf("--segments %d needs at least %d digits (%d per segment); the input holds at most %d",
+			opts.Segments, int64(opts.Segments)*MinSegmentDigits, MinSegmentDigits, sizeHint)
+	}
 	bytesFor := func(k int) float64 {
 		s := p.Spec
 		s.MaxBlock = k
@@ -216,6 +223,9 @@ func validateOptions(o Options) error {
 	if !(o.MinExpected > 0) {
 		return fmt.Errorf("minimum expected count must be positive")
 	}
+	if o.Segments < 0 || o.Segments == 1 {
+		return fmt.Errorf("--segments %d: give 2 or more segments, or 0 for none", o.Segments)
+	}
 	return nil
 }
 
@@ -225,8 +235,14 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := p.startSegments(); err != nil {
+		return nil, err
+	}
 	for r.Scan() {
 		t.Add(r.Digits())
+		if p.seg != nil {
+			p.seg.Add(r.Digits())
+		}
 	}
 	if err := r.Err(); err != nil {
 		return nil, err
@@ -282,6 +298,21 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	var out checks.Result
 	for _, c := range checks.All() {
 		c.Run(in, &out)
+	}
+	if p.seg != nil {
+		if t.N/int64(opts.Segments) < MinSegmentDigits {
+			return nil, fmt.Errorf("%s: %d digits are too few for --segments %d (at least %d digits per segment); use fewer segments",
+				src.Name, t.N, opts.Segments, MinSegmentDigits)
+		}
+		segs, err := p.seg.Segments()
+		if err != nil {
+			return nil, err
+		}
+		fs, skips := secondLevel(segs, res.Null, opts)
+		out.Findings = append(out.Findings, fs...)
+		out.Skips = append(out.Skips, skips...)
+		res.Notes = append(res.Notes, fmt.Sprintf("second level: %d segments of about %d digits; discrete statistics enter with randomized p-values (seed %d)",
+			opts.Segments, t.N/int64(opts.Segments), opts.Seed))
 	}
 	res.Skips = out.Skips
 	res.Entropy = out.Entropy
@@ -354,5 +385,20 @@ func Digits(d []byte, base int, src Source, opts Options) (*Result, error) {
 	if t.N == 0 {
 		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
 	}
+	if err := p.startSegments(); err != nil {
+		return nil, err
+	}
+	if p.seg != nil {
+		p.seg.Add(d)
+	}
 	return p.Finish(t, src)
+}
+
+func (p *Plan) startSegments() error {
+	if p.opts.Segments == 0 {
+		return nil
+	}
+	seg, err := newSegmenter(segmentSpec(p.Spec), p.opts.Segments)
+	p.seg = seg
+	return err
 }

@@ -190,3 +190,71 @@ func TestPlanMemoryBudget(t *testing.T) {
 		t.Errorf("auto K for 1e6 decimal digits = %d (%v), want 5 (1e6·1e-5 = 10 ≥ 5)", p.Spec.MaxBlock, err)
 	}
 }
+
+// A sequence that is right on average and wrong locally: digit 0 has
+// frequency 0.115 in the first half and 0.085 in the second (0.10 overall).
+// One-level checks see little; the second level (20 segments) catches it.
+func TestSecondLevelCatchesLocalBias(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 8))
+	first := make([]float64, 10)
+	second := make([]float64, 10)
+	for i := range first {
+		first[i], second[i] = 0.885/9, 0.915/9
+	}
+	first[0], second[0] = 0.115, 0.085
+	d := append(expand.IID(200_000, first, rng), expand.IID(200_000, second, rng)...)
+	opts := DefaultOptions()
+	opts.Segments = 20
+	r := auditOf(t, d, 10, opts)
+	if r.Verdict != NotConsistent {
+		t.Fatalf("verdict %q, want not consistent", r.Verdict)
+	}
+	caught := map[string]bool{}
+	for _, f := range r.Findings {
+		if f.Mark == MarkDeviates {
+			caught[f.Check] = true
+		}
+	}
+	if !caught["segments"] || caught["freq"] {
+		t.Errorf("caught by %v; want the second level and not the whole-sequence freq check", caught)
+	}
+}
+
+// Under the null the second level is quiet, and the segmenter's segments
+// cover the sequence exactly.
+func TestSecondLevelQuietUnderNull(t *testing.T) {
+	d := seededDigits(300_000, 10, 3)
+	opts := DefaultOptions()
+	opts.Segments = 30
+	r := auditOf(t, d, 10, opts)
+	if r.Verdict != Consistent {
+		t.Errorf("verdict %q", r.Verdict)
+	}
+	n := 0
+	for _, f := range r.Findings {
+		if f.Check == "segments" {
+			n++
+		}
+	}
+	if n < 10 {
+		t.Errorf("only %d second-level findings", n)
+	}
+	p, _ := NewPlan(10, int64(len(d)), opts)
+	p.startSegments()
+	p.seg.Add(d[:123_457])
+	p.seg.Add(d[123_457:])
+	segs, err := p.seg.Segments()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var total int64
+	for i, s := range segs {
+		if s.Offset != total {
+			t.Fatalf("segment %d starts at %d, want %d", i, s.Offset, total)
+		}
+		total += s.N
+	}
+	if total != int64(len(d)) || len(segs) != 30 {
+		t.Errorf("%d segments cover %d digits", len(segs), total)
+	}
+}

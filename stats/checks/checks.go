@@ -7,7 +7,9 @@
 package checks
 
 import (
+	"fmt"
 	"math"
+	"sort"
 
 	"borel/stats"
 	"borel/stats/tally"
@@ -30,6 +32,39 @@ type Finding struct {
 	// TwoSided marks a statistic whose both tails are deviations (a z
 	// score); for the others a small lower tail means "fits too well".
 	TwoSided bool
+	// Of names, for a second-level finding, the first-level statistic whose
+	// segment p-values it tests (e.g. "freq X2 k=1").
+	Of string
+}
+
+// Label identifies a finding's statistic: check, statistic and parameters,
+// e.g. "serial dpsi2 k=2".
+func (f Finding) Label() string {
+	s := f.Check + " " + f.Statistic
+	keys := make([]string, 0, len(f.Params))
+	for k := range f.Params {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		s += fmt.Sprintf(" %s=%d", k, f.Params[k])
+	}
+	return s
+}
+
+// RandomizedP returns the randomized upper-tail p-value
+// P(T > t) + u·P(T = t) of a finding, u uniform on [0, 1): uniform under the
+// null even for a discrete statistic (methods.md §13). Both tails give
+// P(T = t) = P(T ≥ t) + P(T ≤ t) - 1; for a continuous statistic it is the
+// upper-tail p-value. The pair carries ln p and ln(1 - p).
+func RandomizedP(f Finding, u float64) stats.LogPPair {
+	up, lo := math.Exp(f.LogPUpper), math.Exp(f.LogPLower)
+	atom := up + lo - 1
+	if atom <= 1e-12 {
+		return stats.LogPPair{LogP: f.LogPUpper, LogQ: f.LogPLower}
+	}
+	p := (1 - lo) + u*atom
+	return stats.LogPPair{LogP: math.Log(p), LogQ: math.Log1p(-p)}
 }
 
 // Skip records a check, or one parameter of it, that was not run, and why.

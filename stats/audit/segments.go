@@ -1,0 +1,175 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+	"strings"
+
+	"borel/stats"
+	"borel/stats/checks"
+	"borel/stats/tally"
+)
+
+// MinSegmentDigits is the shortest segment the second level accepts.
+const MinSegmentDigits = 1000
+
+// segmenter cuts one pass into M consecutive segments without knowing the
+// length in advance: it keeps between M and 2M equal sub-tallies, merging
+// neighbours pairwise (exactly: tally.Merge) and doubling their length each
+// time 2M have accumulated; Finish groups them into M segments.
+type segmenter struct {
+	spec   tally.Spec
+	target int
+	unit   int64
+	subs   []*tally.Tally
+	cur    *tally.Tally
+}
+
+func newSegmenter(spec tally.Spec, m int) (*segmenter, error) {
+	cur, err := tally.New(spec, 0)
+	if err != nil {
+		return nil, err
+	}
+	return &segmenter{spec: spec, target: m, unit: 1, cur: cur}, nil
+}
+
+func (s *segmenter) Add(d []byte) {
+	for len(d) > 0 {
+		take := min(int64(len(d)), s.unit-s.cur.N)
+		s.cur.Add(d[:take])
+		d = d[take:]
+		if s.cur.N < s.unit {
+			continue
+		}
+		next := s.cur.Offset + s.cur.N
+		s.subs = append(s.subs, s.cur)
+		if len(s.subs) == 2*s.target {
+			merged := make([]*tally.Tally, 0, s.target)
+			for i := 0; i < len(s.subs); i += 2 {
+				m, err := tally.Merge(s.subs[i], s.subs[i+1])
+				if err != nil {
+					panic("audit: segment merge: " + err.Error())
+				}
+				merged = append(merged, m)
+			}
+			s.subs = merged
+			s.unit *= 2
+		}
+		s.cur, _ = tally.New(s.spec, next)
+	}
+}
+
+// Segments returns the M segment tallies, as even as the sub-tallies allow.
+func (s *segmenter) Segments() ([]*tally.Tally, error) {
+	parts := append([]*tally.Tally(nil), s.subs...)
+	if s.cur.N > 0 {
+		parts = append(parts, s.cur)
+	}
+	if len(parts) < s.target {
+		return nil, fmt.Errorf("too few digits for %d segments", s.target)
+	}
+	out := make([]*tally.Tally, s.target)
+	c := len(parts)
+	for i := range out {
+		lo, hi := i*c/s.target, (i+1)*c/s.target
+		seg := parts[lo]
+		for _, p := range parts[lo+1 : hi] {
+			var err error
+			if seg, err = tally.Merge(seg, p); err != nil {
+				return nil, err
+			}
+		}
+		out[i] = seg
+	}
+	return out, nil
+}
+
+// segmentSpec is the tally of one segment: the battery's parameters with
+// blocks up to 2 (1 above base 36), minimal gap tables and no coupon
+// segments, which the second level does not use.
+func segmentSpec(full tally.Spec) tally.Spec {
+	s := full
+	s.MaxBlock = 2
+	if s.Base > 36 {
+		s.MaxBlock = 1
+	}
+	s.GapCap = 1
+	s.CouponClasses, s.CouponClass, s.CouponCap = 0, nil, 0
+	return s
+}
+
+// secondLevelStatistics are the first-level statistics tested per segment.
+var secondLevelStatistics = map[string]bool{
+	"freq X2 k=1": true, "serial dpsi2 k=2": true, "updown z": true, "drift M": true,
+	"maxrun run_any": true,
+}
+
+func isSecondLevel(f checks.Finding) bool {
+	l := f.Label()
+	return secondLevelStatistics[l] || strings.HasPrefix(l, "poker X2") ||
+		strings.HasPrefix(l, "lagcorr Q") || strings.HasPrefix(l, "updown z")
+}
+
+// secondLevel runs the segment checks and tests each statistic's segment
+// p-values for uniformity: Kolmogorov–Smirnov with its exact finite-M law
+// (Marsaglia, Tsang & Wang 2003) and Anderson–Darling (Marsaglia &
+// Marsaglia 2004). Discrete statistics enter with randomized p-values drawn
+// from a generator seeded with seed. It returns the findings, and skips for
+// statistics that could not be formed in every segment.
+func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.Finding, []checks.Skip) {
+	rng := rand.New(rand.NewPCG(opts.Seed, 0x5e9))
+	perStat := map[string][]stats.LogPPair{}
+	var order []string
+	for _, seg := range segs {
+		cyc, err := seg.Cyclic()
+		if err != nil {
+			continue
+		}
+		in := checks.Input{Tally: seg, Cyclic: cyc, Null: null,
+			Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
+		var out checks.Result
+		for _, c := range checks.All() {
+			switch c.Name() {
+			case "freq", "serial", "poker", "updown", "lagcorr", "drift", "maxrun":
+				c.Run(in, &out)
+			}
+		}
+		for _, f := range out.Findings {
+			if !isSecondLevel(f) {
+				continue
+			}
+			l := f.Label()
+			if _, ok := perStat[l]; !ok {
+				order = append(order, l)
+			}
+			perStat[l] = append(perStat[l], checks.RandomizedP(f, rng.Float64()))
+		}
+	}
+	sort.Strings(order)
+	var fs []checks.Finding
+	var skips []checks.Skip
+	m := len(segs)
+	for _, l := range order {
+		ps := perStat[l]
+		if len(ps) < m {
+			skips = append(skips, checks.Skip{Check: "segments",
+				Reason: fmt.Sprintf("%s could be formed in only %d of %d segments (too short); use fewer segments", l, len(ps), m)})
+			continue
+		}
+		p := make([]float64, m)
+		for i, v := range ps {
+			p[i] = math.Exp(v.LogP)
+		}
+		d := stats.KSStatistic(p)
+		ksUp, ksLo := stats.KSLogTails(m, d)
+		fs = append(fs, checks.Finding{Check: "segments", Statistic: "KS", Of: l, Value: d,
+			LogPUpper: ksUp, LogPLower: ksLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)})
+		a2 := stats.AndersonDarling(ps)
+		adUp, adLo := stats.ADLogTails(m, a2)
+		fs = append(fs, checks.Finding{Check: "segments", Statistic: "AD", Of: l, Value: a2,
+			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)})
+	}
+	return fs, skips
+}
