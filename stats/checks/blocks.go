@@ -60,6 +60,6 @@ func (blocksCheck) Run(in Input, out *Result) {
 		if in.Null.Kind == Fitted {
 			df = math.Pow(S, float64(k)) - S
 		}
-		out.Findings = append(out.Findings, chiSquareFinding("blocks", "X2", params, x2, df))
+		out.Findings = append(out.Findings, chiSquareFinding("blocks", "X2", params, x2, df, float64(m)*minP))
 	}
 }

@@ -115,7 +115,7 @@ func (couponCheck) Run(in Input, out *Result) {
 	}
 	obs = append(obs, hist[capIdx])
 	exp = append(exp, float64(segs)*(1-cdf[capIdx-1]))
-	x2, classes := pooledChiSquare(obs, exp, in.Opts.MinExpected)
+	x2, classes, smallest := pooledChiSquare(obs, exp, in.Opts.MinExpected)
 	if classes < 2 || segs == 0 {
 		mean := 0.0
 		for r := 0; r < capIdx; r++ {
@@ -126,7 +126,7 @@ func (couponCheck) Run(in Input, out *Result) {
 				segs, in.Opts.MinExpected, int64(math.Ceil(4*in.Opts.MinExpected*mean)))})
 		return
 	}
-	f := chiSquareFinding("coupon", "X2", params, x2, float64(classes-1))
+	f := chiSquareFinding("coupon", "X2", params, x2, float64(classes-1), smallest)
 	f.Detail = fmt.Sprintf("%d segments over %d classes, %d length classes after pooling", segs, d, classes)
 	if in.Null.Kind == Fitted {
 		f.Notes = append(f.Notes, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)")

@@ -45,7 +45,7 @@ func (freqCheck) Run(in Input, out *Result) {
 		cs.x2 = uniformX2(t.Digits, t.N)
 	}
 	df := float64(in.Null.Symbols() - 1)
-	x2 := chiSquareFinding("freq", "X2", params, cs.x2, df)
+	x2 := chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp)
 	sparse := cs.minExp < in.Opts.MinExpected
 	if sparse {
 		x2.Notes = append(x2.Notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square approximation is rough; a sequence of %d digits or more makes it valid",
@@ -64,8 +64,9 @@ func (freqCheck) Run(in Input, out *Result) {
 		}
 	}
 	q := 1 + (invSum-1)/(6*n*df)
-	g := Finding{Check: "freq", Statistic: "G", Params: params, Value: cs.g, DF: df,
-		LogPUpper: chiSquareLogSF(cs.g/q, df), LogPLower: chiSquareLogCDF(cs.g/q, df)}
+	g := chiSquareFinding("freq", "G", params, cs.g, df, cs.minExp)
+	g.LogPUpper = chiSquareLogSF(cs.g/q, df)
+	g.LogPLower = chiSquareLogCDF(cs.g/q+1/cs.minExp, df)
 	g.Detail = fmt.Sprintf("p-values from G/q with Williams' q = %.6g", q)
 	out.Findings = append(out.Findings, g)
 }

@@ -88,7 +88,7 @@ func (gapCheck) Run(in Input, out *Result) {
 		if in.Null.Kind == Fitted {
 			df--
 		}
-		f := chiSquareFinding("gap", "X2", params, cs.x2, df)
+		f := chiSquareFinding("gap", "X2", params, cs.x2, df, cs.minExp)
 		f.Detail = fmt.Sprintf("%d gaps, lengths 0..%d and ≥%d", gaps, tmax-1, tmax)
 		out.Findings = append(out.Findings, f)
 	}

@@ -64,5 +64,5 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 		f.Detail = fmt.Sprintf("r = %.6g over %d pairs", r, n-int64(h))
 		out.Findings = append(out.Findings, f)
 	}
-	out.Findings = append(out.Findings, chiSquareFinding("lagcorr", "Q", map[string]int{"lags": H}, Q, float64(H)))
+	out.Findings = append(out.Findings, chiSquareFinding("lagcorr", "Q", map[string]int{"lags": H}, Q, float64(H), 0))
 }

@@ -75,14 +75,14 @@ func (pokerCheck) Run(in Input, out *Result) {
 	for r, pr := range probs {
 		exp[r] = float64(hands) * pr
 	}
-	x2, classes := pooledChiSquare(t.Poker[1:], exp[1:], in.Opts.MinExpected)
+	x2, classes, smallest := pooledChiSquare(t.Poker[1:], exp[1:], in.Opts.MinExpected)
 	if classes < 2 {
 		out.Skips = append(out.Skips, Skip{Check: "poker", Params: params,
 			Reason: fmt.Sprintf("%d hands of %d digits leave fewer than 2 classes with expected count %g or more; needs roughly %d digits",
 				hands, h, in.Opts.MinExpected, int64(h)*int64(math.Ceil(2*in.Opts.MinExpected/secondLargest(probs))))})
 		return
 	}
-	f := chiSquareFinding("poker", "X2", params, x2, float64(classes-1))
+	f := chiSquareFinding("poker", "X2", params, x2, float64(classes-1), smallest)
 	f.Detail = fmt.Sprintf("%d hands, %d classes of distinct-digit counts after pooling", hands, classes)
 	if in.Null.Kind == Fitted {
 		f.Notes = append(f.Notes, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)")

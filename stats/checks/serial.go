@@ -69,14 +69,15 @@ func (serialCheck) Run(in Input, out *Result) {
 	for k := 2; k <= K; k++ {
 		params := map[string]int{"k": k}
 		var notes []string
-		if e := float64(n) * math.Pow(in.Null.MinProb(), float64(k)); e < in.Opts.MinExpected {
+		minExp := float64(n) * math.Pow(in.Null.MinProb(), float64(k))
+		if e := minExp; e < in.Opts.MinExpected {
 			notes = append(notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square law is rough at this k", e, in.Opts.MinExpected))
 		}
 		dfD := math.Pow(S, float64(k)) - math.Pow(S, float64(k-1))
 		if fitted {
 			dfD = (math.Pow(S, float64(k-1)) - 1) * (S - 1)
 		}
-		d := chiSquareFinding("serial", "dpsi2", params, at(k)-at(k-1), dfD)
+		d := chiSquareFinding("serial", "dpsi2", params, at(k)-at(k-1), dfD, minExp)
 		d.Notes = notes
 		out.Findings = append(out.Findings, d)
 		if fitted && k == 2 {
@@ -85,7 +86,7 @@ func (serialCheck) Run(in Input, out *Result) {
 			continue
 		}
 		dfD2 := math.Pow(S, float64(k-2)) * (S - 1) * (S - 1)
-		d2 := chiSquareFinding("serial", "d2psi2", params, at(k)-2*at(k-1)+at(k-2), dfD2)
+		d2 := chiSquareFinding("serial", "d2psi2", params, at(k)-2*at(k-1)+at(k-2), dfD2, minExp)
 		d2.Notes = notes
 		out.Findings = append(out.Findings, d2)
 	}

@@ -73,3 +73,22 @@ func RandomDeBruijn(b, k int, rng *rand.Rand) []byte {
 	}
 	return d
 }
+
+// Champernowne returns the first n fractional digits of Champernowne's
+// constant in base b: the base-b numerals 1, 2, 3, … written one after
+// another (0.123456789101112… in base 10). It is normal in base b
+// (Champernowne, J. London Math. Soc. 8 (1933) 254–260), yet its first
+// digits are far from looking random.
+func Champernowne(n, b int) []byte {
+	d := make([]byte, 0, n+16)
+	var buf [64]byte
+	for k := 1; len(d) < n; k++ {
+		i := len(buf)
+		for v := k; v > 0; v /= b {
+			i--
+			buf[i] = byte(v % b)
+		}
+		d = append(d, buf[i:]...)
+	}
+	return d[:n]
+}
