@@ -79,9 +79,23 @@ type JSONFinding struct {
 	AdjPLower      float64        `json:"adjusted_p_lower"`
 	Log10AdjPUpper *float64       `json:"log10_adjusted_p_upper"`
 	Log10AdjPLower *float64       `json:"log10_adjusted_p_lower"`
+	Holm           JSONTails      `json:"holm"`
+	BH             JSONTails      `json:"bh"`
 	Mark           string         `json:"mark"`
 	Detail         string         `json:"detail,omitempty"`
 	Notes          []string       `json:"notes"`
+}
+
+// JSONTails is a pair of adjusted p-values with their log10 values.
+type JSONTails struct {
+	Upper      float64  `json:"upper"`
+	Lower      float64  `json:"lower"`
+	Log10Upper *float64 `json:"log10_upper"`
+	Log10Lower *float64 `json:"log10_lower"`
+}
+
+func tails(up, lo float64) JSONTails {
+	return JSONTails{Upper: math.Exp(up), Lower: math.Exp(lo), Log10Upper: log10(up), Log10Lower: log10(lo)}
 }
 
 // JSONSkip is a check or parameter that was not run.
@@ -146,6 +160,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			Log10PUpper: log10(f.LogPUpper), Log10PLower: log10(f.LogPLower),
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
+			Holm: tails(f.LogHolmUpper, f.LogHolmLower), BH: tails(f.LogBHUpper, f.LogBHLower),
 			Mark: f.Mark, Detail: f.Detail, Notes: nonNil(f.Notes),
 		})
 	}

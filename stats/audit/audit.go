@@ -69,11 +69,14 @@ type Source struct {
 }
 
 // Finding is a check's finding with its adjusted p-values and mark.
+// LogAdj* are adjusted by the audit's method (they decide the mark);
+// LogHolm* and LogBH* carry both methods for the record.
 type Finding struct {
 	checks.Finding
-	LogAdjUpper float64
-	LogAdjLower float64
-	Mark        string
+	LogAdjUpper, LogAdjLower   float64
+	LogHolmUpper, LogHolmLower float64
+	LogBHUpper, LogBHLower     float64
+	Mark                       string
 }
 
 // Result is the audit of one sequence in one base.
@@ -340,17 +343,17 @@ func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
 	for _, f := range fs {
 		logP = append(logP, f.LogPUpper, f.LogPLower)
 	}
-	var adj []float64
+	holm, bh := stats.HolmLog(logP), stats.BHLog(logP)
+	adj := holm
 	if opts.Adjustment == BH {
-		adj = stats.BHLog(logP)
-	} else {
-		adj = stats.HolmLog(logP)
+		adj = bh
 	}
 	lnAlpha := math.Log(opts.Alpha)
 	out := make([]Finding, len(fs))
 	verdict := Consistent
 	for i, f := range fs {
-		a := Finding{Finding: f, LogAdjUpper: adj[2*i], LogAdjLower: adj[2*i+1]}
+		a := Finding{Finding: f, LogAdjUpper: adj[2*i], LogAdjLower: adj[2*i+1],
+			LogHolmUpper: holm[2*i], LogHolmLower: holm[2*i+1], LogBHUpper: bh[2*i], LogBHLower: bh[2*i+1]}
 		switch {
 		case a.LogAdjUpper <= lnAlpha, a.TwoSided && a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkDeviates

@@ -258,3 +258,32 @@ func TestSecondLevelQuietUnderNull(t *testing.T) {
 		t.Errorf("%d segments cover %d digits", len(segs), total)
 	}
 }
+
+// Both adjustments are carried; the chosen one decides. Holm's adjusted p
+// is never below BH's (Holm is the stricter), and --adjust bh can only
+// reject more.
+func TestBothAdjustments(t *testing.T) {
+	d := expand.Sticky(200_000, 10, 0.004, rand.New(rand.NewPCG(4, 4)))
+	holm := auditOf(t, d, 10, DefaultOptions())
+	opts := DefaultOptions()
+	opts.Adjustment = BH
+	bh := auditOf(t, d, 10, opts)
+	nh, nb := 0, 0
+	for i, f := range holm.Findings {
+		if f.LogHolmUpper < f.LogBHUpper-1e-12 || f.LogHolmLower < f.LogBHLower-1e-12 {
+			t.Errorf("%s: Holm %g below BH %g", f.Label(), f.LogHolmUpper, f.LogBHUpper)
+		}
+		if f.LogAdjUpper != f.LogHolmUpper || bh.Findings[i].LogAdjUpper != bh.Findings[i].LogBHUpper {
+			t.Errorf("%s: the chosen adjustment is not the one reported", f.Label())
+		}
+		if f.Mark != "" {
+			nh++
+		}
+		if bh.Findings[i].Mark != "" {
+			nb++
+		}
+	}
+	if nb < nh {
+		t.Errorf("BH marks %d findings, Holm %d", nb, nh)
+	}
+}
