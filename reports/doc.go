@@ -4,12 +4,17 @@
 // prints was computed by the stats packages.
 package reports
 
-import "borel/stats/audit"
+import (
+	"time"
+
+	"borel/stats/audit"
+)
 
 // Document is everything one run of borel reports.
 type Document struct {
-	Version string   // borel version
-	Command []string // the command line, for provenance
+	Version string    // borel version
+	Command []string  // the command line, for provenance
+	Created time.Time // when the report was made
 	Results []*audit.Result
 }
 

@@ -1,20 +1,22 @@
 package reports
 
 import (
+	"encoding/csv"
 	"fmt"
 	"io"
 	"math"
 	"strconv"
+	"strings"
+	"time"
 )
 
-// Summary writes one row per sequence and base: the verdict, the smallest
-// adjusted p-value and the finding that gave it, and the dimension estimate
-// (entropy rate / ln b at the largest block length) with its interval.
-func Summary(w io.Writer, doc Document) error {
-	var rows [][]string
+// summaryRows returns one row per sequence and base: the verdict, the
+// smallest adjusted p-value and the finding that gave it (ties, as adjusted
+// p-values cap at 1, go to the smallest raw p), the entropy deficit and the
+// dimension estimate with its interval.
+func summaryRows(doc Document) (header []string, rows [][]string) {
+	header = []string{"sequence", "base", "digits", "verdict", "smallest adjusted p", "from", "deficit", "dimension", "interval"}
 	for _, r := range doc.Results {
-		// The smallest adjusted p; ties (adjusted p-values cap at 1) go to
-		// the smallest raw p.
 		worst, worstRaw, label := 0.0, 0.0, "–"
 		for _, f := range r.Findings {
 			lp, raw, tail := f.LogAdjUpper, f.LogPUpper, "upper"
@@ -26,16 +28,69 @@ func Summary(w io.Writer, doc Document) error {
 				label = fmt.Sprintf("%s %s %s (%s)", f.Check, statisticName(f.Statistic), findingParams(f.Finding), tail)
 			}
 		}
-		dim, interval := "–", "–"
+		deficit, dim, interval := "–", "–", "–"
 		if e := r.Entropy; e != nil && len(e.Rows) > 0 {
+			deficit = formatDeficit(e.Summary.Deficit)
 			dim = formatDim(e.Summary.Dimension)
 			if !math.IsNaN(e.Summary.DimLow) {
 				interval = fmt.Sprintf("[%s, %s]", formatDim(e.Summary.DimLow), formatDim(e.Summary.DimHigh))
 			}
 		}
 		rows = append(rows, []string{r.Source.Name, strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10),
-			r.Verdict, formatP(worst), label, dim, interval})
+			r.Verdict, formatP(worst), label, deficit, dim, interval})
 	}
-	return writeTable(w, []string{"sequence", "base", "digits", "verdict", "smallest adjusted p", "from", "dimension", "interval"},
-		rows, []bool{false, true, true, false, true, false, true, false})
+	return header, rows
+}
+
+var summaryAlign = []bool{false, true, true, false, true, false, true, true, false}
+
+// Summary writes the side-by-side table as text.
+func Summary(w io.Writer, doc Document) error {
+	h, rows := summaryRows(doc)
+	return writeTable(w, h, rows, summaryAlign)
+}
+
+// Comparison writes the side-by-side table in a human or machine format
+// (text, md, csv or tex), with the provenance and the caution.
+func Comparison(w io.Writer, doc Document, format string) error {
+	h, rows := summaryRows(doc)
+	switch format {
+	case "md":
+		fmt.Fprintf(w, "borel %s comparison, %s: `%s`\n\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
+		mdTable(w, h, rows, summaryAlign)
+		fmt.Fprintf(w, "\n> %s\n", Caution)
+	case "csv":
+		fmt.Fprintf(w, "# borel %s comparison, %s\n# command: %s\n# %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "), Caution)
+		cw := csv.NewWriter(w)
+		cw.Write(h)
+		for _, r := range rows {
+			cw.Write(r)
+		}
+		cw.Flush()
+		return cw.Error()
+	case "tex":
+		fmt.Fprintf(w, "%% borel %s comparison, %s. Needs \\usepackage{booktabs}.\n%% command: %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
+		fmt.Fprintln(w, `\begin{tabular}{lrrllllrl}`)
+		fmt.Fprintln(w, `\toprule`)
+		for i, c := range h {
+			h[i] = texEscape(c)
+		}
+		fmt.Fprintf(w, "%s \\\\\n\\midrule\n", strings.Join(h, " & "))
+		for _, r := range rows {
+			cells := make([]string, len(r))
+			for i, c := range r {
+				cells[i] = texEscape(c)
+			}
+			fmt.Fprintf(w, "%s \\\\\n", strings.Join(cells, " & "))
+		}
+		fmt.Fprintln(w, `\bottomrule`)
+		fmt.Fprintln(w, `\end{tabular}`)
+	default:
+		fmt.Fprintf(w, "borel %s comparison, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
+		if err := writeTable(w, h, rows, summaryAlign); err != nil {
+			return err
+		}
+		fmt.Fprintln(w, wrap(Caution, 100))
+	}
+	return nil
 }

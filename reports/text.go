@@ -21,7 +21,7 @@ func Text(w io.Writer, doc Document) error {
 		if i > 0 {
 			fmt.Fprintln(bw)
 		}
-		if err := textResult(bw, r); err != nil {
+		if err := textResult(bw, doc, r); err != nil {
 			return err
 		}
 	}
@@ -64,41 +64,14 @@ func joinFloats(p []float64) string {
 	return strings.Join(s, ", ")
 }
 
-func textResult(w io.Writer, r *audit.Result) error {
+func textResult(w io.Writer, doc Document, r *audit.Result) error {
 	fmt.Fprintf(w, "borel audit of %s\n", r.Source.Name)
-	kv := [][2]string{
-		{"source", describeSource(r.Source)},
-		{"base", strconv.Itoa(r.Base)},
-		{"digits", strconv.FormatInt(r.Digits, 10)},
-		{"null", describeNull(r.Null, r.Base)},
-		{"blocks", fmt.Sprintf("k ≤ %d: %s", r.MaxBlock, r.BlockChoice)},
-		{"family", fmt.Sprintf("%d p-values (%d findings × 2 tails), %s adjustment, alpha %g", 2*len(r.Findings), len(r.Findings), adjustmentName(r.Adjustment), r.Alpha)},
-	}
-	for _, p := range kv {
-		fmt.Fprintf(w, "  %-7s %s\n", p[0], p[1])
+	for _, p := range provenance(doc, r) {
+		fmt.Fprintf(w, "  %-12s %s\n", p[0], p[1])
 	}
 	fmt.Fprintln(w)
 
-	var notes []string
-	number := map[string]int{} // identical notes share a footnote
-	rows := make([][]string, 0, len(r.Findings))
-	for _, f := range r.Findings {
-		ref := ""
-		for _, n := range f.Notes {
-			if number[n] == 0 {
-				notes = append(notes, n)
-				number[n] = len(notes)
-			}
-			if ref != "" {
-				ref += ","
-			}
-			ref += fmt.Sprintf("[%d]", number[n])
-		}
-		rows = append(rows, []string{f.Check, statisticName(f.Statistic), findingParams(f.Finding),
-			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
-			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), f.Mark, ref})
-	}
-	header := []string{"check", "statistic", "parameter", "value", "df", "p upper", "p lower", "adjusted", "mark", "note"}
+	header, rows, notes := findingTable(r)
 	if err := writeTable(w, header, rows, []bool{false, false, false, true, true, true, true, true, false, false}); err != nil {
 		return err
 	}
@@ -119,17 +92,8 @@ func textResult(w io.Writer, r *audit.Result) error {
 	if e := r.Entropy; e != nil && len(e.Rows) > 0 {
 		fmt.Fprintln(w)
 		fmt.Fprintf(w, "Entropy profile (nats; dimension = entropy rate / ln %d, with a %g%% interval)\n", r.Base, 100*e.Confidence)
-		var erows [][]string
-		for _, row := range e.Rows {
-			interval := "–"
-			if !math.IsNaN(row.DimLow) {
-				interval = fmt.Sprintf("[%s, %s]", formatDim(row.DimLow), formatDim(row.DimHigh))
-			}
-			erows = append(erows, []string{strconv.Itoa(row.K), formatFixed(row.PlugIn), formatFixed(row.MillerMadow),
-				formatFixed(row.Conditional), formatDim(row.Dimension), interval, formatDeficit(row.Deficit)})
-		}
-		if err := writeTable(w, []string{"k", "H_k plug-in", "H_k Miller–Madow", "h given k-1 digits", "dimension", "interval", "deficit"},
-			erows, []bool{true, true, true, true, true, false, true}); err != nil {
+		eh, erows := entropyTable(r)
+		if err := writeTable(w, eh, erows, []bool{true, true, true, true, true, false, true}); err != nil {
 			return err
 		}
 		if r.Null.Kind == checks.Uniform {

@@ -48,6 +48,7 @@ func runBorel(t *testing.T, stdin []byte, args ...string) (int, []byte, []byte) 
 	t.Helper()
 	cmd := exec.Command(borelBin, args...)
 	cmd.Dir = ".."
+	cmd.Env = append(os.Environ(), "SOURCE_DATE_EPOCH=1795000000") // a fixed report date for golden files
 	cmd.Stdin = bytes.NewReader(stdin)
 	var out, errb bytes.Buffer
 	cmd.Stdout, cmd.Stderr = &out, &errb

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bufio"
+	"crypto/sha256"
+	"encoding/hex"
 	"fmt"
 	"io"
 	"os"
@@ -46,8 +48,8 @@ func runAudit(e env, args []string) (int, error) {
 	adjust := fs.String("adjust", "holm", "multiple-testing adjustment: holm (family-wise) or bh (false discovery rate)")
 	maxBlock := fs.String("max-block", "auto", "largest block length k; auto picks the largest with every expected count at least 5")
 	memory := fs.String("memory", "256MiB", "memory budget for the count tables")
-	format := fs.String("format", "text", "report format: text or json")
-	output := fs.StringP("output", "o", "", "write the report to this file (atomically) instead of standard output")
+	var out output
+	out.register(fs)
 	strict := fs.Bool("strict", false, "exit with status 3 unless the verdict is consistent")
 	segments := fs.Int("segments", 0, "second level: split into this many segments and test each statistic's segment p-values for uniformity (KS, Anderson–Darling)")
 	seed := fs.Uint64("seed", 1, "seed of the randomized p-values that discrete statistics give the second level")
@@ -101,11 +103,8 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", *segments)
 	}
 	opts.Segments, opts.Seed = *segments, *seed
-	if _, err := checkFormat(*format); err != nil {
+	if err := out.check(input); err != nil {
 		return 0, err
-	}
-	if sameFile(input, *output) {
-		return 0, usagef("-o %s is the input file; choose another name so the input is not overwritten", *output)
 	}
 
 	src, in, closeIn, err := openInput(e, input, opt)
@@ -125,26 +124,32 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, usageError{err.Error()}
 	}
 	opt.Source = src.Name
-	r, err := seq.NewReader(in, opt)
+	hash := sha256.New()
+	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
 	if err != nil {
 		return 0, err
 	}
+	prog := newProgress(e, out.quiet, src.Bytes)
+	plan.OnChunk = func(digits, _ int64) { prog.update(digits, r.Offset()) }
 	t, err := plan.Tally(r)
+	prog.done()
 	if err != nil {
 		return 0, err
 	}
 	src.Compressed = r.Compressed()
 	src.IntegerPart = r.IntegerPart()
+	src.SHA256 = hex.EncodeToString(hash.Sum(nil))
 	res, err := plan.Finish(t, src)
 	if err != nil {
 		return 0, err
 	}
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Results: []*audit.Result{res}}
-	data, err := render(doc, *format)
+	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(),
+		Results: []*audit.Result{res}}
+	data, err := render(doc, out.format)
 	if err != nil {
 		return 0, err
 	}
-	if err := deliver(e, data, *output); err != nil {
+	if err := out.publish(e, doc, data); err != nil {
 		return 0, err
 	}
 	if *strict && res.Verdict != audit.Consistent {

@@ -38,24 +38,26 @@ the uniform null: i.i.d. digits, each k-block with probability 10^-k.
 `
 
 type demoSequence struct {
-	name   string
-	digits func() ([]byte, error)
+	name, params string
+	digits       func() ([]byte, error)
 }
 
 func demoSequences() []demoSequence {
 	const constDigits, unitDigits = 30_000, 200_000
 	return []demoSequence{
-		{"pi (30 000 decimals, computed)", func() ([]byte, error) { return expand.Pi(constDigits) }},
-		{"sqrt 2 (30 000 decimals, computed)", func() ([]byte, error) { return expand.Sqrt(2, constDigits) }},
-		{"generator unit 1", func() ([]byte, error) {
+		{"pi (30 000 decimals, computed)", "exact decimals by Machin's formula (borel stats/expand)",
+			func() ([]byte, error) { return expand.Pi(constDigits) }},
+		{"sqrt 2 (30 000 decimals, computed)", "exact decimals by integer square root (borel stats/expand)",
+			func() ([]byte, error) { return expand.Sqrt(2, constDigits) }},
+		{"generator unit 1", "simulated: ChaCha8 keyed \"wrenfield unit 1\", uniform decimal digits", func() ([]byte, error) {
 			var seed [32]byte
 			copy(seed[:], "wrenfield unit 1")
 			return expand.IID(unitDigits, uniform(10), rand.New(rand.NewChaCha8(seed))), nil
 		}},
-		{"generator unit 2 (sticky output)", func() ([]byte, error) {
+		{"generator unit 2 (sticky output)", "simulated: PCG(2, 2026), repeats the previous digit with probability 0.02, else uniform", func() ([]byte, error) {
 			return expand.Sticky(unitDigits, 10, 0.02, rand.New(rand.NewPCG(2, 2026))), nil
 		}},
-		{"vendor's certified sample", func() ([]byte, error) {
+		{"vendor's certified sample", "simulated: random de Bruijn sequence B(10, 4), PCG(7, 7)", func() ([]byte, error) {
 			return expand.RandomDeBruijn(10, 4, rand.New(rand.NewPCG(7, 7))), nil
 		}},
 	}
@@ -71,31 +73,31 @@ func uniform(b int) []float64 {
 
 func runDemo(e env, args []string) (int, error) {
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
-	format := fs.String("format", "text", "report format: text or json")
-	output := fs.StringP("output", "o", "", "write the report to this file (atomically) instead of standard output")
+	var out output
+	out.register(fs)
 	if done, err := parseFlags(fs, args, demoHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
 	if fs.NArg() != 0 {
 		return 0, usagef("demo takes no arguments (got %q); see borel demo --help", fs.Args())
 	}
-	if _, err := checkFormat(*format); err != nil {
+	if err := out.check(""); err != nil {
 		return 0, err
 	}
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...)}
+	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
 	for _, s := range demoSequences() {
 		d, err := s.digits()
 		if err != nil {
 			return 0, fmt.Errorf("demo sequence %s: %v", s.name, err)
 		}
-		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1}, audit.DefaultOptions())
+		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1, Parameters: s.params}, audit.DefaultOptions())
 		if err != nil {
 			return 0, err
 		}
 		doc.Results = append(doc.Results, res)
 	}
 	var data []byte
-	if *format == "text" {
+	if out.format == "text" {
 		var buf bytes.Buffer
 		buf.WriteString(demoIntro)
 		if err := reports.Text(&buf, doc); err != nil {
@@ -108,9 +110,9 @@ func runDemo(e env, args []string) (int, error) {
 		data = buf.Bytes()
 	} else {
 		var err error
-		if data, err = render(doc, *format); err != nil {
+		if data, err = render(doc, out.format); err != nil {
 			return 0, err
 		}
 	}
-	return exitOK, deliver(e, data, *output)
+	return exitOK, out.publish(e, doc, data)
 }

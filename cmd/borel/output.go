@@ -3,11 +3,84 @@ package main
 import (
 	"bytes"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/spf13/pflag"
 
 	"borel/reports"
 )
+
+// formats are the report formats borel writes.
+var formats = []string{"text", "md", "csv", "json", "tex", "html"}
+
+// output holds the options every reporting subcommand shares.
+type output struct {
+	format, path, plots, appendTo, section string
+	quiet                                  bool
+}
+
+func (o *output) register(fs *pflag.FlagSet) {
+	fs.StringVar(&o.format, "format", "text", "report format: "+strings.Join(formats, ", "))
+	fs.StringVarP(&o.path, "output", "o", "", "write the report to this file (atomically) instead of standard output")
+	fs.StringVar(&o.plots, "plots", "", "also write every plot to this folder, as SVG and PNG")
+	fs.StringVar(&o.appendTo, "append", "", "add the report to an existing .md, .tex or .html document, in the section named by --section")
+	fs.StringVar(&o.section, "section", "borel", "name of the section --append writes (running again replaces only that section)")
+	fs.BoolVarP(&o.quiet, "quiet", "q", false, "no progress line on standard error")
+}
+
+// check validates the output options before any work.
+func (o *output) check(input string) error {
+	if !slicesContains(formats, o.format) {
+		return usagef("--format %q: borel writes %s", o.format, strings.Join(formats, ", "))
+	}
+	if o.appendTo != "" {
+		if o.path != "" {
+			return usagef("--append and -o exclude each other: the report goes into one file")
+		}
+		if reports.KindForPath(o.appendTo) == "" {
+			return usagef("--append %s: borel appends to .md, .tex or .html documents (chosen by extension)", o.appendTo)
+		}
+		if !reports.ValidSectionName(o.section) {
+			return usagef("--section %q: use letters, digits, '.', '_' or '-'", o.section)
+		}
+		if st, err := os.Stat(o.appendTo); err != nil || !st.Mode().IsRegular() {
+			return usagef("--append %s: no such document; create it first (borel adds to an existing file)", o.appendTo)
+		}
+		if sameFile(input, o.appendTo) {
+			return usagef("--append %s is the input file; choose another document", o.appendTo)
+		}
+	}
+	if sameFile(input, o.path) {
+		return usagef("-o %s is the input file; choose another name so the input is not overwritten", o.path)
+	}
+	return nil
+}
+
+func slicesContains(s []string, v string) bool {
+	for _, x := range s {
+		if x == v {
+			return true
+		}
+	}
+	return false
+}
+
+// reportTime is the date a report states: SOURCE_DATE_EPOCH (seconds since
+// 1970, the reproducible-builds convention) when set, else now.
+func reportTime() time.Time {
+	if s := os.Getenv("SOURCE_DATE_EPOCH"); s != "" {
+		if sec, err := strconv.ParseInt(s, 10, 64); err == nil {
+			return time.Unix(sec, 0).UTC()
+		}
+	}
+	return time.Now().UTC()
+}
 
 // render writes the document in the chosen format into a buffer, so that
 // nothing reaches a file until the whole report exists.
@@ -17,44 +90,121 @@ func render(doc reports.Document, format string) ([]byte, error) {
 	switch format {
 	case "json":
 		err = reports.JSON(&buf, doc)
+	case "md":
+		err = reports.Markdown(&buf, doc)
+	case "csv":
+		err = reports.CSV(&buf, doc)
+	case "tex":
+		err = reports.LaTeX(&buf, doc)
+	case "html":
+		err = reports.HTML(&buf, doc)
 	default:
 		err = reports.Text(&buf, doc)
 	}
 	return buf.Bytes(), err
 }
 
-func checkFormat(f string) (string, error) {
-	switch f {
-	case "text", "json":
-		return f, nil
+// publish writes the report where the options say: appended to a document,
+// to a file, or to standard output; and the plots, if asked.
+func (o *output) publish(e env, doc reports.Document, main []byte) error {
+	if o.plots != "" {
+		if err := writePlots(o.plots, doc); err != nil {
+			return err
+		}
 	}
-	return "", usagef("--format %q: borel writes text or json", f)
-}
-
-// deliver writes the report to stdout, or atomically to path: a temporary
-// file in the same folder, synced, then renamed over the target, so an
-// interrupted run leaves any earlier file whole.
-func deliver(e env, data []byte, path string) error {
-	if path == "" || path == "-" {
-		_, err := e.stdout.Write(data)
+	if o.appendTo != "" {
+		kind := reports.KindForPath(o.appendTo)
+		var frag bytes.Buffer
+		var err error
+		switch kind {
+		case reports.KindMarkdown:
+			err = reports.Markdown(&frag, doc)
+		case reports.KindLaTeX:
+			err = reports.LaTeX(&frag, doc)
+		default:
+			err = reports.HTMLFragment(&frag, doc)
+		}
+		if err != nil {
+			return err
+		}
+		old, err := os.ReadFile(o.appendTo)
+		if err != nil {
+			return fmt.Errorf("cannot read %s: %v", o.appendTo, unwrapPathError(err))
+		}
+		updated, err := reports.AppendSection(old, kind, o.section, o.appendTo, frag.Bytes())
+		if err != nil {
+			return err
+		}
+		return writeAtomic(o.appendTo, updated)
+	}
+	if o.path == "" || o.path == "-" {
+		_, err := e.stdout.Write(main)
 		return err
 	}
-	return writeAtomic(path, data)
+	return writeAtomic(o.path, main)
 }
 
+var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
+
+// writePlots writes every figure of every audit as SVG and PNG.
+func writePlots(dir string, doc reports.Document) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("cannot create the plot folder %s: %v", dir, unwrapPathError(err))
+	}
+	for i, r := range doc.Results {
+		figs, err := reports.Figures(r)
+		if err != nil {
+			return err
+		}
+		stem := strings.Trim(unsafeName.ReplaceAllString(r.Source.Name, "-"), "-")
+		if len(doc.Results) > 1 {
+			stem = fmt.Sprintf("%d-%s", i+1, stem)
+		}
+		for _, f := range figs {
+			for _, ext := range []string{"svg", "png"} {
+				var data []byte
+				if ext == "svg" {
+					data, err = f.SVG()
+				} else {
+					data, err = f.PNG()
+				}
+				if err != nil {
+					return err
+				}
+				name := filepath.Join(dir, fmt.Sprintf("%s-base%d-%s.%s", stem, r.Base, f.Name, ext))
+				if err := writeAtomic(name, data); err != nil {
+					return err
+				}
+			}
+		}
+	}
+	return nil
+}
+
+// writeHook, when set (by tests), wraps the temporary file's writer, to
+// simulate a write that fails part way (a full disk).
+var writeHook func(io.Writer) io.Writer
+
+// writeAtomic writes data to path through a temporary file in the same
+// folder, synced and renamed over the target, so an interrupted or failed
+// run leaves any earlier file whole and no temporary file behind.
 func writeAtomic(path string, data []byte) error {
 	dir := filepath.Dir(path)
 	tmp, err := os.CreateTemp(dir, ".borel-*.tmp")
 	if err != nil {
-		return fmt.Errorf("cannot write the report to %s: %v", path, err)
+		return fmt.Errorf("cannot write %s: %v", path, unwrapPathError(err))
 	}
 	name := tmp.Name()
 	fail := func(err error) error {
 		tmp.Close()
 		os.Remove(name)
-		return fmt.Errorf("cannot write the report to %s: %v; any earlier file there is unchanged", path, err)
+		return fmt.Errorf("cannot write %s: %v; any earlier file there is unchanged", path, err)
 	}
-	if _, err := tmp.Write(data); err != nil {
+	var w io.Writer = tmp
+	if writeHook != nil {
+		w = writeHook(tmp)
+	}
+	if _, err := w.Write(data); err != nil {
 		return fail(err)
 	}
 	if err := tmp.Sync(); err != nil {
@@ -62,15 +212,19 @@ func writeAtomic(path string, data []byte) error {
 	}
 	if err := tmp.Close(); err != nil {
 		os.Remove(name)
-		return fmt.Errorf("cannot write the report to %s: %v", path, err)
+		return fmt.Errorf("cannot write %s: %v", path, err)
 	}
-	if err := os.Chmod(name, 0o644); err != nil {
+	mode := os.FileMode(0o644)
+	if st, err := os.Stat(path); err == nil {
+		mode = st.Mode().Perm() // keep an existing document's permissions
+	}
+	if err := os.Chmod(name, mode); err != nil {
 		os.Remove(name)
-		return fmt.Errorf("cannot write the report to %s: %v", path, err)
+		return fmt.Errorf("cannot write %s: %v", path, err)
 	}
 	if err := os.Rename(name, path); err != nil {
 		os.Remove(name)
-		return fmt.Errorf("cannot write the report to %s: %v", path, err)
+		return fmt.Errorf("cannot write %s: %v", path, err)
 	}
 	return nil
 }

@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"compress/gzip"
 	"encoding/json"
+	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -73,7 +75,13 @@ func TestBadInputs(t *testing.T) {
 		{"block 0", "", []string{"audit", letter, "--max-block", "0"}, 2, "give a block length of 1 or more"},
 		// 8 bytes × (cyclic Σ_{k=1..9} 10^k + blocks Σ_{k=2..9} 10^k + overlapping 10^9 + gaps 10·2049) = 24584 MiB.
 		{"block too big", "", []string{"audit", letter, "--max-block", "9"}, 2, "--max-block 9 needs 24584 MiB of count tables in base 10, over the memory budget of 256 MiB"},
-		{"format", "", []string{"audit", letter, "--format", "pdf"}, 2, `--format "pdf": borel writes text or json`},
+		{"format", "", []string{"audit", letter, "--format", "pdf"}, 2, `--format "pdf": borel writes text, md, csv, json, tex, html`},
+		{"append unknown kind", "", []string{"audit", letter, "--append", "notes.docx"}, 2, "--append notes.docx: borel appends to .md, .tex or .html"},
+		{"append missing", "", []string{"audit", letter, "--append", filepath.Join(dir, "none.md")}, 2, "no such document; create it first"},
+		{"append and -o", "", []string{"audit", letter, "--append", letter + ".md", "-o", "x"}, 2, "--append and -o exclude each other"},
+		{"section name", "", []string{"audit", letter, "--append", big, "--section", "a b"}, 2, "borel appends to .md, .tex or .html"},
+		{"segments 1", "", []string{"audit", letter, "--segments", "1"}, 2, "--segments 1: give 2 or more segments"},
+		{"segments too many", "", []string{"audit", letter, "--segments", "50"}, 2, "--segments 50 needs at least 50000 digits"},
 		{"raw and bits", "", []string{"audit", letter, "--raw", "--bits"}, 2, "--raw and --bits exclude each other"},
 		{"raw with base", "", []string{"audit", letter, "--raw", "--base", "16"}, 2, "--raw reads bytes as base-256 digits"},
 		{"no input", "", []string{"audit"}, 2, "audit needs one input"},
@@ -138,7 +146,7 @@ func TestOutputFile(t *testing.T) {
 	}
 	// A report into a missing folder is an error and leaves nothing behind.
 	code, _, errs = borel(t, "", "audit", in, "-o", filepath.Join(dir, "no", "such", "r.txt"))
-	if code != 1 || !strings.Contains(errs, "cannot write the report") {
+	if code != 1 || !strings.Contains(errs, "cannot write ") || !strings.Contains(errs, "no such file or directory") {
 		t.Errorf("missing folder: exit %d %q", code, errs)
 	}
 	entries, _ := os.ReadDir(dir)
@@ -257,5 +265,84 @@ func TestManualExamplesRun(t *testing.T) {
 	}
 	if ran < 7 {
 		t.Errorf("only %d examples found in doc.go", ran)
+	}
+}
+
+// --append adds a section to an existing document and, run again with the
+// same name, replaces that section and nothing else; bytes outside it are
+// kept exactly (CRLF line ends, trailing spaces).
+func TestAppendToPaper(t *testing.T) {
+	dir := t.TempDir()
+	in := writeFile(t, "digits.txt", bytes.Repeat([]byte("31415926535897932384626433832795"), 600))
+	paper := filepath.Join(dir, "paper.md")
+	before := "# Results\r\n\nIntro text   \n\n"
+	after := "\n## Discussion\n\nLater text.\n"
+	os.WriteFile(paper, []byte(before+after), 0o600)
+	if code, _, errs := borel(t, "", "audit", in, "--append", paper, "--section", "pi-table"); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	first, _ := os.ReadFile(paper)
+	if !bytes.HasPrefix(first, []byte(before+after)) || !bytes.Contains(first, []byte("<!-- borel:begin pi-table -->")) {
+		t.Fatalf("first append:\n%s", first)
+	}
+	// Move the section into the middle by hand, as an author would.
+	i := bytes.Index(first, []byte("<!-- borel:begin"))
+	section := first[i:]
+	doc := append([]byte(before), section...)
+	doc = append(doc, []byte(after)...)
+	os.WriteFile(paper, doc, 0o600)
+	if code, _, errs := borel(t, "", "audit", in, "--append", paper, "--section", "pi-table", "--alpha", "0.05"); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	second, _ := os.ReadFile(paper)
+	if !bytes.HasPrefix(second, []byte(before+"<!-- borel:begin pi-table -->\n")) || !bytes.HasSuffix(second, []byte("<!-- borel:end pi-table -->\n"+after)) {
+		t.Errorf("second append moved bytes outside the section:\n%s", second)
+	}
+	if !bytes.Contains(second, []byte("| alpha | 0.05 |")) {
+		t.Errorf("the section was not replaced")
+	}
+	if st, _ := os.Stat(paper); st.Mode().Perm() != 0o600 {
+		t.Errorf("permissions changed to %v", st.Mode().Perm())
+	}
+}
+
+// limitWriter fails after n bytes, like a full disk.
+type limitWriter struct {
+	w io.Writer
+	n int
+}
+
+func (l *limitWriter) Write(p []byte) (int, error) {
+	if len(p) > l.n {
+		k, _ := l.w.Write(p[:l.n])
+		l.n = 0
+		return k, errors.New("no space left on device")
+	}
+	l.n -= len(p)
+	return l.w.Write(p)
+}
+
+// A write that fails part way leaves the earlier document as it was and no
+// temporary file behind.
+func TestFailedWriteKeepsDocument(t *testing.T) {
+	dir := t.TempDir()
+	in := writeFile(t, "digits.txt", bytes.Repeat([]byte("2718281828459045235360287471352662497757"), 500))
+	paper := filepath.Join(dir, "paper.tex")
+	original := []byte("\\documentclass{article}\n\\begin{document}\nText.\n\\end{document}\n")
+	os.WriteFile(paper, original, 0o644)
+	writeHook = func(w io.Writer) io.Writer { return &limitWriter{w: w, n: 100} }
+	defer func() { writeHook = nil }()
+	code, _, errs := borel(t, "", "audit", in, "--append", paper)
+	if code != 1 || !strings.Contains(errs, "no space left on device") || !strings.Contains(errs, "unchanged") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	if now, _ := os.ReadFile(paper); !bytes.Equal(now, original) {
+		t.Errorf("the document changed:\n%s", now)
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if strings.HasPrefix(e.Name(), ".borel-") {
+			t.Errorf("temporary file left: %s", e.Name())
+		}
 	}
 }

@@ -66,6 +66,14 @@ type Source struct {
 	Bytes       int64  // input size in bytes when known, else -1
 	Compressed  bool
 	IntegerPart string // dropped integer part, "" when none
+	SHA256      string // hex SHA-256 of the input bytes as read, "" for built-in sources
+	Parameters  string // for a built-in source: how it was made
+}
+
+// SegmentSeries is the p-values one statistic took in the segments.
+type SegmentSeries struct {
+	Label   string
+	PValues []float64
 }
 
 // Finding is a check's finding with its adjusted p-values and mark.
@@ -94,6 +102,12 @@ type Result struct {
 	Entropy     *checks.EntropyProfile
 	Verdict     string
 	Notes       []string
+
+	Segments       int                // second level: number of segments (0: none)
+	Seed           uint64             // seed of the randomized p-values
+	DigitCounts    []int64            // occurrences of each digit
+	Trace          []tally.TracePoint // digit counts at log-spaced positions, for plots
+	SegmentPValues []SegmentSeries    // second level: each statistic's segment p-values
 }
 
 // Plan is what an audit decides before reading: the tally to fill.
@@ -103,6 +117,9 @@ type Plan struct {
 	Notes []string
 	opts  Options
 	seg   *segmenter
+	// OnChunk, when set, is called after each chunk with the digits and
+	// input bytes read so far (for a progress display).
+	OnChunk func(digits, bytes int64)
 }
 
 // unknownLengthCells caps the tables when the input length is not known in
@@ -246,6 +263,9 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 		if p.seg != nil {
 			p.seg.Add(r.Digits())
 		}
+		if p.OnChunk != nil {
+			p.OnChunk(r.Count(), r.Offset())
+		}
 	}
 	if err := r.Err(); err != nil {
 		return nil, err
@@ -257,7 +277,8 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 // returns the audit result.
 func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	opts := p.opts
-	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment}
+	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment,
+		Segments: opts.Segments, Seed: opts.Seed, DigitCounts: t.Digits, Trace: t.Trace}
 	switch opts.Null.Kind {
 	case checks.Vector:
 		null, err := checks.VectorNull(opts.Null.P, t.Base)
@@ -311,7 +332,8 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		if err != nil {
 			return nil, err
 		}
-		fs, skips := secondLevel(segs, res.Null, opts)
+		fs, skips, series := secondLevel(segs, res.Null, opts)
+		res.SegmentPValues = series
 		out.Findings = append(out.Findings, fs...)
 		out.Skips = append(out.Skips, skips...)
 		res.Notes = append(res.Notes, fmt.Sprintf("second level: %d segments of about %d digits; discrete statistics enter with randomized p-values (seed %d)",

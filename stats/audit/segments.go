@@ -118,7 +118,7 @@ func isSecondLevel(f checks.Finding) bool {
 // Marsaglia 2004). Discrete statistics enter with randomized p-values drawn
 // from a generator seeded with seed. It returns the findings, and skips for
 // statistics that could not be formed in every segment.
-func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.Finding, []checks.Skip) {
+func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.Finding, []checks.Skip, []SegmentSeries) {
 	rng := rand.New(rand.NewPCG(opts.Seed, 0x5e9))
 	perStat := map[string][]stats.LogPPair{}
 	var order []string
@@ -150,6 +150,7 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 	sort.Strings(order)
 	var fs []checks.Finding
 	var skips []checks.Skip
+	var series []SegmentSeries
 	m := len(segs)
 	for _, l := range order {
 		ps := perStat[l]
@@ -162,6 +163,7 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 		for i, v := range ps {
 			p[i] = math.Exp(v.LogP)
 		}
+		series = append(series, SegmentSeries{Label: l, PValues: p})
 		d := stats.KSStatistic(p)
 		ksUp, ksLo := stats.KSLogTails(m, d)
 		fs = append(fs, checks.Finding{Check: "segments", Statistic: "KS", Of: l, Value: d,
@@ -171,5 +173,5 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 		fs = append(fs, checks.Finding{Check: "segments", Statistic: "AD", Of: l, Value: a2,
 			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)})
 	}
-	return fs, skips
+	return fs, skips, series
 }

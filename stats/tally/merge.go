@@ -31,6 +31,7 @@ func Merge(a, b *Tally) (*Tally, error) {
 		u.Offset = a.Offset
 		return u, nil
 	}
+	t.mergeTrace(a, b)
 	addInto(t.Digits, b.Digits)
 	addInto(t.Overlap, b.Overlap)
 	for k := 2; k <= t.MaxBlock; k++ {
@@ -119,6 +120,10 @@ func (t *Tally) Clone() *Tally {
 	u.Walk.Lower = slices.Clone(t.Walk.Lower)
 	u.Coupon.Hist = slices.Clone(t.Coupon.Hist)
 	u.Coupon.Head = slices.Clone(t.Coupon.Head)
+	u.Trace = make([]TracePoint, len(t.Trace))
+	for i, tp := range t.Trace {
+		u.Trace[i] = TracePoint{Pos: tp.Pos, Counts: slices.Clone(tp.Counts)}
+	}
 	return &u
 }
 

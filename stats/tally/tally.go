@@ -133,6 +133,7 @@ type Tally struct {
 	RunDig   RunTally // runs of the digit RunDigit
 	Walk     WalkTally
 	Coupon   CouponTally
+	Trace    []TracePoint // digit counts at fixed global checkpoints, for plots
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -181,6 +182,7 @@ func (t *Tally) Add(d []byte) {
 	if len(d) == 0 {
 		return
 	}
+	t.addTrace(d, t.Offset+t.N)
 	t.addDigits(d)
 	t.addOverlap(d)
 	for k := 2; k <= t.MaxBlock; k++ {

@@ -1,0 +1,75 @@
+package reports
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// CSVHeader is the header of the CSV report: one row per finding, numbers at
+// full double precision, probabilities also as log10 (empty when the
+// probability is exactly 0). Lines before the header start with '#' and
+// carry the provenance; encoding/csv reads them with Comment = '#'.
+var CSVHeader = []string{"sequence", "base", "digits", "null", "verdict", "check", "statistic", "params", "of",
+	"two_sided", "value", "df", "p_upper", "p_lower", "log10_p_upper", "log10_p_lower",
+	"adjusted_p_upper", "adjusted_p_lower", "log10_adjusted_p_upper", "log10_adjusted_p_lower",
+	"holm_p_upper", "holm_p_lower", "bh_p_upper", "bh_p_lower", "mark"}
+
+func full(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+func fullLog10(lnP float64) string {
+	if math.IsInf(lnP, -1) {
+		return ""
+	}
+	return full(lnP / math.Ln10)
+}
+
+func csvParams(p map[string]int) string {
+	keys := make([]string, 0, len(p))
+	for k := range p {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	parts := make([]string, len(keys))
+	for i, k := range keys {
+		parts[i] = fmt.Sprintf("%s=%d", k, p[k])
+	}
+	return strings.Join(parts, ";")
+}
+
+// CSV writes the report as CSV.
+func CSV(w io.Writer, doc Document) error {
+	fmt.Fprintf(w, "# borel %s audit report, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
+	fmt.Fprintf(w, "# command: %s\n", strings.Join(doc.Command, " "))
+	for _, r := range doc.Results {
+		for _, p := range provenance(doc, r)[3:] {
+			fmt.Fprintf(w, "# %s %s: %s\n", r.Source.Name, p[0], p[1])
+		}
+	}
+	fmt.Fprintf(w, "# %s\n", Caution)
+	cw := csv.NewWriter(w)
+	if err := cw.Write(CSVHeader); err != nil {
+		return err
+	}
+	for _, r := range doc.Results {
+		for _, f := range r.Findings {
+			row := []string{r.Source.Name, strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), r.Verdict,
+				f.Check, f.Statistic, csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
+				full(f.Value), full(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
+				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
+				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),
+				full(math.Exp(f.LogHolmUpper)), full(math.Exp(f.LogHolmLower)), full(math.Exp(f.LogBHUpper)), full(math.Exp(f.LogBHLower)),
+				f.Mark}
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}

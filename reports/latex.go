@@ -1,0 +1,170 @@
+package reports
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// texEscape makes text safe in a LaTeX paragraph: the ten special
+// characters are escaped, and the non-ASCII symbols borel prints are
+// written as LaTeX commands so that pdflatex needs no extra packages.
+func texEscape(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch r {
+		case '\\':
+			b.WriteString(`\textbackslash{}`)
+		case '&', '%', '$', '#', '_', '{', '}':
+			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '~':
+			b.WriteString(`\textasciitilde{}`)
+		case '^':
+			b.WriteString(`\textasciicircum{}`)
+		case '<':
+			b.WriteString(`\textless{}`)
+		case '>':
+			b.WriteString(`\textgreater{}`)
+		case '|':
+			b.WriteString(`\textbar{}`)
+		case '–':
+			b.WriteString("--")
+		case '—':
+			b.WriteString("---")
+		case '’', '‘':
+			b.WriteByte('\'')
+		case '“', '”':
+			b.WriteByte('"')
+		case '×':
+			b.WriteString(`$\times$`)
+		case '≤':
+			b.WriteString(`$\le$`)
+		case '≥':
+			b.WriteString(`$\ge$`)
+		case '√':
+			b.WriteString(`$\surd$`)
+		case '·':
+			b.WriteString(`$\cdot$`)
+		case '²':
+			b.WriteString(`$^2$`)
+		case 'ψ':
+			b.WriteString(`$\psi$`)
+		case '∇':
+			b.WriteString(`$\nabla$`)
+		case 'π':
+			b.WriteString(`$\pi$`)
+		case 'χ':
+			b.WriteString(`$\chi$`)
+		case 'α':
+			b.WriteString(`$\alpha$`)
+		default:
+			if r < 128 {
+				b.WriteRune(r)
+			} else {
+				b.WriteString(fmt.Sprintf(`\textsuperscript{[U+%04X]}`, r))
+			}
+		}
+	}
+	return b.String()
+}
+
+// texStatistic writes a statistic's name in math mode.
+func texStatistic(id string) string {
+	switch id {
+	case "X2":
+		return `$X^2$`
+	case "G":
+		return `$G$`
+	case "dpsi2":
+		return `$\nabla\psi^2$`
+	case "d2psi2":
+		return `$\nabla^2\psi^2$`
+	case "z":
+		return `$z$`
+	case "Q":
+		return `$Q$`
+	case "run_any":
+		return `$L$ (any digit)`
+	case "run_digit":
+		return `$L$`
+	case "M":
+		return `$\max|S|/\sqrt{n}$`
+	case "KS":
+		return `$D$ (KS)`
+	case "AD":
+		return `$A^2$ (AD)`
+	}
+	return texEscape(id)
+}
+
+// texP writes a probability (natural log) in math mode with 4 significant
+// digits, as a power of ten below 1e-10, never as a bare 0.
+func texP(logP float64) string {
+	switch {
+	case math.IsInf(logP, -1):
+		return `$0$ (exact)`
+	case logP >= 0:
+		return `$1$`
+	case logP < math.Log(1e-10):
+		return fmt.Sprintf(`$10^{%.2f}$`, logP/math.Ln10)
+	}
+	s := strconv.FormatFloat(math.Exp(logP), 'g', 4, 64)
+	if m, e, ok := strings.Cut(s, "e"); ok {
+		exp, _ := strconv.Atoi(e)
+		return fmt.Sprintf(`$%s \times 10^{%d}$`, m, exp)
+	}
+	return "$" + s + "$"
+}
+
+func texNumber(s string) string {
+	if m, e, ok := strings.Cut(s, "e"); ok {
+		exp, _ := strconv.Atoi(e)
+		return fmt.Sprintf(`$%s \times 10^{%d}$`, m, exp)
+	}
+	if s == "–" {
+		return "--"
+	}
+	return "$" + s + "$"
+}
+
+// LaTeX writes one table environment per sequence and base: a tabular with
+// booktabs rules, ready to \input into a document whose preamble loads
+// booktabs. Provenance goes into comments above each table and the caption
+// states what was audited and the verdict.
+func LaTeX(w io.Writer, doc Document) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "%% borel %s audit report. Needs \\usepackage{booktabs} in the preamble.\n", doc.Version)
+	for _, line := range strings.Split(wrap(Caution, 90), "\n") {
+		fmt.Fprintf(bw, "%% %s\n", line)
+	}
+	for _, r := range doc.Results {
+		fmt.Fprintln(bw)
+		for _, p := range provenance(doc, r) {
+			fmt.Fprintf(bw, "%% %s: %s\n", p[0], strings.ReplaceAll(p[1], "\n", " "))
+		}
+		fmt.Fprintln(bw, `\begin{table}[htbp]`)
+		fmt.Fprintln(bw, `\centering\small`)
+		fmt.Fprintln(bw, `\begin{tabular}{lllrrrrrl}`)
+		fmt.Fprintln(bw, `\toprule`)
+		fmt.Fprintln(bw, `check & statistic & parameter & value & df & $p$ upper & $p$ lower & adjusted & mark \\`)
+		fmt.Fprintln(bw, `\midrule`)
+		for _, f := range r.Findings {
+			param := texEscape(findingParams(f.Finding))
+			fmt.Fprintf(bw, "%s & %s & %s & %s & %s & %s & %s & %s & %s \\\\\n",
+				texEscape(f.Check), texStatistic(f.Statistic), param, texNumber(formatStat(f.Value)),
+				texNumber(formatDF(f.DF)), texP(f.LogPUpper), texP(f.LogPLower),
+				texP(math.Min(f.LogAdjUpper, f.LogAdjLower)), texEscape(f.Mark))
+		}
+		fmt.Fprintln(bw, `\bottomrule`)
+		fmt.Fprintln(bw, `\end{tabular}`)
+		fmt.Fprintf(bw, "\\caption{borel audit of \\texttt{%s} in base %d: %d digits against the %s null, %s adjustment over %d $p$-values, $\\alpha = %s$. Verdict: \\textbf{%s}.}\n",
+			texEscape(r.Source.Name), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
+			2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(r.Verdict))
+		fmt.Fprintln(bw, `\end{table}`)
+	}
+	return bw.Flush()
+}

@@ -1,0 +1,403 @@
+package reports
+
+import (
+	"bytes"
+	"fmt"
+	"image/color"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"gonum.org/v1/gonum/stat/distuv"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"borel/stats/audit"
+)
+
+// Figure is one plot of an audit, ready to write as SVG or PNG.
+type Figure struct {
+	Name  string // file name stem, e.g. "frequencies"
+	Title string
+	plot  *plot.Plot
+}
+
+const figW, figH = 6 * vg.Inch, 3.6 * vg.Inch
+
+// SVG renders the figure as an SVG document.
+func (f Figure) SVG() ([]byte, error) { return f.render("svg") }
+
+// PNG renders the figure as a PNG image.
+func (f Figure) PNG() ([]byte, error) { return f.render("png") }
+
+func (f Figure) render(format string) ([]byte, error) {
+	wt, err := f.plot.WriterTo(figW, figH, format)
+	if err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	if _, err := wt.WriteTo(&b); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// Greys and dash patterns that stay distinguishable in grey print.
+var (
+	ink    = []color.Color{color.Gray{0}, color.Gray{90}, color.Gray{150}, color.RGBA{0, 90, 160, 255}, color.RGBA{180, 60, 0, 255}}
+	dashes = [][]vg.Length{nil, {vg.Points(5), vg.Points(3)}, {vg.Points(1.5), vg.Points(2)}, {vg.Points(8), vg.Points(2), vg.Points(1.5), vg.Points(2)}, {vg.Points(3), vg.Points(1)}}
+	shapes = []draw.GlyphDrawer{draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{}, draw.CrossGlyph{}, draw.PlusGlyph{}, draw.RingGlyph{}, draw.PyramidGlyph{}, draw.BoxGlyph{}}
+)
+
+func styleLine(l *plotter.Line, i int) {
+	l.Color = ink[i%len(ink)]
+	l.Dashes = dashes[(i/len(ink)+i)%len(dashes)]
+	l.Width = vg.Points(1.2)
+}
+
+// integerTicks labels every integer of a short axis (digits, block lengths).
+type integerTicks struct{}
+
+func (integerTicks) Ticks(lo, hi float64) []plot.Tick {
+	step := math.Max(1, math.Ceil((hi-lo)/16))
+	var ts []plot.Tick
+	for v := math.Ceil(lo); v <= hi; v += step {
+		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'f', 0, 64)})
+	}
+	return ts
+}
+
+// preciseTicks keeps gonum's tick positions but labels them with as many
+// decimals as their spacing needs (the default rounds 1.0004 to "1").
+type preciseTicks struct{}
+
+func (preciseTicks) Ticks(lo, hi float64) []plot.Tick {
+	ts := plot.DefaultTicks{}.Ticks(lo, hi)
+	step := math.Inf(1)
+	prev := math.NaN()
+	for _, t := range ts {
+		if t.Label != "" {
+			if !math.IsNaN(prev) {
+				step = math.Min(step, t.Value-prev)
+			}
+			prev = t.Value
+		}
+	}
+	decimals := 0
+	if step > 0 && !math.IsInf(step, 1) {
+		decimals = max(0, int(math.Ceil(-math.Log10(step)+1e-9)))
+	}
+	for i := range ts {
+		if ts[i].Label != "" {
+			ts[i].Label = strconv.FormatFloat(ts[i].Value, 'f', decimals, 64)
+		}
+	}
+	return ts
+}
+
+// plotLabel writes a statistic label with glyphs the plot fonts have:
+// Good's differences ∇ψ² become Δψ² (the usual alternative notation).
+func plotLabel(l string) string { return strings.ReplaceAll(readableLabel(l), "∇", "Δ") }
+
+// legendRoom raises the top of the y axis so that a legend of n entries
+// sits above the data instead of on it.
+func legendRoom(p *plot.Plot, n int) {
+	span := p.Y.Max - p.Y.Min
+	if span <= 0 {
+		span = math.Abs(p.Y.Max) + 1
+	}
+	p.Y.Max += span * 0.1 * float64(n)
+	p.Y.Min -= span * 0.05
+}
+
+func newPlot(title, x, y string) *plot.Plot {
+	p := plot.New()
+	p.Title.Text = title
+	p.X.Label.Text = x
+	p.Y.Label.Text = y
+	p.Legend.Top = true
+	p.Y.Tick.Marker = preciseTicks{}
+	return p
+}
+
+// Figures returns the plots of one audit: digit frequencies, p-value
+// histogram and Q–Q plot, dimension profile, running deviations and, with a
+// second level, the segment p-values. Every number comes from the audit.
+func Figures(r *audit.Result) ([]Figure, error) {
+	var figs []Figure
+	for _, build := range []func(*audit.Result) (Figure, bool, error){
+		frequencyFigure, pHistogramFigure, pQQFigure, dimensionFigure, runningFigure, segmentFigure,
+	} {
+		f, ok, err := build(r)
+		if err != nil {
+			return nil, err
+		}
+		if ok {
+			figs = append(figs, f)
+		}
+	}
+	return figs, nil
+}
+
+func frequencyFigure(r *audit.Result) (Figure, bool, error) {
+	p := newPlot(fmt.Sprintf("Digit frequencies, %d digits in base %d", r.Digits, r.Base), "digit", "relative frequency")
+	n := float64(r.Digits)
+	z := distuv.UnitNormal.Quantile(0.995)
+	obs, null, lo, hi := make(plotter.XYs, r.Base), make(plotter.XYs, r.Base), make(plotter.XYs, r.Base), make(plotter.XYs, r.Base)
+	for j := 0; j < r.Base; j++ {
+		pj := r.Null.P[j]
+		half := z * math.Sqrt(pj*(1-pj)/n)
+		x := float64(j)
+		obs[j] = plotter.XY{X: x, Y: float64(r.DigitCounts[j]) / n}
+		null[j] = plotter.XY{X: x, Y: pj}
+		lo[j] = plotter.XY{X: x, Y: pj - half}
+		hi[j] = plotter.XY{X: x, Y: pj + half}
+	}
+	nl, err := plotter.NewLine(null)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	styleLine(nl, 1)
+	band := []*plotter.Line{}
+	for _, xy := range []plotter.XYs{lo, hi} {
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return Figure{}, false, err
+		}
+		styleLine(l, 2)
+		band = append(band, l)
+	}
+	sc, err := plotter.NewScatter(obs)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	sc.GlyphStyle.Shape = draw.CircleGlyph{}
+	sc.GlyphStyle.Color = ink[0]
+	sc.GlyphStyle.Radius = vg.Points(2.5)
+	p.Add(nl, band[0], band[1], sc)
+	p.Legend.Add("observed", sc)
+	p.Legend.Add("null ("+r.Null.Kind.String()+")", nl)
+	p.Legend.Add("99% band (binomial, normal approx.)", band[0])
+	p.X.Tick.Marker = integerTicks{}
+	p.X.Min, p.X.Max = -0.5, float64(r.Base)-0.5
+	legendRoom(p, 3)
+	return Figure{Name: "frequencies", Title: "Digit frequencies against the null", plot: p}, true, nil
+}
+
+func upperPValues(r *audit.Result) []float64 {
+	ps := make([]float64, 0, len(r.Findings))
+	for _, f := range r.Findings {
+		ps = append(ps, math.Exp(f.LogPUpper))
+	}
+	return ps
+}
+
+func pHistogramFigure(r *audit.Result) (Figure, bool, error) {
+	ps := upperPValues(r)
+	if len(ps) == 0 {
+		return Figure{}, false, nil
+	}
+	p := newPlot(fmt.Sprintf("p-values of the %d findings", len(ps)), "p-value (upper tail)", "number of findings")
+	h, err := plotter.NewHist(plotter.Values(ps), 10)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	h.FillColor = color.Gray{190}
+	h.LineStyle.Color = ink[0]
+	p.Add(h)
+	flat, err := plotter.NewLine(plotter.XYs{{X: 0, Y: float64(len(ps)) / 10}, {X: 1, Y: float64(len(ps)) / 10}})
+	if err != nil {
+		return Figure{}, false, err
+	}
+	styleLine(flat, 1)
+	p.Add(flat)
+	p.Legend.Add("findings per tenth", h)
+	p.Legend.Add("expected under the null", flat)
+	p.X.Min, p.X.Max = 0, 1
+	return Figure{Name: "p-histogram", Title: "Histogram of p-values", plot: p}, true, nil
+}
+
+func pQQFigure(r *audit.Result) (Figure, bool, error) {
+	ps := upperPValues(r)
+	if len(ps) == 0 {
+		return Figure{}, false, nil
+	}
+	sort.Float64s(ps)
+	pts := make(plotter.XYs, len(ps))
+	for i, v := range ps {
+		pts[i] = plotter.XY{X: (float64(i) + 0.5) / float64(len(ps)), Y: v}
+	}
+	p := newPlot("Uniform Q–Q plot of p-values", "uniform quantile", "ordered p-value (upper tail)")
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	sc.GlyphStyle.Shape = draw.CircleGlyph{}
+	sc.GlyphStyle.Color = ink[0]
+	diag, err := plotter.NewLine(plotter.XYs{{X: 0, Y: 0}, {X: 1, Y: 1}})
+	if err != nil {
+		return Figure{}, false, err
+	}
+	styleLine(diag, 1)
+	p.Add(diag, sc)
+	p.Legend.Add("findings", sc)
+	p.Legend.Add("uniform (null)", diag)
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 1, 0, 1
+	return Figure{Name: "p-qq", Title: "Q–Q plot of p-values", plot: p}, true, nil
+}
+
+func dimensionFigure(r *audit.Result) (Figure, bool, error) {
+	e := r.Entropy
+	if e == nil || len(e.Rows) == 0 {
+		return Figure{}, false, nil
+	}
+	p := newPlot(fmt.Sprintf("Dimension estimate by block length (%g%% intervals)", 100*e.Confidence),
+		"block length k", fmt.Sprintf("dimension (entropy rate / ln %d)", r.Base))
+	pts := make(plotter.XYs, len(e.Rows))
+	var errs plotter.YErrors
+	for i, row := range e.Rows {
+		pts[i] = plotter.XY{X: float64(row.K), Y: row.Dimension}
+		lo, hi := row.Dimension-row.DimLow, row.DimHigh-row.Dimension
+		if math.IsNaN(lo) {
+			lo, hi = 0, 0
+		}
+		errs = append(errs, struct{ Low, High float64 }{lo, hi})
+	}
+	eb, err := plotter.NewYErrorBars(struct {
+		plotter.XYer
+		plotter.YErrorer
+	}{pts, errs})
+	if err != nil {
+		return Figure{}, false, err
+	}
+	eb.LineStyle.Color = ink[0]
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	sc.GlyphStyle.Shape = draw.SquareGlyph{}
+	sc.GlyphStyle.Color = ink[0]
+	k0, k1 := 0.5, float64(len(e.Rows))+0.5
+	full, err := plotter.NewLine(plotter.XYs{{X: k0, Y: 1}, {X: k1, Y: 1}})
+	if err != nil {
+		return Figure{}, false, err
+	}
+	styleLine(full, 1)
+	p.Add(full, eb, sc)
+	p.Legend.Add("estimate with interval", sc)
+	p.Legend.Add("full dimension", full)
+	if math.Abs(e.NullDimension-1) > 1e-12 {
+		be, err := plotter.NewLine(plotter.XYs{{X: k0, Y: e.NullDimension}, {X: k1, Y: e.NullDimension}})
+		if err != nil {
+			return Figure{}, false, err
+		}
+		styleLine(be, 2)
+		p.Add(be)
+		p.Legend.Add("Besicovitch–Eggleston H(p)/ln b", be)
+	}
+	p.X.Min, p.X.Max = k0, k1
+	p.X.Tick.Marker = integerTicks{}
+	legendRoom(p, 3)
+	return Figure{Name: "dimension", Title: "Entropy dimension profile", plot: p}, true, nil
+}
+
+func runningFigure(r *audit.Result) (Figure, bool, error) {
+	var pts []int
+	for i, tp := range r.Trace {
+		if tp.Pos >= 16 {
+			pts = append(pts, i)
+		}
+	}
+	if len(pts) < 2 {
+		return Figure{}, false, nil
+	}
+	z := func(tpIdx, d int) float64 {
+		tp := r.Trace[tpIdx]
+		n := float64(tp.Pos)
+		pd := r.Null.P[d]
+		if pd <= 0 || pd >= 1 {
+			return 0
+		}
+		return (float64(tp.Counts[d]) - n*pd) / math.Sqrt(n*pd*(1-pd))
+	}
+	// The 5 digits furthest from their expectation at the end.
+	digits := make([]int, r.Base)
+	for d := range digits {
+		digits[d] = d
+	}
+	last := pts[len(pts)-1]
+	sort.SliceStable(digits, func(a, b int) bool { return math.Abs(z(last, digits[a])) > math.Abs(z(last, digits[b])) })
+	if len(digits) > 5 {
+		digits = digits[:5]
+	}
+	sort.Ints(digits)
+	title := "Running deviation of each digit's frequency"
+	if r.Base > 5 {
+		title = "Running deviation of the 5 most deviant digits"
+	}
+	p := newPlot(title, "digits read, n (log scale)", "standardized deviation (sd units)")
+	p.X.Scale = plot.LogScale{}
+	p.X.Tick.Marker = plot.LogTicks{}
+	for i, d := range digits {
+		xy := make(plotter.XYs, len(pts))
+		for k, idx := range pts {
+			xy[k] = plotter.XY{X: float64(r.Trace[idx].Pos), Y: z(idx, d)}
+		}
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return Figure{}, false, err
+		}
+		styleLine(l, i+3)
+		l.Width = vg.Points(0.8)
+		p.Add(l)
+		p.Legend.Add(fmt.Sprintf("digit %d", d), l)
+	}
+	for _, sign := range []float64{1, -1} {
+		env := make(plotter.XYs, len(pts))
+		for k, idx := range pts {
+			n := float64(r.Trace[idx].Pos)
+			env[k] = plotter.XY{X: n, Y: sign * math.Sqrt(2*math.Log(math.Log(n)))}
+		}
+		l, err := plotter.NewLine(env)
+		if err != nil {
+			return Figure{}, false, err
+		}
+		styleLine(l, 0)
+		l.Width = vg.Points(1.8)
+		p.Add(l)
+		if sign > 0 {
+			p.Legend.Add("±√(2 ln ln n), iterated-logarithm envelope (descriptive)", l)
+		}
+	}
+	legendRoom(p, len(digits)+1)
+	return Figure{Name: "running", Title: "Running frequency deviation", plot: p}, true, nil
+}
+
+func segmentFigure(r *audit.Result) (Figure, bool, error) {
+	if len(r.SegmentPValues) == 0 {
+		return Figure{}, false, nil
+	}
+	p := newPlot(fmt.Sprintf("Second level: p-values in each of %d segments", r.Segments), "segment", "p-value (upper tail)")
+	for i, s := range r.SegmentPValues {
+		xy := make(plotter.XYs, len(s.PValues))
+		for j, v := range s.PValues {
+			xy[j] = plotter.XY{X: float64(j + 1), Y: v}
+		}
+		sc, err := plotter.NewScatter(xy)
+		if err != nil {
+			return Figure{}, false, err
+		}
+		sc.GlyphStyle.Shape = shapes[i%len(shapes)]
+		sc.GlyphStyle.Color = ink[i%len(ink)]
+		sc.GlyphStyle.Radius = vg.Points(2.2)
+		p.Add(sc)
+		p.Legend.Add(plotLabel(s.Label), sc)
+	}
+	p.Y.Min, p.Y.Max = 0, 1
+	legendRoom(p, len(r.SegmentPValues))
+	p.X.Tick.Marker = integerTicks{}
+	return Figure{Name: "segments", Title: "Segment p-values", plot: p}, true, nil
+}

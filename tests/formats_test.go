@@ -1,0 +1,175 @@
+package tests
+
+import (
+	"bytes"
+	"compress/gzip"
+	"encoding/csv"
+	"encoding/json"
+	"io"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"golang.org/x/net/html"
+)
+
+// smallInput is the fixed input of the format tests: the first 20 000
+// decimals of π from testdata/pi-1e6.txt.gz (python3-mpmath 1.2.1).
+func smallInput(t *testing.T) []byte {
+	t.Helper()
+	f, err := os.Open("../testdata/pi-1e6.txt.gz")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	z, err := gzip.NewReader(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	head := make([]byte, 2+20_000)
+	if _, err := io.ReadFull(z, head); err != nil {
+		t.Fatal(err)
+	}
+	return head // "3." and 20 000 decimals
+}
+
+// reportArgs audits the small input with a second level, so every part of
+// every report (findings, skips, entropy, segments, plots) appears.
+var reportArgs = []string{"audit", "-", "--segments", "10"}
+
+func TestGoldenEveryFormat(t *testing.T) {
+	in := smallInput(t)
+	for _, format := range []string{"text", "md", "csv", "json", "tex", "html"} {
+		code, out, errs := runBorel(t, in, append(reportArgs, "--format", format)...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", format, code, errs)
+		}
+		golden(t, "small."+format, out)
+	}
+}
+
+// The LaTeX output compiles (when pdflatex is installed: Debian's
+// texlive-latex-base and texlive-latex-recommended for booktabs).
+func TestLaTeXCompiles(t *testing.T) {
+	pdflatex, err := exec.LookPath("pdflatex")
+	if err != nil {
+		t.Skip("pdflatex is not installed (apt-get install texlive-latex-base texlive-latex-recommended); LaTeX output not compiled")
+	}
+	code, out, errs := runBorel(t, smallInput(t), append(reportArgs, "--format", "tex")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	dir := t.TempDir()
+	doc := "\\documentclass{article}\n\\usepackage[margin=1cm,landscape]{geometry}\n\\usepackage{booktabs}\n\\begin{document}\n\\input{report}\n\\end{document}\n"
+	os.WriteFile(filepath.Join(dir, "report.tex"), out, 0o644)
+	os.WriteFile(filepath.Join(dir, "paper.tex"), []byte(doc), 0o644)
+	cmd := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "paper.tex")
+	cmd.Dir = dir
+	if log, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("pdflatex failed: %v\n%s", err, log[max(0, len(log)-3000):])
+	}
+	if st, err := os.Stat(filepath.Join(dir, "paper.pdf")); err != nil || st.Size() == 0 {
+		t.Errorf("no PDF: %v", err)
+	}
+}
+
+// The HTML report parses, holds one <svg> per plot, and reaches nothing
+// outside itself: no scripts, no external links or sources.
+func TestHTMLReport(t *testing.T) {
+	code, out, errs := runBorel(t, smallInput(t), append(reportArgs, "--format", "html")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	doc, err := html.Parse(bytes.NewReader(out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	svgs, figures := 0, 0
+	var walk func(n *html.Node)
+	walk = func(n *html.Node) {
+		if n.Type == html.ElementNode {
+			switch n.Data {
+			case "svg":
+				svgs++
+			case "figure":
+				figures++
+			case "script", "link", "img", "iframe":
+				t.Errorf("the page has a <%s> element", n.Data)
+			}
+			for _, a := range n.Attr {
+				if (a.Key == "src" || a.Key == "href") && !strings.HasPrefix(a.Val, "#") {
+					t.Errorf("external reference %s=%q", a.Key, a.Val)
+				}
+			}
+		}
+		for c := n.FirstChild; c != nil; c = c.NextSibling {
+			walk(c)
+		}
+	}
+	walk(doc)
+	// frequencies, p histogram, Q–Q, dimension, running deviation, segments
+	if figures != 6 || svgs != figures {
+		t.Errorf("%d figures and %d <svg> elements; want 6 and one each", figures, svgs)
+	}
+}
+
+// The CSV report reads back with encoding/csv to the same numbers as the
+// JSON report of the same run.
+func TestCSVMatchesJSON(t *testing.T) {
+	in := smallInput(t)
+	_, csvOut, _ := runBorel(t, in, append(reportArgs, "--format", "csv")...)
+	_, jsonOut, _ := runBorel(t, in, append(reportArgs, "--format", "json")...)
+	r := csv.NewReader(bytes.NewReader(csvOut))
+	r.Comment = '#'
+	recs, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Audits []struct {
+			Findings []struct {
+				Check          string   `json:"check"`
+				Statistic      string   `json:"statistic"`
+				Value          float64  `json:"value"`
+				DF             float64  `json:"df"`
+				PUpper         float64  `json:"p_upper"`
+				PLower         float64  `json:"p_lower"`
+				Log10PUpper    *float64 `json:"log10_p_upper"`
+				AdjustedPUpper float64  `json:"adjusted_p_upper"`
+			} `json:"findings"`
+		} `json:"audits"`
+	}
+	if err := json.Unmarshal(jsonOut, &doc); err != nil {
+		t.Fatal(err)
+	}
+	header := recs[0]
+	col := map[string]int{}
+	for i, h := range header {
+		col[h] = i
+	}
+	fs := doc.Audits[0].Findings
+	if len(recs)-1 != len(fs) {
+		t.Fatalf("%d CSV rows, %d JSON findings", len(recs)-1, len(fs))
+	}
+	num := func(s string) float64 {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			t.Fatalf("%q: %v", s, err)
+		}
+		return v
+	}
+	for i, f := range fs {
+		row := recs[i+1]
+		if row[col["check"]] != f.Check || row[col["statistic"]] != f.Statistic ||
+			num(row[col["value"]]) != f.Value || num(row[col["df"]]) != f.DF ||
+			num(row[col["p_upper"]]) != f.PUpper || num(row[col["p_lower"]]) != f.PLower ||
+			num(row[col["adjusted_p_upper"]]) != f.AdjustedPUpper ||
+			(f.Log10PUpper != nil && math.Abs(num(row[col["log10_p_upper"]])-*f.Log10PUpper) != 0) {
+			t.Errorf("row %d differs from the JSON finding %+v: %v", i+1, f, row)
+		}
+	}
+}
