@@ -28,12 +28,18 @@ func formatP(logP float64) string {
 	}
 }
 
-// formatStat prints a statistic with 6 significant digits.
+// formatStat prints a statistic with 4 significant digits, without an
+// exponent between 1e-4 and 1e9 (90399.8 prints as 90400, 5.50908 as 5.509).
 func formatStat(v float64) string {
 	if v == 0 {
 		return "0"
 	}
-	return strconv.FormatFloat(v, 'g', 6, 64)
+	exp := math.Floor(math.Log10(math.Abs(v)))
+	if exp >= 4 && exp < 9 {
+		scale := math.Pow(10, exp-3)
+		return strconv.FormatFloat(math.Round(v/scale)*scale, 'f', 0, 64)
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
 }
 
 // formatDF prints degrees of freedom (integers in borel), or "–" for a

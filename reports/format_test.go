@@ -49,3 +49,15 @@ func TestWrap(t *testing.T) {
 		}
 	}
 }
+
+// Human formats print 4 significant digits (issue: 3–4), no exponent for
+// ordinary magnitudes.
+func TestFormatStat(t *testing.T) {
+	cases := map[float64]string{5.50908: "5.509", 90399.8: "90400", 863.798: "863.8", 1.00048e6: "1000000",
+		0.0154667: "0.01547", -1.39009: "-1.39", 3.2e-7: "3.2e-07", 2.5e12: "2.5e+12", 0: "0", 7: "7"}
+	for v, want := range cases {
+		if got := formatStat(v); got != want {
+			t.Errorf("formatStat(%g) = %q, want %q", v, got, want)
+		}
+	}
+}

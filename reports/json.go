@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"slices"
+	"time"
 
 	"borel/stats/audit"
 )
@@ -23,6 +24,7 @@ type JSONDocument struct {
 	SchemaVersion int         `json:"schema_version"`
 	BorelVersion  string      `json:"borel_version"`
 	Command       []string    `json:"command"`
+	Created       string      `json:"created"`
 	Audits        []JSONAudit `json:"audits"`
 	Caution       string      `json:"caution"`
 }
@@ -37,6 +39,8 @@ type JSONAudit struct {
 	Adjustment  string        `json:"adjustment"`
 	MaxBlock    int           `json:"max_block"`
 	BlockChoice string        `json:"block_choice"`
+	Segments    int           `json:"segments"`
+	Seed        uint64        `json:"seed"`
 	Verdict     string        `json:"verdict"`
 	Findings    []JSONFinding `json:"findings"`
 	Skipped     []JSONSkip    `json:"skipped"`
@@ -52,6 +56,8 @@ type JSONSource struct {
 	Bytes       *int64 `json:"bytes,omitempty"`
 	Compressed  bool   `json:"compressed"`
 	IntegerPart string `json:"integer_part_dropped,omitempty"`
+	SHA256      string `json:"sha256,omitempty"`
+	Parameters  string `json:"parameters,omitempty"`
 }
 
 // JSONNull is the null hypothesis with its digit probabilities.
@@ -127,7 +133,7 @@ type JSONEntropyRow struct {
 // ToJSON converts a document to its JSON form.
 func ToJSON(doc Document) JSONDocument {
 	out := JSONDocument{Schema: SchemaName, SchemaVersion: SchemaVersion, BorelVersion: doc.Version,
-		Command: doc.Command, Audits: []JSONAudit{}, Caution: Caution}
+		Command: doc.Command, Created: doc.Created.UTC().Format(time.RFC3339), Audits: []JSONAudit{}, Caution: Caution}
 	for _, r := range doc.Results {
 		out.Audits = append(out.Audits, jsonAudit(r))
 	}
@@ -144,7 +150,9 @@ func JSON(w io.Writer, doc Document) error {
 func jsonAudit(r *audit.Result) JSONAudit {
 	a := JSONAudit{
 		Source: JSONSource{Name: r.Source.Name, Kind: r.Source.Kind, Format: r.Source.Format,
-			Compressed: r.Source.Compressed, IntegerPart: r.Source.IntegerPart},
+			Compressed: r.Source.Compressed, IntegerPart: r.Source.IntegerPart,
+			SHA256: r.Source.SHA256, Parameters: r.Source.Parameters},
+		Segments: r.Segments, Seed: r.Seed,
 		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
 		Alpha: r.Alpha, Adjustment: r.Adjustment, MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
 		Verdict: r.Verdict, Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),

@@ -6,6 +6,8 @@ package tests
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -130,6 +132,7 @@ type report struct {
 		Source   struct {
 			IntegerPart string `json:"integer_part_dropped"`
 			Compressed  bool   `json:"compressed"`
+			SHA256      string `json:"sha256"`
 		} `json:"source"`
 		Findings []struct {
 			Check     string         `json:"check"`
@@ -169,6 +172,12 @@ func TestPiReportContent(t *testing.T) {
 		t.Fatalf("document header: %+v", r)
 	}
 	a := r.Audits[0]
+	// The provenance hash is of the bytes read: the compressed file here
+	// (GNU coreutils sha256sum testdata/pi-1e6.txt.gz gives the same).
+	raw, _ := os.ReadFile("../testdata/pi-1e6.txt.gz")
+	if sum := sha256.Sum256(raw); a.Source.SHA256 != hex.EncodeToString(sum[:]) {
+		t.Errorf("source sha256 %q", a.Source.SHA256)
+	}
 	if a.Verdict != "consistent" || a.Digits != 1_000_000 || a.Base != 10 || a.MaxBlock != 5 ||
 		a.Source.IntegerPart != "3" || !a.Source.Compressed {
 		t.Errorf("audit header: %+v", a)
