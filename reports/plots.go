@@ -65,6 +65,9 @@ func (integerTicks) Ticks(lo, hi float64) []plot.Tick {
 	step := math.Max(1, math.Ceil((hi-lo)/16))
 	var ts []plot.Tick
 	for v := math.Ceil(lo); v <= hi; v += step {
+		if v == 0 {
+			v = 0 // math.Ceil(-0.5) is -0, which would print as "-0"
+		}
 		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'f', 0, 64)})
 	}
 	return ts
