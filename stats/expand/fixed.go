@@ -1,0 +1,141 @@
+package expand
+
+import (
+	"fmt"
+	"math"
+	"math/big"
+	"sync"
+)
+
+// A fixedFunc returns floor(x·2^prec) for a constant x in [0, 1) up to an
+// error of at most errUnits units of 2^-prec: the true value lies in
+// [v - errUnits, v + errUnits] · 2^-prec.
+type fixedFunc func(prec uint) (v *big.Int, errUnits int64)
+
+// guardBits are added to the precision a request needs; a result too close
+// to a digit boundary doubles them and tries again.
+const guardBits = 64
+
+// bitsFor returns the binary precision that n base-b digits need.
+func bitsFor(n int, base int) uint {
+	return uint(math.Ceil(float64(n)*math.Log2(float64(base)))) + guardBits
+}
+
+// digitsFrom returns the first n base-b digits after the point of the
+// constant computed by f. It evaluates floor(x·b^n) at both ends of f's
+// error interval; when they differ (the value is within the error bound of
+// a digit boundary) it retries with more precision, so every digit it
+// returns is correct.
+func digitsFrom(f fixedFunc, n, base int) ([]byte, error) {
+	if n < 0 {
+		return nil, fmt.Errorf("digit count %d is negative", n)
+	}
+	if n == 0 {
+		return []byte{}, nil
+	}
+	scale := new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(n)), nil)
+	for extra := uint(0); extra <= 4096; extra = 2*extra + guardBits {
+		prec := bitsFor(n, base) + extra
+		v, e := f(prec)
+		lo := new(big.Int).Sub(v, big.NewInt(e))
+		hi := new(big.Int).Add(v, big.NewInt(e+1)) // floor truncates: true value < v + e + 1
+		lo.Mul(lo, scale).Rsh(lo, prec)
+		hi.Mul(hi, scale)
+		hi.Sub(hi, big.NewInt(1)).Rsh(hi, prec) // the upper end is excluded
+		if lo.Cmp(hi) == 0 {
+			return toDigits(lo, n, base), nil
+		}
+	}
+	return nil, fmt.Errorf("could not decide the digits of the constant to %d places", n)
+}
+
+// toDigits writes v (0 ≤ v < base^n) as exactly n base-b digits.
+func toDigits(v *big.Int, n, base int) []byte {
+	d := make([]byte, n)
+	if base == 256 {
+		b := v.Bytes()
+		copy(d[n-len(b):], b)
+		return d
+	}
+	if base&(base-1) == 0 { // powers of two: read bit fields of the byte image
+		shift := int(math.Log2(float64(base)))
+		bits := n * shift
+		buf := v.FillBytes(make([]byte, (bits+7)/8))
+		off := 8*len(buf) - bits
+		for i := range d {
+			var x byte
+			for j := 0; j < shift; j++ {
+				pos := off + i*shift + j
+				x = x<<1 | buf[pos>>3]>>(7-pos&7)&1
+			}
+			d[i] = x
+		}
+		return d
+	}
+	s := v.Text(base)
+	off := n - len(s)
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			d[off+i] = c - '0'
+		default:
+			d[off+i] = c - 'a' + 10
+		}
+	}
+	return d
+}
+
+// bsTerm gives the integers of term k of a hypergeometric-type series
+// S = Σ_{k<N} a(k)/b(k) · Π_{j≤k} p(j)/q(j).
+type bsTerm func(k int64) (a, b, p, q *big.Int)
+
+type bsResult struct{ P, Q, B, T *big.Int }
+
+// binarySplit sums the series over [n1, n2) by binary splitting
+// (Haible & Papanikolaou, "Fast multiprecision evaluation of series of
+// rational numbers", 1997): with P, Q, B the products of p, q, b and
+// T = B·Q·S, two halves combine as
+//
+//	P = P_l P_r, Q = Q_l Q_r, B = B_l B_r, T = B_r Q_r T_l + B_l P_l T_r.
+//
+// The top two levels run on separate goroutines.
+func binarySplit(term bsTerm, n1, n2 int64, depth int) bsResult {
+	if n2-n1 == 1 {
+		a, b, p, q := term(n1)
+		return bsResult{P: p, Q: q, B: b, T: new(big.Int).Mul(a, p)}
+	}
+	m := (n1 + n2) / 2
+	var l, r bsResult
+	if depth < 2 {
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() { defer wg.Done(); l = binarySplit(term, n1, m, depth+1) }()
+		r = binarySplit(term, m, n2, depth+1)
+		wg.Wait()
+	} else {
+		l = binarySplit(term, n1, m, depth+1)
+		r = binarySplit(term, m, n2, depth+1)
+	}
+	t1 := new(big.Int).Mul(r.B, r.Q)
+	t1.Mul(t1, l.T)
+	t2 := new(big.Int).Mul(l.B, l.P)
+	t2.Mul(t2, r.T)
+	return bsResult{
+		P: new(big.Int).Mul(l.P, r.P),
+		Q: new(big.Int).Mul(l.Q, r.Q),
+		B: new(big.Int).Mul(l.B, r.B),
+		T: t1.Add(t1, t2),
+	}
+}
+
+// seriesFixed returns floor(S·2^prec) for the series summed over [0, n)
+// (the caller bounds the tail by one unit).
+func seriesFixed(term bsTerm, n int64, prec uint) *big.Int {
+	r := binarySplit(term, 0, n, 0)
+	den := new(big.Int).Mul(r.B, r.Q)
+	num := new(big.Int).Lsh(r.T, prec)
+	return num.Quo(num, den)
+}
+
+var one = big.NewInt(1)

@@ -1,0 +1,254 @@
+package expand
+
+import (
+	"fmt"
+	"math"
+	"math/big"
+	"math/rand/v2"
+	"strconv"
+	"strings"
+)
+
+// Source names the sequences borel can make. Constants are computed
+// exactly in any base; generators are seeded and reproducible.
+type Source struct {
+	Name   string // as given: "pi", "sqrt2", "stoneham:2,3", "pcg:7", …
+	Detail string // how the digits are made, for a report's provenance
+	fixed  fixedFunc
+	direct func(n, base int) ([]byte, error) // sequences defined digit by digit
+	base   int                               // a source with a base of its own (iid), else 0
+}
+
+// Names lists the source names, for messages and help.
+const Names = "pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, stoneham:B,C, rational:P/Q, liouville, iid:p0,p1,..., pcg:SEED, chacha8:SEED, lcg:SEED"
+
+// ParseSource returns the source with the given name.
+func ParseSource(name string) (Source, error) {
+	kind, arg, hasArg := strings.Cut(name, ":")
+	s := Source{Name: name}
+	switch {
+	case kind == "pi" && !hasArg:
+		s.fixed, s.Detail = piFixed, "π by Chudnovsky's series (binary splitting), digits verified against the error bound"
+	case kind == "e" && !hasArg:
+		s.fixed, s.Detail = eFixed, "e by Σ 1/k! (binary splitting), digits verified against the error bound"
+	case kind == "ln2" && !hasArg:
+		s.fixed, s.Detail = ln2Fixed, "ln 2 = 18 atanh(1/26) - 2 atanh(1/4801) + 8 atanh(1/8749), digits verified against the error bound"
+	case kind == "phi" && !hasArg:
+		s.fixed, s.Detail = phiFixed, "golden ratio (1+√5)/2, exact integer square root"
+	case strings.HasPrefix(kind, "sqrt") && !hasArg:
+		n, err := strconv.ParseInt(strings.TrimPrefix(kind, "sqrt"), 10, 64)
+		if err != nil || n <= 0 || n > 1<<40 {
+			return s, fmt.Errorf("source %q: write sqrtN with a positive integer N, e.g. sqrt2", name)
+		}
+		if r := int64(math.Sqrt(float64(n))); r*r == n || (r+1)*(r+1) == n {
+			return s, fmt.Errorf("source %q: %d is a perfect square, its root has no fractional digits", name, n)
+		}
+		s.fixed, s.Detail = sqrtFixed(n), fmt.Sprintf("√%d, exact integer square root", n)
+	case kind == "stoneham":
+		bs, cs, ok := strings.Cut(arg, ",")
+		b, err1 := strconv.ParseInt(bs, 10, 64)
+		c, err2 := strconv.ParseInt(cs, 10, 64)
+		if !ok || err1 != nil || err2 != nil || b < 2 || c < 2 || b > 1<<20 || c > 1<<20 || gcd(b, c) != 1 {
+			return s, fmt.Errorf("source %q: write stoneham:B,C with coprime integers B, C ≥ 2 (e.g. stoneham:2,3)", name)
+		}
+		s.fixed = stonehamFixed(b, c)
+		s.Detail = fmt.Sprintf("Stoneham constant α_{%d,%d} = Σ_{k≥1} 1/(%d^k %d^(%d^k)), exact terms", b, c, c, b, c)
+	case kind == "rational":
+		ps, qs, ok := strings.Cut(arg, "/")
+		p, ok1 := new(big.Int).SetString(ps, 10)
+		q, ok2 := new(big.Int).SetString(qs, 10)
+		if !ok || !ok1 || !ok2 || q.Sign() <= 0 || p.Sign() < 0 {
+			return s, fmt.Errorf("source %q: write rational:P/Q with integers P ≥ 0 and Q > 0", name)
+		}
+		s.direct = func(n, base int) ([]byte, error) { return rationalDigits(p, q, n, base), nil }
+		s.Detail = fmt.Sprintf("fractional digits of %s/%s by long division (periodic: a negative control)", ps, qs)
+	case kind == "champernowne" && !hasArg:
+		s.direct = func(n, base int) ([]byte, error) { return Champernowne(n, base), nil }
+		s.Detail = "Champernowne's constant: the numerals 1, 2, 3, … written one after another in the base"
+	case kind == "copeland-erdos" && !hasArg:
+		s.direct = func(n, base int) ([]byte, error) { return CopelandErdos(n, base), nil }
+		s.Detail = "Copeland–Erdős constant: the primes 2, 3, 5, 7, … written one after another in the base"
+	case kind == "liouville" && !hasArg:
+		s.direct = func(n, base int) ([]byte, error) { return Liouville(n), nil }
+		s.Detail = "Liouville-type number Σ_{k≥1} B^(-k!): digit 1 at positions k!, else 0"
+	case kind == "iid":
+		p, err := parseProbs(arg)
+		if err != nil {
+			return s, fmt.Errorf("source %q: %v", name, err)
+		}
+		s.base = len(p)
+		s.direct = func(n, base int) ([]byte, error) {
+			return IID(n, p, rand.New(rand.NewPCG(1, uint64(len(p))))), nil
+		}
+		s.Detail = fmt.Sprintf("independent digits from (%s), PCG(1, %d)", arg, len(p))
+	case kind == "pcg" || kind == "chacha8" || kind == "lcg":
+		seed, err := strconv.ParseUint(arg, 10, 64)
+		if err != nil {
+			return s, fmt.Errorf("source %q: write %s:SEED with a non-negative integer seed", name, kind)
+		}
+		s.direct = generator(kind, seed)
+		s.Detail = map[string]string{
+			"pcg":     fmt.Sprintf("Go's PCG generator, seed %d, uniform digits", seed),
+			"chacha8": fmt.Sprintf("Go's ChaCha8 generator, seed %d, uniform digits", seed),
+			"lcg":     fmt.Sprintf("RANDU x ← 65539x mod 2^31, seed %d, digits from the low bits: deliberately weak", seed),
+		}[kind]
+	default:
+		return s, fmt.Errorf("unknown source %q; the sources are %s", name, Names)
+	}
+	return s, nil
+}
+
+// Base returns the base a source fixes itself (iid vectors), or 0.
+func (s Source) Base() int { return s.base }
+
+// Digits returns digits offset+1 .. offset+n after the point, in base b
+// (2..36, or 256).
+func (s Source) Digits(n, offset, base int) ([]byte, error) {
+	if s.base != 0 && base != s.base {
+		return nil, fmt.Errorf("source %s has %d digits; --base %d does not match", s.Name, s.base, base)
+	}
+	var d []byte
+	var err error
+	if s.fixed != nil {
+		d, err = digitsFrom(s.fixed, n+offset, base)
+	} else {
+		d, err = s.direct(n+offset, base)
+	}
+	if err != nil {
+		return nil, err
+	}
+	return d[offset:], nil
+}
+
+// MemoryEstimate returns roughly how many bytes computing n digits in base
+// b takes (binary splitting holds a few numbers of the result's size and
+// their products; digit-native sources need about the digits themselves).
+func (s Source) MemoryEstimate(n, base int) float64 {
+	if s.fixed == nil {
+		return 2 * float64(n)
+	}
+	bits := float64(bitsFor(n, base))
+	return 24*bits/8 + 2*float64(n)
+}
+
+func gcd(a, b int64) int64 {
+	for b != 0 {
+		a, b = b, a%b
+	}
+	return a
+}
+
+func parseProbs(s string) ([]float64, error) {
+	parts := strings.Split(s, ",")
+	if len(parts) < 2 || len(parts) > 36 {
+		return nil, fmt.Errorf("give 2 to 36 probabilities")
+	}
+	p := make([]float64, len(parts))
+	sum := 0.0
+	for i, part := range parts {
+		v, err := strconv.ParseFloat(strings.TrimSpace(part), 64)
+		if err != nil || !(v > 0 && v < 1) {
+			return nil, fmt.Errorf("entry %d %q is not a probability strictly between 0 and 1", i+1, part)
+		}
+		p[i] = v
+		sum += v
+	}
+	if math.Abs(sum-1) > 1e-9 {
+		return nil, fmt.Errorf("the probabilities sum to %.12g, not 1", sum)
+	}
+	return p, nil
+}
+
+// rationalDigits returns n base-b digits of frac(p/q) by long division.
+func rationalDigits(p, q *big.Int, n, base int) []byte {
+	r := new(big.Int).Mod(p, q)
+	bb := big.NewInt(int64(base))
+	d := make([]byte, n)
+	digit := new(big.Int)
+	for i := range d {
+		r.Mul(r, bb)
+		digit.QuoRem(r, q, r)
+		d[i] = byte(digit.Int64())
+	}
+	return d
+}
+
+// CopelandErdos returns the first n digits of the Copeland–Erdős constant in
+// base b: the primes written one after another (0.235711131719… in base 10;
+// normal in base 10, Copeland & Erdős, Bull. AMS 52 (1946) 857–860).
+func CopelandErdos(n, b int) []byte {
+	d := make([]byte, 0, n+32)
+	limit := 1024
+	for {
+		sieve := make([]bool, limit)
+		var buf [64]byte
+		d = d[:0]
+		for k := 2; k < limit && len(d) < n; k++ {
+			if sieve[k] {
+				continue
+			}
+			for j := k * k; j < limit; j += k {
+				sieve[j] = true
+			}
+			i := len(buf)
+			for v := k; v > 0; v /= b {
+				i--
+				buf[i] = byte(v % b)
+			}
+			d = append(d, buf[i:]...)
+		}
+		if len(d) >= n {
+			return d[:n]
+		}
+		limit *= 4
+	}
+}
+
+// Liouville returns the first n digits of Σ_{k≥1} B^(-k!): 1 at the
+// positions 1, 2, 6, 24, 120, … and 0 elsewhere, in any base B.
+func Liouville(n int) []byte {
+	d := make([]byte, n)
+	f := 1
+	for k := 1; f <= n; k++ {
+		f *= k
+		if f <= n {
+			d[f-1] = 1
+		}
+		if k > 20 {
+			break
+		}
+	}
+	return d
+}
+
+func generator(kind string, seed uint64) func(n, base int) ([]byte, error) {
+	return func(n, base int) ([]byte, error) {
+		d := make([]byte, n)
+		switch kind {
+		case "lcg":
+			x := uint32(seed|1) & (1<<31 - 1)
+			for i := range d {
+				x = (65539 * x) & (1<<31 - 1)
+				if base&(base-1) == 0 {
+					d[i] = byte(x & uint32(base-1)) // the low bits: short periods
+				} else {
+					d[i] = byte(uint64(x) * uint64(base) >> 31)
+				}
+			}
+			return d, nil
+		case "pcg":
+			rng := rand.New(rand.NewPCG(seed, 0))
+			for i := range d {
+				d[i] = byte(rng.IntN(base))
+			}
+		default:
+			var key [32]byte
+			copy(key[:], strconv.FormatUint(seed, 10))
+			rng := rand.New(rand.NewChaCha8(key))
+			for i := range d {
+				d[i] = byte(rng.IntN(base))
+			}
+		}
+		return d, nil
+	}
+}
