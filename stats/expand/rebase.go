@@ -1,0 +1,81 @@
+package expand
+
+import (
+	"math"
+	"math/big"
+)
+
+// parseDigits returns the integer whose base-b digits (values, most
+// significant first) are d, by divide and conquer: value(hi‖lo) =
+// value(hi)·b^len(lo) + value(lo), with the powers of b cached by length.
+// With Go's subquadratic multiplication this avoids the quadratic digit-by-
+// digit loop of big.Int.SetString for long strings.
+func parseDigits(d []byte, base int) *big.Int {
+	pows := map[int]*big.Int{}
+	var pow func(n int) *big.Int
+	pow = func(n int) *big.Int {
+		if p, ok := pows[n]; ok {
+			return p
+		}
+		p := new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(n)), nil)
+		pows[n] = p
+		return p
+	}
+	var rec func(d []byte) *big.Int
+	rec = func(d []byte) *big.Int {
+		if len(d) <= 256 {
+			v := new(big.Int)
+			b := big.NewInt(int64(base))
+			chunk := new(big.Int)
+			// 8 digits at a time in a machine word (base ≤ 256: 256^8 = 2^64 would
+			// overflow int64, so take 7 digits for the largest bases).
+			step := 8
+			if base > 150 {
+				step = 7
+			}
+			for i := 0; i < len(d); i += step {
+				end := min(len(d), i+step)
+				var w uint64
+				for _, x := range d[i:end] {
+					w = w*uint64(base) + uint64(x)
+				}
+				v.Mul(v, new(big.Int).Exp(b, big.NewInt(int64(end-i)), nil))
+				v.Add(v, chunk.SetUint64(w))
+			}
+			return v
+		}
+		m := len(d) / 2
+		hi, lo := rec(d[:m]), rec(d[m:])
+		hi.Mul(hi, pow(len(d)-m))
+		return hi.Add(hi, lo)
+	}
+	return rec(d)
+}
+
+// Rebase returns the base-to digits that every number in the interval a
+// base-from digit string determines: the n digits d stand for every x in
+// [M, M+1]·from^-n, M = value(d), and the result is the longest common
+// prefix of the base-to expansions of the two ends. (Where an end's
+// expansion is ambiguous — x = k·to^-j — the prefix stops before it.)
+func Rebase(d []byte, from, to int) []byte {
+	n := len(d)
+	if n == 0 {
+		return []byte{}
+	}
+	M := parseDigits(d, from)
+	j := int(math.Floor(float64(n)*math.Log(float64(from))/math.Log(float64(to)))) + 2
+	den := new(big.Int).Exp(big.NewInt(int64(from)), big.NewInt(int64(n)), nil)
+	scale := new(big.Int).Exp(big.NewInt(int64(to)), big.NewInt(int64(j)), nil)
+	lo := new(big.Int).Mul(M, scale)
+	lo.Quo(lo, den)
+	hi := new(big.Int).Add(M, big.NewInt(1))
+	hi.Mul(hi, scale)
+	hi.Quo(hi, den)
+	// Both are below to^j; write them with j digits and compare.
+	a, b := toDigits(lo, j, to), toDigits(hi, j, to)
+	c := 0
+	for c < j && a[c] == b[c] {
+		c++
+	}
+	return a[:c]
+}

@@ -1,0 +1,86 @@
+package expand
+
+import (
+	"bytes"
+	"math"
+	"math/big"
+	"math/rand/v2"
+	"testing"
+)
+
+func TestParseDigitsMatchesSetString(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, base := range []int{2, 3, 10, 16, 36, 256} {
+		for _, n := range []int{1, 7, 255, 256, 257, 5000} {
+			d := make([]byte, n)
+			for i := range d {
+				d[i] = byte(rng.IntN(base))
+			}
+			got := parseDigits(d, base)
+			want := new(big.Int)
+			for _, x := range d {
+				want.Mul(want, big.NewInt(int64(base))).Add(want, big.NewInt(int64(x)))
+			}
+			if got.Cmp(want) != 0 {
+				t.Fatalf("base %d, %d digits: value differs", base, n)
+			}
+		}
+	}
+}
+
+// Rebase agrees with the digits computed directly in the target base (every
+// determined digit is right) and determines nearly all it can: n digits in
+// base A carry n·log A / log B base-B digits, less a few at the boundary.
+func TestRebaseAgreesWithDigits(t *testing.T) {
+	pi, _ := ParseSource("pi")
+	for _, c := range []struct{ from, to int }{{10, 3}, {10, 2}, {16, 10}, {3, 7}, {2, 256}, {10, 36}} {
+		d, err := pi.Digits(20_000, 0, c.from)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := Rebase(d, c.from, c.to)
+		capacity := 20_000 * math.Log(float64(c.from)) / math.Log(float64(c.to))
+		if float64(len(got)) < capacity-8 || float64(len(got)) > capacity+1 {
+			t.Errorf("%d→%d: %d digits determined, capacity %.1f", c.from, c.to, len(got), capacity)
+		}
+		want, _ := pi.Digits(len(got), 0, c.to)
+		if !bytes.Equal(got, want) {
+			t.Errorf("%d→%d: the determined digits differ from π's", c.from, c.to)
+		}
+	}
+}
+
+// Round trip 10 → 3 → 10 recovers the determined prefix of the original,
+// and never a wrong digit.
+func TestRebaseRoundTrip(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for trial := 0; trial < 50; trial++ {
+		n := 1 + rng.IntN(3000)
+		d := make([]byte, n)
+		for i := range d {
+			d[i] = byte(rng.IntN(10))
+		}
+		three := Rebase(d, 10, 3)
+		back := Rebase(three, 3, 10)
+		if !bytes.Equal(back, d[:len(back)]) {
+			t.Fatalf("trial %d: round trip changed a digit", trial)
+		}
+		// Each conversion drops the digits an end-of-interval run of 0s or
+		// (b-1)s leaves undetermined: a few, rarely more.
+		if len(back) < n-8 {
+			t.Errorf("trial %d: round trip kept %d of %d digits", trial, len(back), n)
+		}
+	}
+}
+
+// An interval that straddles a base-B boundary determines nothing there:
+// 0.5 in base 10 with one digit is [0.5, 0.6], whose binary expansions are
+// 0.1000… and 0.1001… — the first three binary digits are shared.
+func TestRebaseStopsAtBoundary(t *testing.T) {
+	if got := Rebase([]byte{5}, 10, 2); !bytes.Equal(got, []byte{1, 0, 0}) {
+		t.Errorf("0.5 → base 2: %v", got)
+	}
+	if got := Rebase([]byte{0}, 10, 10); len(got) != 0 { // [0, 0.1]: 0.0… vs 0.1
+		t.Errorf("0.0 → base 10: %v", got)
+	}
+}
