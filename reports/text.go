@@ -25,6 +25,13 @@ func Text(w io.Writer, doc Document) error {
 			return err
 		}
 	}
+	if len(doc.Results) > 1 {
+		fmt.Fprintln(bw)
+		fmt.Fprintln(bw, "Side by side")
+		if err := Summary(bw, doc); err != nil {
+			return err
+		}
+	}
 	fmt.Fprintln(bw)
 	fmt.Fprintln(bw, wrap(Caution, 100))
 	return bw.Flush()

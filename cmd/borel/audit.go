@@ -12,6 +12,7 @@ import (
 
 	"borel/reports"
 	"borel/stats/audit"
+	"borel/stats/expand"
 	"borel/stats/seq"
 )
 
@@ -53,8 +54,17 @@ func runAudit(e env, args []string) (int, error) {
 	strict := fs.Bool("strict", false, "exit with status 3 unless the verdict is consistent")
 	segments := fs.Int("segments", 0, "second level: split into this many segments and test each statistic's segment p-values for uniformity (KS, Anderson–Darling)")
 	seed := fs.Uint64("seed", 1, "seed of the randomized p-values that discrete statistics give the second level")
+	basesArg := fs.String("bases", "", "audit in each of these bases, side by side (e.g. 2,3,6,10): text input is re-expanded exactly from --from-base; raw bytes are regrouped (2,4,16,256, the default with --raw)")
+	fromBase := fs.String("from-base", "", "base of the text input when --bases re-expands it (default: --base, else 10)")
+	source := fs.String("source", "", "audit a built-in source instead of a file: "+expand.Names)
+	count := fs.Int("count", 100_000, "digits drawn from --source in each base")
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
+	}
+	if *source != "" || *basesArg != "" || (*raw && !*bits) {
+		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
+			raw: *raw, bits: *bits, count: *count, null: *null, alpha: *alpha, adjust: *adjust, maxBlock: *maxBlock,
+			memory: *memory, segments: *segments, seed: *seed, strict: *strict, out: out})
 	}
 	if fs.NArg() != 1 {
 		return 0, usagef("audit needs one input, a file or - for standard input (got %d); see borel audit --help", fs.NArg())

@@ -103,10 +103,6 @@ func runDemo(e env, args []string) (int, error) {
 		if err := reports.Text(&buf, doc); err != nil {
 			return 0, err
 		}
-		buf.WriteString("\nSummary\n")
-		if err := reports.Summary(&buf, doc); err != nil {
-			return 0, err
-		}
 		data = buf.Bytes()
 	} else {
 		var err error

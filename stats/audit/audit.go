@@ -117,6 +117,7 @@ type Plan struct {
 	Notes []string
 	opts  Options
 	seg   *segmenter
+	t     *tally.Tally
 	// OnChunk, when set, is called after each chunk with the digits and
 	// input bytes read so far (for a progress display).
 	OnChunk func(digits, bytes int64)
@@ -249,20 +250,39 @@ func validateOptions(o Options) error {
 	return nil
 }
 
-// Tally reads every digit of r into a new tally of the plan.
-func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
+// Start prepares the plan's tally (and second level) for Add.
+func (p *Plan) Start() error {
 	t, err := tally.New(p.Spec, 0)
 	if err != nil {
-		return nil, err
+		return err
 	}
-	if err := p.startSegments(); err != nil {
+	p.t = t
+	return p.startSegments()
+}
+
+// Add tallies the next digits of the sequence (after Start).
+func (p *Plan) Add(d []byte) {
+	p.t.Add(d)
+	if p.seg != nil {
+		p.seg.Add(d)
+	}
+}
+
+// Done finishes the audit of the digits added since Start.
+func (p *Plan) Done(src Source) (*Result, error) {
+	if p.t.N == 0 {
+		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
+	}
+	return p.Finish(p.t, src)
+}
+
+// Tally reads every digit of r into a new tally of the plan.
+func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
+	if err := p.Start(); err != nil {
 		return nil, err
 	}
 	for r.Scan() {
-		t.Add(r.Digits())
-		if p.seg != nil {
-			p.seg.Add(r.Digits())
-		}
+		p.Add(r.Digits())
 		if p.OnChunk != nil {
 			p.OnChunk(r.Count(), r.Offset())
 		}
@@ -270,7 +290,7 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 	if err := r.Err(); err != nil {
 		return nil, err
 	}
-	return t, nil
+	return p.t, nil
 }
 
 // Finish runs the checks on a finished tally of the whole sequence and

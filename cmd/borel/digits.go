@@ -1,0 +1,207 @@
+package main
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"math/big"
+	"os"
+	"time"
+
+	"github.com/spf13/pflag"
+
+	"borel/stats/expand"
+	"borel/stats/seq"
+)
+
+const digitsHelp = `Usage: borel digits SOURCE --count N [--base B] [--offset K] [--wrap W] [-o OUT]
+
+Writes the fractional digits of a constant, or the output of a reference generator, to standard
+output (what it did goes to standard error). Constants are computed exactly in any base 2..36
+(and 256, written as raw bytes): every printed digit is checked against the computation's error
+bound, and recomputed with more precision when it is too close to a digit boundary.
+
+Sources: pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, stoneham:B,C
+(coprime B, C ≥ 2), rational:P/Q, liouville; generators iid:p0,p1,..., pcg:SEED, chacha8:SEED and
+lcg:SEED (RANDU, deliberately weak).
+
+Example: 100 000 digits of pi in base 7, audited in base 7:
+  $ borel digits pi --base 7 --count 1000
+  ...
+  borel digits pi --base 7 --count 100000 | borel audit --base 7 -
+`
+
+func runDigits(e env, args []string) (int, error) {
+	fs := pflag.NewFlagSet("digits", pflag.ContinueOnError)
+	base := fs.String("base", "10", "base of the digits: 2..36 (text) or 256 (raw bytes)")
+	count := fs.Int("count", 0, "number of digits")
+	offset := fs.Int("offset", 0, "skip this many digits after the point first")
+	wrap := fs.Int("wrap", 0, "break lines after this many digits (0: one line)")
+	memory := fs.String("memory", "4GiB", "refuse requests that would need more memory than this")
+	output := fs.StringP("output", "o", "", "write the digits to this file (atomically) instead of standard output")
+	quiet := fs.BoolP("quiet", "q", false, "say nothing on standard error")
+	if done, err := parseFlags(fs, args, digitsHelp, e.stdout); done || err != nil {
+		return exitOK, err
+	}
+	if fs.NArg() != 1 {
+		return 0, usagef("digits needs one source (got %d); see borel digits --help", fs.NArg())
+	}
+	src, err := expand.ParseSource(fs.Arg(0))
+	if err != nil {
+		return 0, usageError{err.Error()}
+	}
+	b := 10
+	if *base == "256" {
+		b = 256
+	} else if b, err = parseBase(*base, 2, seq.MaxTextBase, "or 256 for raw bytes"); err != nil {
+		return 0, err
+	}
+	if !fs.Changed("base") && src.Base() != 0 {
+		b = src.Base()
+	}
+	if *count < 1 {
+		return 0, usagef("--count %d: give the number of digits, 1 or more", *count)
+	}
+	if *offset < 0 || *wrap < 0 {
+		return 0, usagef("--offset and --wrap must not be negative")
+	}
+	limit, err := parseSize(*memory)
+	if err != nil {
+		return 0, err
+	}
+	if need := src.MemoryEstimate(*count+*offset, b); need > float64(limit) {
+		return 0, usagef("%d digits of %s in base %d need about %s of memory, over the bound of %s; ask for fewer digits or raise --memory",
+			*count+*offset, src.Name, b, mib(need), mib(float64(limit)))
+	}
+	start := time.Now()
+	d, err := src.Digits(*count, *offset, b)
+	if err != nil {
+		return 0, err
+	}
+	var data []byte
+	if b == 256 {
+		data = d
+	} else {
+		data = formatDigits(d, *wrap)
+	}
+	if *output != "" {
+		err = writeAtomic(*output, data)
+	} else {
+		_, err = e.stdout.Write(data)
+	}
+	if err != nil {
+		return 0, err
+	}
+	if !*quiet {
+		fmt.Fprintf(e.stderr, "borel: %d digits of %s in base %d (digits %d to %d after the point) in %.2f s; %s\n",
+			len(d), src.Name, b, *offset+1, *offset+len(d), time.Since(start).Seconds(), src.Detail)
+	}
+	return exitOK, nil
+}
+
+// formatDigits writes digit values as 0-9a-z, one line or wrapped.
+func formatDigits(d []byte, wrap int) []byte {
+	const alphabet = "0123456789abcdefghijklmnopqrstuvwxyz"
+	out := make([]byte, 0, len(d)+len(d)/max(wrap, 1)+1)
+	for i, x := range d {
+		out = append(out, alphabet[x])
+		if wrap > 0 && (i+1)%wrap == 0 && i+1 < len(d) {
+			out = append(out, '\n')
+		}
+	}
+	return append(out, '\n')
+}
+
+func mib(bytes float64) string { return fmt.Sprintf("%.0f MiB", math.Ceil(bytes/(1<<20))) }
+
+const rebaseHelp = `Usage: borel rebase --from A --to B [FILE|-] [--wrap W] [-o OUT]
+
+Re-expands a digit string exactly into another base. n digits in base A fix a number only to
+within A^-n: borel prints exactly the base-B digits that every number in that interval shares
+(the common prefix of the two ends' expansions), and says on standard error how many. An integer
+part before a radix point is converted exactly and printed before the point.
+
+Example: 20 decimals of pi into base 3:
+  $ borel rebase --from 10 --to 3 testdata/pi-1e6.txt.gz
+`
+
+func runRebase(e env, args []string) (int, error) {
+	fs := pflag.NewFlagSet("rebase", pflag.ContinueOnError)
+	from := fs.String("from", "", "base of the input digits, 2..36")
+	to := fs.String("to", "", "base of the output digits, 2..36")
+	wrap := fs.Int("wrap", 0, "break lines after this many digits (0: one line)")
+	output := fs.StringP("output", "o", "", "write the digits to this file (atomically) instead of standard output")
+	quiet := fs.BoolP("quiet", "q", false, "say nothing on standard error")
+	if done, err := parseFlags(fs, args, rebaseHelp, e.stdout); done || err != nil {
+		return exitOK, err
+	}
+	if *from == "" || *to == "" {
+		return 0, usagef("rebase needs --from and --to; see borel rebase --help")
+	}
+	a, err := parseBase(*from, 2, seq.MaxTextBase, "text digits are 0-9 then a-z")
+	if err != nil {
+		return 0, usageError{"--from: " + err.Error()}
+	}
+	b, err := parseBase(*to, 2, seq.MaxTextBase, "text digits are 0-9 then a-z")
+	if err != nil {
+		return 0, usageError{"--to: " + err.Error()}
+	}
+	input := "-"
+	if fs.NArg() == 1 {
+		input = fs.Arg(0)
+	} else if fs.NArg() > 1 {
+		return 0, usagef("rebase takes one input (got %d)", fs.NArg())
+	}
+	if sameFile(input, *output) {
+		return 0, usagef("-o %s is the input file; choose another name", *output)
+	}
+	d, intPart, err := readAllDigits(e, input, a)
+	if err != nil {
+		return 0, err
+	}
+	got := expand.Rebase(d, a, b)
+	data := formatDigits(got, *wrap)
+	if intPart != "" {
+		iv, _ := new(big.Int).SetString(intPart, a)
+		data = append([]byte(iv.Text(b)+"."), data...)
+	}
+	if *output != "" {
+		err = writeAtomic(*output, data)
+	} else {
+		_, err = e.stdout.Write(data)
+	}
+	if err != nil {
+		return 0, err
+	}
+	if !*quiet {
+		fmt.Fprintf(e.stderr, "borel: %d base-%d digits determine %d base-%d digits\n", len(d), a, len(got), b)
+	}
+	return exitOK, nil
+}
+
+// readAllDigits reads a whole digit sequence (rebase needs the whole number).
+func readAllDigits(e env, input string, base int) ([]byte, string, error) {
+	var in io.Reader = e.stdin
+	name := "stdin"
+	if input != "-" {
+		f, err := os.Open(input)
+		if err != nil {
+			return nil, "", fmt.Errorf("cannot open %s: %v", input, unwrapPathError(err))
+		}
+		defer f.Close()
+		if st, err := f.Stat(); err == nil && st.IsDir() {
+			return nil, "", fmt.Errorf("%s is a directory; give a file of digits, or - for standard input", input)
+		}
+		in, name = bufio.NewReader(f), input
+	}
+	r, err := seq.NewReader(in, seq.Options{Source: name, Base: base})
+	if err != nil {
+		return nil, "", err
+	}
+	var d []byte
+	for r.Scan() {
+		d = append(d, r.Digits()...)
+	}
+	return d, r.IntegerPart(), r.Err()
+}
