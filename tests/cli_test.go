@@ -258,7 +258,7 @@ func TestPeriodicStrictAndLogP(t *testing.T) {
 func TestBitsBlocksEqualBytes(t *testing.T) {
 	data := make([]byte, 100_000)
 	rand.NewChaCha8([32]byte{9}).Read(data)
-	_, rawOut, _ := runBorel(t, data, "audit", "-", "--raw", "--format", "json")
+	_, rawOut, _ := runBorel(t, data, "audit", "-", "--raw", "--base", "256", "--format", "json")
 	_, bitsOut, _ := runBorel(t, data, "audit", "-", "--bits", "--max-block", "8", "--format", "json")
 	var byteX2, block8 float64
 	for _, f := range decode(t, rawOut).Audits[0].Findings {

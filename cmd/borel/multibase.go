@@ -290,6 +290,9 @@ func runAuditAcross(e env, fs interface {
 	case a.raw:
 		list := a.bases
 		if list == "" {
+			list = a.base // --raw --base 16: the nibbles alone
+		}
+		if list == "" {
 			list = "2,4,16,256"
 		}
 		if bases, err = parseBases(list, 256, "the regroupings of bytes are 2, 4, 16 and 256"); err != nil {

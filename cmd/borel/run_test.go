@@ -83,7 +83,7 @@ func TestBadInputs(t *testing.T) {
 		{"segments 1", "", []string{"audit", letter, "--segments", "1"}, 2, "--segments 1: give 2 or more segments"},
 		{"segments too many", "", []string{"audit", letter, "--segments", "50"}, 2, "--segments 50 needs at least 50000 digits"},
 		{"raw and bits", "", []string{"audit", letter, "--raw", "--bits"}, 2, "--raw and --bits exclude each other"},
-		{"raw with base", "", []string{"audit", letter, "--raw", "--base", "16"}, 2, "--raw reads bytes as base-256 digits"},
+		{"raw with base", "", []string{"audit", letter, "--raw", "--base", "10"}, 2, "a byte stream regroups exactly into bases 2, 4, 16 and 256"},
 		{"no input", "", []string{"audit"}, 2, "audit needs one input"},
 		{"two inputs", "", []string{"audit", letter, big}, 2, "audit needs one input"},
 		{"unknown flag", "", []string{"audit", letter, "--colour"}, 2, "unknown flag: --colour"},
