@@ -19,13 +19,17 @@ import (
 const auditHelp = `Usage: borel audit FILE|- [options]
 
 Reads a digit sequence from FILE (gzip-compressed or not) or from standard input (-),
-runs the battery (freq, blocks, serial, gap, entropy) against the null, adjusts the
-p-values of every finding in both tails, and gives the verdict: consistent,
-not consistent, or too uniform.
+runs the battery (freq, blocks, serial, gap, poker, coupon, updown, lagcorr, maxrun, drift,
+entropy) against the null, adjusts the p-values of every finding in both tails, and gives
+the verdict: consistent, not consistent, or too uniform.
 
 Text input holds digits 0-9 then a-z (either case) in base 2..36; whitespace is ignored;
-an integer part and radix point may open it ("3.14159...") and are dropped.
---raw reads bytes as base-256 digits, --bits as bits (most significant first).
+an integer part and radix point may open it ("3.14159...") and are dropped. --bits reads
+bytes as bits (most significant first); --raw reads bytes and audits them as bits, bit
+pairs, nibbles and bytes side by side (--base 256 for bytes alone).
+
+Across bases: --bases re-expands a text file exactly from --from-base into each base, and
+--source audits a constant or generator made by borel (see borel digits --help).
 
 Example: the first million decimals of pi, against the uniform null:
   $ borel audit testdata/pi-1e6.txt.gz
@@ -34,6 +38,9 @@ Example: the first million decimals of pi, against the uniform null:
 
 Second level: 20 segments, each statistic's 20 p-values tested for uniformity:
   $ borel audit testdata/pi-1e6.txt.gz --segments 20
+
+One number in several bases, side by side:
+  $ borel audit --source stoneham:2,3 --count 30000 --bases 2,3,6,10
 
 Against a stated digit-frequency vector, with a JSON report written atomically:
   $ borel audit lab.txt --base 3 --null 0.2,0.3,0.5 --format json -o lab.json
@@ -61,7 +68,7 @@ func runAudit(e env, args []string) (int, error) {
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
-	if *source != "" || *basesArg != "" || (*raw && !*bits) {
+	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
 		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
 			raw: *raw, bits: *bits, count: *count, null: *null, alpha: *alpha, adjust: *adjust, maxBlock: *maxBlock,
 			memory: *memory, segments: *segments, seed: *seed, strict: *strict, out: out})
@@ -75,11 +82,6 @@ func runAudit(e env, args []string) (int, error) {
 	switch {
 	case *raw && *bits:
 		return 0, usagef("--raw and --bits exclude each other: bytes are read either as base-256 digits or as bits")
-	case *raw:
-		opt.Format, opt.Base = seq.Raw, 256
-		if *base != "" && *base != "256" {
-			return 0, usagef("--raw reads bytes as base-256 digits; for bits use --bits instead of --base %s", *base)
-		}
 	case *bits:
 		opt.Format, opt.Base = seq.Bits, 2
 		if *base != "" && *base != "2" {

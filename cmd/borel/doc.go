@@ -25,6 +25,13 @@
 //
 //	$ borel audit testdata/pi-1e6.txt.gz --strict
 //
+// Digits of constants in any base, exact re-expansion, and one number
+// audited across bases side by side:
+//
+//	$ borel digits pi --base 7 --count 100
+//	$ borel rebase --from 10 --to 3 testdata/pi-1e6.txt.gz -q
+//	$ borel audit --source pi --count 20000 --bases 2,3,10,16
+//
 // The Hausdorff dimension of the numbers with given digit frequencies
 // (Besicovitch–Eggleston):
 //

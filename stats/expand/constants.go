@@ -29,8 +29,7 @@ func piFixed(prec uint) (*big.Int, int64) {
 	r := binarySplit(term, 0, terms, 0)
 	// π = 426880 √10005 Q / T, all scaled by 2^prec.
 	wide := prec + 32
-	sqrt := new(big.Int).Lsh(big.NewInt(10005), 2*wide)
-	sqrt.Sqrt(sqrt) // floor(√10005 · 2^wide), exact floor
+	sqrt := isqrt(new(big.Int).Lsh(big.NewInt(10005), 2*wide)) // floor(√10005 · 2^wide)
 	num := new(big.Int).Mul(sqrt, r.Q)
 	num.Mul(num, big.NewInt(426880))
 	v := num.Quo(num, r.T) // ≈ π·2^wide, |error| ≤ a few units of 2^-wide
@@ -86,8 +85,7 @@ func ln2Fixed(prec uint) (*big.Int, int64) {
 // sqrtFixed: frac(√n), exact: floor(√n·2^prec) = isqrt(n·4^prec).
 func sqrtFixed(n int64) fixedFunc {
 	return func(prec uint) (*big.Int, int64) {
-		v := new(big.Int).Lsh(big.NewInt(n), 2*prec)
-		v.Sqrt(v)
+		v := isqrt(new(big.Int).Lsh(big.NewInt(n), 2*prec))
 		ip := new(big.Int).Sqrt(big.NewInt(n))
 		return v.Sub(v, ip.Lsh(ip, prec)), 0
 	}
@@ -95,8 +93,7 @@ func sqrtFixed(n int64) fixedFunc {
 
 // phiFixed: frac(φ) = (√5 - 1)/2, exact.
 func phiFixed(prec uint) (*big.Int, int64) {
-	v := new(big.Int).Lsh(big.NewInt(5), 2*prec)
-	v.Sqrt(v) // floor(√5 · 2^prec)
+	v := isqrt(new(big.Int).Lsh(big.NewInt(5), 2*prec)) // floor(√5 · 2^prec)
 	v.Sub(v, new(big.Int).Lsh(one, prec))
 	return v.Rsh(v, 1), 1 // floor((√5 - 1)/2 · 2^prec), off by at most 1 unit
 }

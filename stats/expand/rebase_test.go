@@ -84,3 +84,26 @@ func TestRebaseStopsAtBoundary(t *testing.T) {
 		t.Errorf("0.0 → base 10: %v", got)
 	}
 }
+
+// isqrt is the exact floor of the square root: r² ≤ n < (r+1)², checked
+// against big.Int.Sqrt on random numbers of many sizes.
+func TestIsqrt(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 9))
+	for trial := 0; trial < 300; trial++ {
+		bits := 1 + rng.IntN(20000)
+		n := new(big.Int)
+		for i := 0; i < bits; i += 32 {
+			n.Lsh(n, 32).Or(n, big.NewInt(int64(rng.Uint32())))
+		}
+		if trial%7 == 0 { // perfect squares and neighbours
+			n.Mul(n, n)
+			n.Add(n, big.NewInt(int64(rng.IntN(3))-1))
+			if n.Sign() < 0 {
+				n.SetInt64(0)
+			}
+		}
+		if got, want := isqrt(n), new(big.Int).Sqrt(n); got.Cmp(want) != 0 {
+			t.Fatalf("isqrt of a %d-bit number differs", n.BitLen())
+		}
+	}
+}
