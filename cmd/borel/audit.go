@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime"
 
 	"github.com/spf13/pflag"
 
@@ -65,6 +66,7 @@ func runAudit(e env, args []string) (int, error) {
 	fromBase := fs.String("from-base", "", "base of the text input when --bases re-expands it (default: --base, else 10)")
 	source := fs.String("source", "", "audit a built-in source instead of a file: "+expand.Names)
 	count := fs.Int("count", 100_000, "digits drawn from --source in each base")
+	workers := fs.Int("workers", runtime.GOMAXPROCS(0), "goroutines for the pass (the findings are the same for any number)")
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
@@ -115,6 +117,10 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", *segments)
 	}
 	opts.Segments, opts.Seed = *segments, *seed
+	if *workers < 1 {
+		return 0, usagef("--workers %d: give 1 or more", *workers)
+	}
+	opts.Workers = *workers
 	if err := out.check(input); err != nil {
 		return 0, err
 	}

@@ -8,6 +8,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"runtime"
 
 	"borel/stats"
 	"borel/stats/checks"
@@ -50,12 +51,14 @@ type Options struct {
 	Null        NullSpec
 	Segments    int    // second level: number of segments, 0 for none
 	Seed        uint64 // seed of the randomized p-values of discrete statistics
+	Workers     int    // goroutines of the pass (results do not depend on it)
 }
 
 // DefaultOptions returns alpha 0.01, Holm, automatic K, 256 MiB, minimum
 // expected count 5, uniform null.
 func DefaultOptions() Options {
-	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5, Seed: 1}
+	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5, Seed: 1,
+		Workers: runtime.GOMAXPROCS(0)}
 }
 
 // Source describes where a sequence came from, for the report.
@@ -118,6 +121,7 @@ type Plan struct {
 	opts  Options
 	seg   *segmenter
 	t     *tally.Tally
+	run   *tally.Runner
 	// OnChunk, when set, is called after each chunk with the digits and
 	// input bytes read so far (for a progress display).
 	OnChunk func(digits, bytes int64)
@@ -257,12 +261,13 @@ func (p *Plan) Start() error {
 		return err
 	}
 	p.t = t
+	p.run = tally.NewRunner(t, p.opts.Workers)
 	return p.startSegments()
 }
 
 // Add tallies the next digits of the sequence (after Start).
 func (p *Plan) Add(d []byte) {
-	p.t.Add(d)
+	p.run.Add(d)
 	if p.seg != nil {
 		p.seg.Add(d)
 	}

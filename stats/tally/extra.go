@@ -97,27 +97,6 @@ func udValue(w []byte, base int) uint64 {
 	return v
 }
 
-func (t *Tally) addExtras(d []byte) {
-	s := t.Spec
-	pos0 := t.Offset + t.N
-	if s.PokerHand > 0 {
-		forWindows(t.Tail, d, pos0, s.PokerHand, s.PokerHand, t.countHand)
-	}
-	if L := s.UpDownDigits; L > 0 {
-		forWindows(t.Tail, d, pos0, L, L, t.countValue)
-		forWindows(t.Tail, d, pos0, L, 2*L, t.countTie)
-		forWindows(t.Tail, d, pos0, L, 3*L, t.countTurn)
-	}
-	if s.Lags > 0 {
-		t.addLags(d)
-	}
-	t.addRuns(d)
-	t.addWalk(d)
-	if s.CouponClasses > 0 {
-		t.addCoupon(d, pos0)
-	}
-}
-
 func (t *Tally) countHand(w []byte)  { t.Poker[distinct(w)]++ }
 func (t *Tally) countValue(w []byte) { t.UDValues++ }
 

@@ -182,14 +182,9 @@ func (t *Tally) Add(d []byte) {
 	if len(d) == 0 {
 		return
 	}
-	t.addTrace(d, t.Offset+t.N)
-	t.addDigits(d)
-	t.addOverlap(d)
-	for k := 2; k <= t.MaxBlock; k++ {
-		t.addBlocks(k, d)
+	for _, k := range t.kernels() {
+		k.run(d)
 	}
-	t.addGaps(d)
-	t.addExtras(d)
 	t.advance(d)
 }
 

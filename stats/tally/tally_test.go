@@ -323,3 +323,26 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 		}
 	}
 }
+
+// The parallel runner gives the same tally, bit for bit, as one goroutine,
+// for 1, 2, 3 and 8 workers.
+func TestRunnerIdenticalForAnyWorkers(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	for trial := 0; trial < 20; trial++ {
+		base := 2 + rng.IntN(15)
+		spec := randomSpec(rng, base, 1+rng.IntN(4))
+		d := randomDigits(rng, 20_000+rng.IntN(20_000), base)
+		want := mustNew(t, spec, 0)
+		want.Add(d)
+		for _, w := range []int{1, 2, 3, 8} {
+			got := mustNew(t, spec, 0)
+			r := NewRunner(got, w)
+			for i := 0; i < len(d); i += 4096 {
+				r.Add(d[i:min(len(d), i+4096)])
+			}
+			if !reflect.DeepEqual(got, want) {
+				t.Fatalf("trial %d: %d workers give a different tally", trial, w)
+			}
+		}
+	}
+}
