@@ -46,6 +46,8 @@ func subcommands() []subcommand {
 		{"demo", "run the built-in scenario: a whole audit in seconds", runDemo},
 		{"digits", "write digits of a constant or a reference generator in any base", runDigits},
 		{"rebase", "re-expand a digit string exactly into another base", runRebase},
+		{"tally", "tally one stretch of a long sequence into a shard (for merge)", runTally},
+		{"merge", "join shards in offset order and audit the whole", runMerge},
 		{"compare", "audit several sequences and put them side by side", runCompare},
 		{"dimension", "print the Besicovitch–Eggleston dimension of a frequency vector", runDimension},
 	}
@@ -101,7 +103,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			return code
 		}
 	}
-	fmt.Fprintf(stderr, "borel: unknown command %q; the commands are audit, compare, demo, digits, dimension and rebase (borel --help)\n", args[0])
+	fmt.Fprintf(stderr, "borel: unknown command %q; the commands are audit, compare, demo, digits, dimension, merge, rebase and tally (borel --help)\n", args[0])
 	return exitUsage
 }
 

@@ -212,8 +212,11 @@ func TestHelpExamplesRun(t *testing.T) {
 			}
 			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
 			for i, a := range args { // examples name files in the working folder
-				if a == "lab.txt" || a == "lab.json" {
+				switch a {
+				case "lab.txt", "lab.json":
 					args[i] = filepath.Join(tmp, a)
+				case "/tmp/borel-part0.shard":
+					args[i] = filepath.Join(tmp, "part0.shard")
 				}
 			}
 			if code, _, errs := borel(t, "", args...); code != 0 {

@@ -255,8 +255,16 @@ func validateOptions(o Options) error {
 }
 
 // Start prepares the plan's tally (and second level) for Add.
-func (p *Plan) Start() error {
-	t, err := tally.New(p.Spec, 0)
+func (p *Plan) Start() error { return p.StartAt(0) }
+
+// StartAt prepares a tally of a stretch that begins at global digit
+// position offset (a shard); the second level needs the whole sequence and
+// is refused for a shard.
+func (p *Plan) StartAt(offset int64) error {
+	if offset > 0 && p.opts.Segments > 0 {
+		return fmt.Errorf("the second level (--segments) needs the whole sequence, not a shard")
+	}
+	t, err := tally.New(p.Spec, offset)
 	if err != nil {
 		return err
 	}
@@ -271,6 +279,18 @@ func (p *Plan) Add(d []byte) {
 	if p.seg != nil {
 		p.seg.Add(d)
 	}
+}
+
+// Tallied returns the tally of the digits added since Start.
+func (p *Plan) Tallied() *tally.Tally { return p.t }
+
+// PlanForSpec returns the plan of a tally made elsewhere (merged shards),
+// for Finish.
+func PlanForSpec(spec tally.Spec, opts Options) (*Plan, error) {
+	if err := validateOptions(opts); err != nil {
+		return nil, err
+	}
+	return &Plan{Spec: spec, opts: opts}, nil
 }
 
 // Done finishes the audit of the digits added since Start.

@@ -1,10 +1,12 @@
 package tally
 
 import (
+	"bytes"
 	"math"
 	"math/rand/v2"
 	"reflect"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -343,6 +345,38 @@ func TestRunnerIdenticalForAnyWorkers(t *testing.T) {
 			if !reflect.DeepEqual(got, want) {
 				t.Fatalf("trial %d: %d workers give a different tally", trial, w)
 			}
+		}
+	}
+}
+
+// A shard written and read back is the same tally; damage is reported.
+func TestShardRoundTripAndDamage(t *testing.T) {
+	rng := rand.New(rand.NewPCG(12, 13))
+	spec := randomSpec(rng, 10, 3)
+	tl := mustNew(t, spec, 1234)
+	tl.Add(randomDigits(rng, 5000, 10))
+	var buf bytes.Buffer
+	if err := WriteShard(&buf, &Shard{Null: ShardNull{Kind: "uniform"}, Tally: tl}); err != nil {
+		t.Fatal(err)
+	}
+	good := buf.Bytes()
+	s, err := ReadShard(bytes.NewReader(good), "s1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(s.Tally, tl) {
+		t.Error("the shard's tally differs after the round trip")
+	}
+	damaged := append([]byte(nil), good...)
+	damaged[len(damaged)-10] ^= 0x40
+	future := []byte(strings.Replace(string(good), "borel-tally 1 ", "borel-tally 2 ", 1))
+	cases := map[string][]byte{
+		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 2 was written by a newer borel": future,
+		"not a borel shard": []byte("hello\nworld"),
+	}
+	for want, data := range cases {
+		if _, err := ReadShard(bytes.NewReader(data), "s1"); err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("%s: err %v", want, err)
 		}
 	}
 }

@@ -1,0 +1,114 @@
+package tests
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// findingsOf returns the findings array of a JSON report, as raw JSON, for
+// a bit-for-bit comparison.
+func findingsOf(t *testing.T, report []byte) string {
+	t.Helper()
+	var doc struct {
+		Audits []struct {
+			Findings json.RawMessage `json:"findings"`
+			Verdict  string          `json:"verdict"`
+			Digits   int64           `json:"digits"`
+		} `json:"audits"`
+	}
+	if err := json.Unmarshal(report, &doc); err != nil || len(doc.Audits) != 1 {
+		t.Fatalf("report: %v", err)
+	}
+	return string(doc.Audits[0].Findings)
+}
+
+// shardsOf cuts the digits at the given positions, tallies each piece with
+// its global offset, and returns the shard files.
+func shardsOf(t *testing.T, digits []byte, cuts []int, extra ...string) []string {
+	t.Helper()
+	dir := t.TempDir()
+	var files []string
+	bounds := append(append([]int{0}, cuts...), len(digits))
+	for i := 0; i+1 < len(bounds); i++ {
+		name := filepath.Join(dir, "part"+strconv.Itoa(i)+".shard")
+		args := append([]string{"tally", "-", "--offset", strconv.Itoa(bounds[i]), "--max-block", "3", "-o", name}, extra...)
+		if code, _, errs := runBorel(t, digits[bounds[i]:bounds[i+1]], args...); code != 0 {
+			t.Fatalf("tally %d: exit %d: %s", i, code, errs)
+		}
+		files = append(files, name)
+	}
+	return files
+}
+
+// Merged shards give the same findings, bit for bit, as one audit of the
+// whole input: 1, 2 and 7 shards, cut at odd places, given out of order.
+func TestShardsMergeLikeOneAudit(t *testing.T) {
+	digits := smallInput(t)[2:] // 20 000 decimals of π, without "3."
+	_, whole, errs := runBorel(t, digits, "audit", "-", "--max-block", "3", "--format", "json")
+	want := findingsOf(t, whole)
+	if want == "" {
+		t.Fatalf("no findings: %s", errs)
+	}
+	for _, cuts := range [][]int{nil, {9_999}, {1, 2_718, 2_719, 6_000, 11_113, 17_777}} {
+		files := shardsOf(t, digits, cuts)
+		for i, j := 0, len(files)-1; i < j; i, j = i+1, j-1 { // reversed order
+			files[i], files[j] = files[j], files[i]
+		}
+		code, merged, errs := runBorel(t, nil, append([]string{"merge", "--format", "json"}, files...)...)
+		if code != 0 {
+			t.Fatalf("%d shards: exit %d: %s", len(files), code, errs)
+		}
+		if got := findingsOf(t, merged); got != want {
+			t.Errorf("%d shards: findings differ from one audit of the whole", len(files))
+		}
+	}
+}
+
+func TestShardErrors(t *testing.T) {
+	digits := smallInput(t)[2:]
+	files := shardsOf(t, digits, []int{5_000, 12_000})
+	run := func(args ...string) (int, string) {
+		code, _, errs := runBorel(t, nil, append([]string{"merge"}, args...)...)
+		return code, string(errs)
+	}
+	if code, errs := run(files[0], files[2]); code != 1 || !strings.Contains(errs, "digits 5000 to 11999 are in no shard") {
+		t.Errorf("missing middle shard: exit %d %s", code, errs)
+	}
+	if code, errs := run(files[1], files[2]); code != 1 || !strings.Contains(errs, "no shard starts at digit 0") {
+		t.Errorf("missing first shard: exit %d %s", code, errs)
+	}
+	dup := filepath.Join(t.TempDir(), "dup.shard")
+	runBorel(t, digits[4_000:8_000], "tally", "-", "--offset", "4000", "--max-block", "3", "-o", dup)
+	if code, errs := run(files[0], dup, files[1], files[2]); code != 1 || !strings.Contains(errs, "overlaps the shards before it: digits 4000 to 4999") {
+		t.Errorf("overlap: exit %d %s", code, errs)
+	}
+	other := filepath.Join(t.TempDir(), "other.shard")
+	runBorel(t, digits[5_000:12_000], "tally", "-", "--offset", "5000", "--max-block", "3", "--base", "16", "-o", other)
+	if code, errs := run(files[0], other, files[2]); code != 1 || !strings.Contains(errs, "base 16") {
+		t.Errorf("base mismatch: exit %d %s", code, errs)
+	}
+	data, _ := os.ReadFile(files[1])
+	bad := filepath.Join(t.TempDir(), "bad.shard")
+	corrupt := bytes.Clone(data)
+	corrupt[len(corrupt)-5] ^= 1
+	os.WriteFile(bad, corrupt, 0o644)
+	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "corrupted") {
+		t.Errorf("corrupted: exit %d %s", code, errs)
+	}
+	os.WriteFile(bad, data[:len(data)/2], 0o644)
+	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "truncated") {
+		t.Errorf("truncated: exit %d %s", code, errs)
+	}
+	os.WriteFile(bad, bytes.Replace(data, []byte("borel-tally 1 "), []byte("borel-tally 9 "), 1), 0o644)
+	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "newer borel") {
+		t.Errorf("future version: exit %d %s", code, errs)
+	}
+	if code, _, errs := runBorel(t, digits, "tally", "-", "--offset", "0", "-o", bad); code != 2 || !strings.Contains(string(errs), "--max-block K, the same for every shard") {
+		t.Errorf("tally without --max-block: exit %d %s", code, errs)
+	}
+}
