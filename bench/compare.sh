@@ -1,0 +1,35 @@
+#!/usr/bin/env bash
+# Times the full default battery against the numpy + scipy reference on the same machine and
+# prints the ratios (issue: throughput and scale).
+#
+# usage: bench/compare.sh [N]     N random decimal digits (default 100000000)
+#
+# The reference is ../shared/bench/reference.py (digit frequencies, chi-square, overlapping
+# pairs and one gap histogram), run with Debian's /usr/bin/python3 when it has numpy and scipy,
+# with OPENBLAS_CORETYPE and OPENBLAS_L2_SIZE unset for this command only.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+N=${1:-100000000}
+out=$(mktemp -d)
+trap 'rm -rf "$out"' EXIT
+go build -o "$out/borel" ./cmd/borel
+"$out/borel" digits chacha8:2026 --count "$N" -q -o "$out/digits.nl"
+tr -d '\n' < "$out/digits.nl" > "$out/digits.txt"
+
+secs() { local t0 t1; t0=$(date +%s.%N); "$@" > /dev/null; t1=$(date +%s.%N); echo "$t1 - $t0" | bc -l; }
+ratio() { echo "scale=2; $1 / $2" | bc -l; }
+
+one=$(secs "$out/borel" audit "$out/digits.txt" --workers 1 -q)
+two=$(secs "$out/borel" audit "$out/digits.txt" --workers 2 -q)
+printf 'borel audit, %d digits, full default battery: 1 worker %.2f s, 2 workers %.2f s (speed-up %s)\n' \
+  "$N" "$one" "$two" "$(ratio "$one" "$two")"
+/usr/bin/time -f 'borel peak resident memory: %M KB' "$out/borel" audit "$out/digits.txt" -q > /dev/null
+
+ref=../shared/bench/reference.py
+if [ -f "$ref" ] && /usr/bin/python3 -c 'import numpy, scipy' 2>/dev/null; then
+  r=$(env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE /usr/bin/python3 "$ref" "$out/digits.txt" "$N" |
+      /usr/bin/python3 -c 'import json,sys; print(json.load(sys.stdin)["whole_sec"])')
+  printf 'numpy + scipy reference: %.2f s   reference/borel (2 workers) = %s\n' "$r" "$(ratio "$r" "$two")"
+else
+  echo "numpy + scipy (or $ref) not available: reference skipped"
+fi
