@@ -149,6 +149,7 @@ func runAudit(e env, args []string) (int, error) {
 	}
 	prog := newProgress(e, out.quiet, src.Bytes)
 	plan.OnChunk = func(digits, _ int64) { prog.update(digits, r.Offset()) }
+	plan.Stop = interrupted.Load
 	t, err := plan.Tally(r)
 	prog.done()
 	if err != nil {
@@ -157,6 +158,9 @@ func runAudit(e env, args []string) (int, error) {
 	src.Compressed = r.Compressed()
 	src.IntegerPart = r.IntegerPart()
 	src.SHA256 = hex.EncodeToString(hash.Sum(nil))
+	if err := checkUnchanged(input, src, r.Offset()); err != nil {
+		return 0, err
+	}
 	res, err := plan.Finish(t, src)
 	if err != nil {
 		return 0, err
@@ -215,4 +219,20 @@ func unwrapPathError(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// checkUnchanged refuses a report on a regular file that shrank while it
+// was read: the digits audited would not be the file's.
+func checkUnchanged(input string, src audit.Source, read int64) error {
+	if input == "-" || src.Bytes < 0 || src.Compressed {
+		return nil
+	}
+	st, err := os.Stat(input)
+	if err != nil {
+		return fmt.Errorf("%s disappeared while being read; nothing was audited", input)
+	}
+	if read < src.Bytes || st.Size() < src.Bytes {
+		return fmt.Errorf("%s shrank while being read (from %d to %d bytes); nothing was audited: audit a file that is not being written", input, src.Bytes, st.Size())
+	}
+	return nil
 }

@@ -195,6 +195,8 @@ func writeAtomic(path string, data []byte) error {
 		return fmt.Errorf("cannot write %s: %v", path, unwrapPathError(err))
 	}
 	name := tmp.Name()
+	tempFiles.Store(name, true)
+	defer tempFiles.Delete(name)
 	fail := func(err error) error {
 		tmp.Close()
 		os.Remove(name)
@@ -221,6 +223,9 @@ func writeAtomic(path string, data []byte) error {
 	if err := os.Chmod(name, mode); err != nil {
 		os.Remove(name)
 		return fmt.Errorf("cannot write %s: %v", path, err)
+	}
+	if interrupted.Load() {
+		return fail(errInterrupted{})
 	}
 	if err := os.Rename(name, path); err != nil {
 		os.Remove(name)

@@ -92,6 +92,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	for _, c := range subcommands() {
 		if c.name == args[0] {
 			code, err := c.run(e, args[1:])
+			if interrupted.Load() {
+				fmt.Fprintln(stderr, "borel: interrupted; nothing was written")
+				return exitInterrupted
+			}
 			if err != nil {
 				fmt.Fprintf(stderr, "borel: %s\n", oneLine(err.Error()))
 				var ue usageError

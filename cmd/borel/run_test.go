@@ -10,6 +10,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"borel/stats/audit"
 )
 
 // borel runs the command in-process and returns exit status, stdout, stderr.
@@ -347,5 +349,21 @@ func TestFailedWriteKeepsDocument(t *testing.T) {
 		if strings.HasPrefix(e.Name(), ".borel-") {
 			t.Errorf("temporary file left: %s", e.Name())
 		}
+	}
+}
+
+// A file that shrinks while it is read gets an error, not a report.
+func TestShrinkingFile(t *testing.T) {
+	p := writeFile(t, "digits.txt", bytes.Repeat([]byte("0123456789"), 1000))
+	src := audit.Source{Name: p, Kind: "file", Bytes: 10_000}
+	if err := checkUnchanged(p, src, 10_000); err != nil {
+		t.Errorf("unchanged file refused: %v", err)
+	}
+	os.Truncate(p, 4_000)
+	if err := checkUnchanged(p, src, 10_000); err == nil || !strings.Contains(err.Error(), "shrank while being read (from 10000 to 4000 bytes)") {
+		t.Errorf("shrunk file: %v", err)
+	}
+	if err := checkUnchanged(p, src, 4_000); err == nil {
+		t.Error("a short read of the file was accepted")
 	}
 }

@@ -125,6 +125,8 @@ type Plan struct {
 	// OnChunk, when set, is called after each chunk with the digits and
 	// input bytes read so far (for a progress display).
 	OnChunk func(digits, bytes int64)
+	// Stop, when set and true after a chunk, ends the pass with ErrStopped.
+	Stop func() bool
 }
 
 // unknownLengthCells caps the tables when the input length is not known in
@@ -301,6 +303,9 @@ func (p *Plan) Done(src Source) (*Result, error) {
 	return p.Finish(p.t, src)
 }
 
+// ErrStopped ends a pass that Plan.Stop asked to stop.
+var ErrStopped = fmt.Errorf("the pass was stopped")
+
 // Tally reads every digit of r into a new tally of the plan.
 func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 	if err := p.Start(); err != nil {
@@ -310,6 +315,9 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 		p.Add(r.Digits())
 		if p.OnChunk != nil {
 			p.OnChunk(r.Count(), r.Offset())
+		}
+		if p.Stop != nil && p.Stop() {
+			return nil, ErrStopped
 		}
 	}
 	if err := r.Err(); err != nil {

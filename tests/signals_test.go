@@ -1,0 +1,73 @@
+package tests
+
+import (
+	"bytes"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+)
+
+// SIGINT stops a long pass promptly (well under a second) with status 130,
+// writes no report and leaves no temporary file.
+func TestInterruptStopsPromptly(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "digits.txt")
+	os.WriteFile(in, bytes.Repeat([]byte("31415926535897932384626433832795"), 3_000_000), 0o644) // 96 MB
+	report := filepath.Join(dir, "report.txt")
+	cmd := exec.Command(borelBin, "audit", in, "-o", report)
+	var errb bytes.Buffer
+	cmd.Stderr = &errb
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(300 * time.Millisecond)
+	sent := time.Now()
+	cmd.Process.Signal(syscall.SIGINT)
+	err := cmd.Wait()
+	took := time.Since(sent)
+	ee, ok := err.(*exec.ExitError)
+	if !ok || ee.ExitCode() != 130 {
+		t.Fatalf("exit %v, want status 130 (%s)", err, errb.String())
+	}
+	if took > time.Second {
+		t.Errorf("stopped %v after SIGINT, want under a second", took)
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if e.Name() != "digits.txt" {
+			t.Errorf("left behind: %s", e.Name())
+		}
+	}
+	if !strings.Contains(errb.String(), "interrupted") {
+		t.Errorf("stderr %q", errb.String())
+	}
+}
+
+// A run blocked on standard input is stopped too.
+func TestInterruptWhileBlockedOnStdin(t *testing.T) {
+	cmd := exec.Command(borelBin, "audit", "-")
+	pr, pw, _ := os.Pipe()
+	defer pw.Close()
+	cmd.Stdin = pr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	pw.Write([]byte("0123456789"))
+	time.Sleep(200 * time.Millisecond)
+	cmd.Process.Signal(syscall.SIGTERM)
+	done := make(chan error, 1)
+	go func() { done <- cmd.Wait() }()
+	select {
+	case err := <-done:
+		if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != 130 {
+			t.Errorf("exit %v, want 130", err)
+		}
+	case <-time.After(3 * time.Second):
+		cmd.Process.Kill()
+		t.Fatal("borel did not stop within 3 s of SIGTERM")
+	}
+}
