@@ -94,10 +94,11 @@ func parseSize(s string) (int64, error) {
 		}
 	}
 	v, err := strconv.ParseFloat(t, 64)
-	if err != nil || !(v > 0) || math.IsInf(v, 0) {
-		return 0, usagef("--memory %q: give a size such as 256MiB or 2GiB", s)
+	bytes := v * float64(mult)
+	if err != nil || !(bytes >= 1) || bytes > 1<<60 {
+		return 0, usagef("--memory %q: give a size from 1 byte to 1 EiB, such as 256MiB or 2GiB", s)
 	}
-	return int64(v * float64(mult)), nil
+	return int64(bytes), nil
 }
 
 // parseAdjust reads --adjust.

@@ -90,7 +90,8 @@ func TestBadInputs(t *testing.T) {
 		{"two inputs", "", []string{"audit", letter, big}, 2, "audit needs one input"},
 		{"unknown flag", "", []string{"audit", letter, "--colour"}, 2, "unknown flag: --colour"},
 		{"unknown command", "", []string{"audti"}, 2, `unknown command "audti"`},
-		{"memory", "", []string{"audit", letter, "--memory", "lots"}, 2, `--memory "lots": give a size such as 256MiB`},
+		{"memory", "", []string{"audit", letter, "--memory", "lots"}, 2, `--memory "lots": give a size from 1 byte to 1 EiB`},
+		{"memory tiny", "", []string{"audit", letter, "--memory", ".1"}, 2, `--memory ".1": give a size from 1 byte`}, // found by FuzzOptionParsers
 		{"adjust", "", []string{"audit", letter, "--adjust", "bonferroni"}, 2, `--adjust "bonferroni": use holm`},
 	}
 	for _, c := range cases {
