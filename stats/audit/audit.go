@@ -344,6 +344,15 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	default:
 		res.Null = checks.UniformNull(t.Base)
 	}
+	if res.Null.Symbols() < 2 {
+		// A fitted vector with one digit: an i.i.d. model reproduces a
+		// constant sequence exactly and leaves no degree of freedom to test.
+		res.Skips = append(res.Skips, checks.Skip{Check: "all checks",
+			Reason: "the fitted vector gives one digit all the probability: an i.i.d. model fits a constant sequence exactly, so nothing can be tested; audit against --null uniform or a vector"})
+		res.Findings, res.Verdict = []Finding{}, Consistent
+		res.Notes = append(res.Notes, "the sequence uses a single digit")
+		return res, nil
+	}
 	K := p.Spec.MaxBlock
 	valid := validBlock(float64(t.N), res.Null.MinProb(), opts.MinExpected)
 	if p.Auto {

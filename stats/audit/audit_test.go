@@ -3,6 +3,7 @@ package audit
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"borel/stats/checks"
@@ -285,5 +286,20 @@ func TestBothAdjustments(t *testing.T) {
 	}
 	if nb < nh {
 		t.Errorf("BH marks %d findings, Holm %d", nb, nh)
+	}
+}
+
+// A constant sequence: under the uniform null every check deviates; under a
+// fitted null nothing can be tested, and the audit says so instead of failing.
+func TestConstantSequence(t *testing.T) {
+	d := make([]byte, 5000)
+	if r := auditOf(t, d, 10, DefaultOptions()); r.Verdict != NotConsistent {
+		t.Errorf("uniform: %q", r.Verdict)
+	}
+	fit := DefaultOptions()
+	fit.Null = NullSpec{Kind: checks.Fitted}
+	r := auditOf(t, d, 10, fit)
+	if len(r.Findings) != 0 || len(r.Skips) != 1 || !strings.Contains(r.Skips[0].Reason, "nothing can be tested") {
+		t.Errorf("fitted: %d findings, skips %+v", len(r.Findings), r.Skips)
 	}
 }
