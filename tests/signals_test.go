@@ -12,12 +12,14 @@ import (
 )
 
 // SIGINT stops a long pass promptly (well under a second) with status 130,
-// writes no report and leaves no temporary file.
+// leaves the earlier report as it was and no temporary file.
 func TestInterruptStopsPromptly(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "digits.txt")
 	os.WriteFile(in, bytes.Repeat([]byte("31415926535897932384626433832795"), 3_000_000), 0o644) // 96 MB
 	report := filepath.Join(dir, "report.txt")
+	earlier := []byte("an earlier report the user keeps\n")
+	os.WriteFile(report, earlier, 0o644)
 	cmd := exec.Command(borelBin, "audit", in, "-o", report)
 	var errb bytes.Buffer
 	cmd.Stderr = &errb
@@ -38,9 +40,12 @@ func TestInterruptStopsPromptly(t *testing.T) {
 	}
 	entries, _ := os.ReadDir(dir)
 	for _, e := range entries {
-		if e.Name() != "digits.txt" {
+		if e.Name() != "digits.txt" && e.Name() != "report.txt" {
 			t.Errorf("left behind: %s", e.Name())
 		}
+	}
+	if now, _ := os.ReadFile(report); !bytes.Equal(now, earlier) {
+		t.Errorf("the earlier report changed: %q", now)
 	}
 	if !strings.Contains(errb.String(), "interrupted") {
 		t.Errorf("stderr %q", errb.String())
