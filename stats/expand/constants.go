@@ -30,12 +30,11 @@ func piFixed(prec uint) (*big.Int, int64) {
 	// π = 426880 √10005 Q / T, all scaled by 2^prec.
 	wide := prec + 32
 	sqrt := isqrt(new(big.Int).Lsh(big.NewInt(10005), 2*wide)) // floor(√10005 · 2^wide)
-	num := new(big.Int).Mul(sqrt, r.Q)
+	num := mul(sqrt, r.Q)
 	num.Mul(num, big.NewInt(426880))
-	v := num.Quo(num, r.T) // ≈ π·2^wide, |error| ≤ a few units of 2^-wide
-	if v.Sign() < 0 {
-		v.Neg(v)
-	}
+	num.Abs(num)
+	den := new(big.Int).Abs(r.T)
+	v := quo(num, den) // ≈ π·2^wide, |error| ≤ a few units of 2^-wide
 	v.Rsh(v, 32)
 	v.Sub(v, new(big.Int).Lsh(big.NewInt(3), prec))
 	return v, 2

@@ -33,15 +33,14 @@ func digitsFrom(f fixedFunc, n, base int) ([]byte, error) {
 	if n == 0 {
 		return []byte{}, nil
 	}
-	scale := new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(n)), nil)
+	scale := pow(int64(base), n)
 	for extra := uint(0); extra <= 4096; extra = 2*extra + guardBits {
 		prec := bitsFor(n, base) + extra
 		v, e := f(prec)
-		lo := new(big.Int).Sub(v, big.NewInt(e))
-		hi := new(big.Int).Add(v, big.NewInt(e+1)) // floor truncates: true value < v + e + 1
-		lo.Mul(lo, scale).Rsh(lo, prec)
-		hi.Mul(hi, scale)
-		hi.Sub(hi, big.NewInt(1)).Rsh(hi, prec) // the upper end is excluded
+		lo := mul(new(big.Int).Sub(v, big.NewInt(e)), scale)
+		lo.Rsh(lo, prec)
+		hi := mul(new(big.Int).Add(v, big.NewInt(e+1)), scale) // floor truncates: true value < v + e + 1
+		hi.Sub(hi, big.NewInt(1)).Rsh(hi, prec)                // the upper end is excluded
 		if lo.Cmp(hi) == 0 {
 			return toDigits(lo, n, base), nil
 		}
@@ -72,17 +71,7 @@ func toDigits(v *big.Int, n, base int) []byte {
 		}
 		return d
 	}
-	s := v.Text(base)
-	off := n - len(s)
-	for i := 0; i < len(s); i++ {
-		c := s[i]
-		switch {
-		case c >= '0' && c <= '9':
-			d[off+i] = c - '0'
-		default:
-			d[off+i] = c - 'a' + 10
-		}
-	}
+	convert(v, d, base, newPowerCache(base), 0)
 	return d
 }
 
@@ -117,25 +106,16 @@ func binarySplit(term bsTerm, n1, n2 int64, depth int) bsResult {
 		l = binarySplit(term, n1, m, depth+1)
 		r = binarySplit(term, m, n2, depth+1)
 	}
-	t1 := new(big.Int).Mul(r.B, r.Q)
-	t1.Mul(t1, l.T)
-	t2 := new(big.Int).Mul(l.B, l.P)
-	t2.Mul(t2, r.T)
-	return bsResult{
-		P: new(big.Int).Mul(l.P, r.P),
-		Q: new(big.Int).Mul(l.Q, r.Q),
-		B: new(big.Int).Mul(l.B, r.B),
-		T: t1.Add(t1, t2),
-	}
+	t1 := mul(mul(r.B, r.Q), l.T)
+	t2 := mul(mul(l.B, l.P), r.T)
+	return bsResult{P: mul(l.P, r.P), Q: mul(l.Q, r.Q), B: mul(l.B, r.B), T: t1.Add(t1, t2)}
 }
 
 // seriesFixed returns floor(S·2^prec) for the series summed over [0, n)
 // (the caller bounds the tail by one unit).
 func seriesFixed(term bsTerm, n int64, prec uint) *big.Int {
 	r := binarySplit(term, 0, n, 0)
-	den := new(big.Int).Mul(r.B, r.Q)
-	num := new(big.Int).Lsh(r.T, prec)
-	return num.Quo(num, den)
+	return quo(new(big.Int).Lsh(r.T, prec), mul(r.B, r.Q))
 }
 
 var one = big.NewInt(1)

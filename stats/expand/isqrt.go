@@ -15,17 +15,17 @@ func isqrt(n *big.Int) *big.Int {
 	s := uint(n.BitLen() / 4)
 	r := isqrt(new(big.Int).Rsh(n, 2*s))
 	r.Lsh(r, s)
-	q := new(big.Int).Quo(n, r)
+	q := quo(n, r)
 	r.Add(r, q).Rsh(r, 1)
 	// Newton from above overshoots by at most a few units; settle exactly.
 	sq := new(big.Int)
-	for sq.Mul(r, r).Cmp(n) > 0 {
+	for sq.Set(mul(r, r)).Cmp(n) > 0 {
 		r.Sub(r, one)
 	}
 	next := new(big.Int)
 	for {
 		next.Add(r, one)
-		if sq.Mul(next, next).Cmp(n) > 0 {
+		if sq.Set(mul(next, next)).Cmp(n) > 0 {
 			return r
 		}
 		r.Set(next)

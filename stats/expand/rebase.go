@@ -7,20 +7,11 @@ import (
 
 // parseDigits returns the integer whose base-b digits (values, most
 // significant first) are d, by divide and conquer: value(hi‖lo) =
-// value(hi)·b^len(lo) + value(lo), with the powers of b cached by length.
-// With Go's subquadratic multiplication this avoids the quadratic digit-by-
-// digit loop of big.Int.SetString for long strings.
+// value(hi)·b^len(lo) + value(lo), splitting so that len(lo) = leaf·2^j and
+// the powers come from one cache of squarings, with FFT multiplication.
+// This avoids the quadratic digit-by-digit loop of big.Int.SetString.
 func parseDigits(d []byte, base int) *big.Int {
-	pows := map[int]*big.Int{}
-	var pow func(n int) *big.Int
-	pow = func(n int) *big.Int {
-		if p, ok := pows[n]; ok {
-			return p
-		}
-		p := new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(n)), nil)
-		pows[n] = p
-		return p
-	}
+	cache := newPowerCache(base)
 	var rec func(d []byte) *big.Int
 	rec = func(d []byte) *big.Int {
 		if len(d) <= 256 {
@@ -44,9 +35,22 @@ func parseDigits(d []byte, base int) *big.Int {
 			}
 			return v
 		}
-		m := len(d) / 2
+		h := leafDigits
+		for 2*h < len(d) {
+			h *= 2
+		}
+		if h >= len(d) {
+			h = len(d) / 2
+		}
+		m := len(d) - h
 		hi, lo := rec(d[:m]), rec(d[m:])
-		hi.Mul(hi, pow(len(d)-m))
+		var p *big.Int
+		if h%leafDigits == 0 && h >= leafDigits {
+			p, _, _ = cache.get(h)
+		} else {
+			p = new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(h)), nil)
+		}
+		hi = mul(hi, p)
 		return hi.Add(hi, lo)
 	}
 	return rec(d)
@@ -64,13 +68,11 @@ func Rebase(d []byte, from, to int) []byte {
 	}
 	M := parseDigits(d, from)
 	j := int(math.Floor(float64(n)*math.Log(float64(from))/math.Log(float64(to)))) + 2
-	den := new(big.Int).Exp(big.NewInt(int64(from)), big.NewInt(int64(n)), nil)
-	scale := new(big.Int).Exp(big.NewInt(int64(to)), big.NewInt(int64(j)), nil)
-	lo := new(big.Int).Mul(M, scale)
-	lo.Quo(lo, den)
-	hi := new(big.Int).Add(M, big.NewInt(1))
-	hi.Mul(hi, scale)
-	hi.Quo(hi, den)
+	den := pow(int64(from), n)
+	scale := pow(int64(to), j)
+	inv := recip(den, uint(scale.BitLen())+64)
+	lo, _ := quoRem(mul(M, scale), den, inv, uint(scale.BitLen())+64)
+	hi, _ := quoRem(mul(new(big.Int).Add(M, big.NewInt(1)), scale), den, inv, uint(scale.BitLen())+64)
 	// Both are below to^j; write them with j digits and compare.
 	a, b := toDigits(lo, j, to), toDigits(hi, j, to)
 	c := 0

@@ -1,0 +1,170 @@
+package expand
+
+import (
+	"math/big"
+	"sync"
+
+	"github.com/remyoudompheng/bigfft"
+)
+
+// mul returns a·b, by FFT (Schönhage–Strassen, remyoudompheng/bigfft) when
+// both operands exceed about 1800 words and by math/big's Karatsuba below.
+func mul(a, b *big.Int) *big.Int { return bigfft.Mul(a, b) }
+
+// directBits is the size below which math/big's own division is used.
+const directBits = 1 << 17
+
+// recip returns an approximation x of 2^(n+p)/d, n = bitlen(d) (d > 0),
+// good to a few units in its last place, by Newton's iteration with
+// precision doubling: the reciprocal of d's top bits at half precision, then
+// one step x ← x + x(2^(n+p) − d x)/2^(n+p) at full precision, which squares
+// the relative error (Brent & Zimmermann, Modern Computer Arithmetic, §3.4).
+func recip(d *big.Int, p uint) *big.Int {
+	n := uint(d.BitLen())
+	if p+n <= 2*directBits {
+		x := new(big.Int).Lsh(one, n+p)
+		return x.Quo(x, d)
+	}
+	h := p/2 + 32
+	keep := min(n, h+32)
+	dt := new(big.Int).Rsh(d, n-keep)
+	x := recip(dt, h) // ≈ 2^(keep+h)/dt ≈ 2^(n+h)/d
+	x.Lsh(x, p-h)
+	e := new(big.Int).Lsh(one, n+p)
+	e.Sub(e, mul(d, x))
+	c := mul(x, e)
+	c.Rsh(c, n+p)
+	return x.Add(x, c)
+}
+
+// quo returns floor(a/b) for a ≥ 0, b > 0: by a Newton reciprocal and two
+// multiplications for large operands, corrected exactly by the remainder.
+func quo(a, b *big.Int) *big.Int {
+	q, _ := quoRem(a, b, nil, 0)
+	return q
+}
+
+// quoRem returns floor(a/b) and a mod b. inv, when given, is recip(b, p)
+// with p at least the quotient's bit length + 32 (a cached reciprocal).
+func quoRem(a, b, inv *big.Int, p uint) (*big.Int, *big.Int) {
+	n := uint(b.BitLen())
+	if n < directBits || a.BitLen() < int(n)+directBits/2 {
+		q, r := new(big.Int).QuoRem(a, b, new(big.Int))
+		return q, r
+	}
+	m := uint(a.BitLen()) - n + 1
+	if inv == nil || p < m+32 {
+		p = m + 32
+		inv = recip(b, p)
+	}
+	q := mul(a, inv)
+	q.Rsh(q, n+p)
+	r := new(big.Int).Sub(a, mul(q, b))
+	for r.Sign() < 0 {
+		q.Sub(q, one)
+		r.Add(r, b)
+	}
+	for r.Cmp(b) >= 0 {
+		q.Add(q, one)
+		r.Sub(r, b)
+	}
+	return q, r
+}
+
+// pow returns base^e by repeated squaring with FFT multiplication.
+func pow(base int64, e int) *big.Int {
+	result := big.NewInt(1)
+	sq := big.NewInt(base)
+	for e > 0 {
+		if e&1 == 1 {
+			result = mul(result, sq)
+		}
+		e >>= 1
+		if e > 0 {
+			sq = mul(sq, sq)
+		}
+	}
+	return result
+}
+
+// leafDigits is the digit count below which conversion uses big.Int.Text.
+const leafDigits = 4096
+
+// powerCache holds base^(leaf·2^j) and their reciprocals for conversion.
+type powerCache struct {
+	base int64
+	mu   sync.Mutex
+	pows map[int]*big.Int
+	invs map[int]*big.Int
+	prec map[int]uint
+}
+
+func newPowerCache(base int) *powerCache {
+	return &powerCache{base: int64(base), pows: map[int]*big.Int{}, invs: map[int]*big.Int{}, prec: map[int]uint{}}
+}
+
+// get returns base^h (h = leaf·2^j) with its reciprocal for quotients of up
+// to h digits.
+func (c *powerCache) get(h int) (*big.Int, *big.Int, uint) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if p, ok := c.pows[h]; ok {
+		return p, c.invs[h], c.prec[h]
+	}
+	var p *big.Int
+	if h <= leafDigits {
+		p = new(big.Int).Exp(big.NewInt(c.base), big.NewInt(int64(h)), nil)
+	} else {
+		c.mu.Unlock()
+		half, _, _ := c.get(h / 2)
+		p = mul(half, half)
+		c.mu.Lock()
+	}
+	prec := uint(p.BitLen()) + 64
+	var inv *big.Int
+	if p.BitLen() >= directBits {
+		inv = recip(p, prec)
+	}
+	c.pows[h], c.invs[h], c.prec[h] = p, inv, prec
+	return p, inv, prec
+}
+
+// convert writes v (0 ≤ v < base^len(out)) as len(out) base-b digits into
+// out: split at h = leaf·2^j digits (the largest below len(out)), divide by
+// base^h with a cached reciprocal, convert both halves (the two largest on
+// separate goroutines). O(M(n) log n) with FFT multiplication.
+func convert(v *big.Int, out []byte, base int, c *powerCache, depth int) {
+	n := len(out)
+	if n <= 2*leafDigits {
+		s := v.Text(base)
+		off := n - len(s)
+		for i := 0; i < off; i++ {
+			out[i] = 0
+		}
+		for i := 0; i < len(s); i++ {
+			ch := s[i]
+			if ch <= '9' {
+				out[off+i] = ch - '0'
+			} else {
+				out[off+i] = ch - 'a' + 10
+			}
+		}
+		return
+	}
+	h := leafDigits
+	for 2*h < n {
+		h *= 2
+	}
+	p, inv, prec := c.get(h)
+	q, r := quoRem(v, p, inv, prec)
+	if depth < 2 {
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() { defer wg.Done(); convert(q, out[:n-h], base, c, depth+1) }()
+		convert(r, out[n-h:], base, c, depth+1)
+		wg.Wait()
+		return
+	}
+	convert(q, out[:n-h], base, c, depth+1)
+	convert(r, out[n-h:], base, c, depth+1)
+}
