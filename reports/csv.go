@@ -5,10 +5,11 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 	"time"
+
+	"borel/stats/checks"
 )
 
 // CSVHeader is the header of the CSV report: one row per finding, numbers at
@@ -30,11 +31,7 @@ func fullLog10(lnP float64) string {
 }
 
 func csvParams(p map[string]int) string {
-	keys := make([]string, 0, len(p))
-	for k := range p {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
+	keys := checks.ParamNames(p)
 	parts := make([]string, len(keys))
 	for i, k := range keys {
 		parts[i] = fmt.Sprintf("%s=%d", k, p[k])

@@ -5,7 +5,6 @@ import (
 
 	"borel/stats/checks"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 )
@@ -96,11 +95,7 @@ func readableLabel(l string) string {
 
 // formatParams prints parameters as "k=3" or "digit 7", in key order.
 func formatParams(p map[string]int) string {
-	keys := make([]string, 0, len(p))
-	for k := range p {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
+	keys := checks.ParamNames(p)
 	parts := make([]string, len(keys))
 	for i, k := range keys {
 		if k == "k" {

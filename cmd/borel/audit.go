@@ -11,7 +11,6 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/reports"
 	"borel/stats/audit"
 	"borel/stats/expand"
 	"borel/stats/seq"
@@ -165,19 +164,7 @@ func runAudit(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(),
-		Results: []*audit.Result{res}}
-	data, err := render(doc, out.format)
-	if err != nil {
-		return 0, err
-	}
-	if err := out.publish(e, doc, data); err != nil {
-		return 0, err
-	}
-	if *strict && res.Verdict != audit.Consistent {
-		return exitVerdict, nil
-	}
-	return exitOK, nil
+	return out.report(e, []*audit.Result{res}, *strict)
 }
 
 // openInput opens a file or standard input and describes it.

@@ -85,12 +85,7 @@ func runDigits(e env, args []string) (int, error) {
 	} else {
 		data = formatDigits(d, *wrap)
 	}
-	if *output != "" {
-		err = writeAtomic(*output, data)
-	} else {
-		_, err = e.stdout.Write(data)
-	}
-	if err != nil {
+	if err := emit(e, *output, data); err != nil {
 		return 0, err
 	}
 	if !*quiet {
@@ -166,12 +161,7 @@ func runRebase(e env, args []string) (int, error) {
 		iv, _ := new(big.Int).SetString(intPart, a)
 		data = append([]byte(iv.Text(b)+"."), data...)
 	}
-	if *output != "" {
-		err = writeAtomic(*output, data)
-	} else {
-		_, err = e.stdout.Write(data)
-	}
-	if err != nil {
+	if err := emit(e, *output, data); err != nil {
 		return 0, err
 	}
 	if !*quiet {

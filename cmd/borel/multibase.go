@@ -10,7 +10,6 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/reports"
 	"borel/stats/audit"
 	"borel/stats/checks"
 	"borel/stats/expand"
@@ -346,20 +345,5 @@ func runAuditAcross(e env, fs interface {
 		return 0, err
 	}
 	powerNotes(results)
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(), Results: results}
-	data, err := render(doc, a.out.format)
-	if err != nil {
-		return 0, err
-	}
-	if err := a.out.publish(e, doc, data); err != nil {
-		return 0, err
-	}
-	if a.strict {
-		for _, r := range results {
-			if r.Verdict != audit.Consistent {
-				return exitVerdict, nil
-			}
-		}
-	}
-	return exitOK, nil
+	return a.out.report(e, results, a.strict)
 }

@@ -14,6 +14,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"borel/reports"
+	"borel/stats/audit"
 )
 
 // formats are the report formats borel writes.
@@ -242,4 +243,36 @@ func sameFile(in, out string) bool {
 	a, err1 := os.Stat(in)
 	b, err2 := os.Stat(out)
 	return err1 == nil && err2 == nil && os.SameFile(a, b)
+}
+
+// report renders the audit results, publishes them as the options say and
+// returns the exit status: 3 under --strict when any verdict is not
+// consistent.
+func (o *output) report(e env, results []*audit.Result, strict bool) (int, error) {
+	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(),
+		Results: results}
+	data, err := render(doc, o.format)
+	if err != nil {
+		return 0, err
+	}
+	if err := o.publish(e, doc, data); err != nil {
+		return 0, err
+	}
+	if strict {
+		for _, r := range results {
+			if r.Verdict != audit.Consistent {
+				return exitVerdict, nil
+			}
+		}
+	}
+	return exitOK, nil
+}
+
+// emit writes plain output (digits) to a file atomically, or to stdout.
+func emit(e env, path string, data []byte) error {
+	if path != "" && path != "-" {
+		return writeAtomic(path, data)
+	}
+	_, err := e.stdout.Write(data)
+	return err
 }

@@ -41,15 +41,20 @@ type Finding struct {
 // e.g. "serial dpsi2 k=2".
 func (f Finding) Label() string {
 	s := f.Check + " " + f.Statistic
-	keys := make([]string, 0, len(f.Params))
-	for k := range f.Params {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
+	for _, k := range ParamNames(f.Params) {
 		s += fmt.Sprintf(" %s=%d", k, f.Params[k])
 	}
 	return s
+}
+
+// ParamNames returns the names of a finding's parameters in sorted order.
+func ParamNames(p map[string]int) []string {
+	keys := make([]string, 0, len(p))
+	for k := range p {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // RandomizedP returns the randomized upper-tail p-value
