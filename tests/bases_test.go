@@ -136,6 +136,8 @@ func TestBasesErrors(t *testing.T) {
 		{[]string{"audit", "--source", "tau"}, `unknown source "tau"`},
 		{[]string{"audit", "--source", "pi", "somefile"}, "give no input file"},
 		{[]string{"digits", "pi", "--count", "2000000000"}, "of memory, over the bound of"},
+		{[]string{"audit", "--source", "e", "--count", "2000000000"}, "of memory, over the bound of"},
+		{[]string{"compare", "pi", "--count", "2000000000"}, "of memory, over the bound of"},
 		{[]string{"digits", "pi"}, "--count 0: give the number of digits"},
 		{[]string{"digits", "stoneham:2,4", "--count", "5"}, "coprime"},
 		{[]string{"rebase", "--from", "10"}, "rebase needs --from and --to"},

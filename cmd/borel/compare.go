@@ -125,6 +125,9 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 	if src.Base() != 0 {
 		b = src.Base()
 	}
+	if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
+		return nil, err
+	}
 	d, err := src.Digits(count, 0, b)
 	if err != nil {
 		return nil, err

@@ -70,9 +70,8 @@ func runDigits(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	if need := src.MemoryEstimate(*count+*offset, b); need > float64(limit) {
-		return 0, usagef("%d digits of %s in base %d need about %s of memory, over the bound of %s; ask for fewer digits or raise --memory",
-			*count+*offset, src.Name, b, mib(need), mib(float64(limit)))
+	if err := checkDigitMemory(src, *count+*offset, b, limit); err != nil {
+		return 0, err
 	}
 	start := time.Now()
 	d, err := src.Digits(*count, *offset, b)
@@ -93,6 +92,20 @@ func runDigits(e env, args []string) (int, error) {
 			len(d), src.Name, b, *offset+1, *offset+len(d), time.Since(start).Seconds(), src.Detail)
 	}
 	return exitOK, nil
+}
+
+// digitMemory bounds the memory a built-in source may take to make its
+// digits (borel digits --memory; fixed for audit --source and compare).
+const digitMemory = 4 << 30
+
+// checkDigitMemory refuses, before any work, a request whose digits would
+// need more memory than limit, saying how much it would need.
+func checkDigitMemory(src expand.Source, n, base int, limit int64) error {
+	if need := src.MemoryEstimate(n, base); need > float64(limit) {
+		return usagef("%d digits of %s in base %d need about %s of memory, over the bound of %s; ask for fewer digits",
+			n, src.Name, base, mib(need), mib(float64(limit)))
+	}
+	return nil
 }
 
 // formatDigits writes digit values as 0-9a-z, one line or wrapped.

@@ -86,6 +86,9 @@ func auditSource(name string, bases []int, count int, opts audit.Options) ([]*au
 		if src.Base() != 0 && b != src.Base() {
 			return nil, usagef("source %s makes base-%d digits; --bases %d does not fit", name, src.Base(), b)
 		}
+		if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
+			return nil, err
+		}
 		d, err := src.Digits(count, 0, b)
 		if err != nil {
 			return nil, err
@@ -273,8 +276,8 @@ func runAuditAcross(e env, fs interface {
 		if fs.NArg() != 0 {
 			return 0, usagef("--source makes the digits; give no input file (got %q)", fs.Arg(0))
 		}
-		if a.count < 1 || a.count > expand.MaxDigits*50 {
-			return 0, usagef("--count %d: give 1 to %d digits", a.count, expand.MaxDigits*50)
+		if a.count < 1 {
+			return 0, usagef("--count %d: give the number of digits, 1 or more", a.count)
 		}
 		list := a.bases
 		if list == "" {
