@@ -3,6 +3,7 @@ package tally
 import (
 	"sort"
 	"sync"
+	"time"
 )
 
 // kernel is one loop of the pass. It reads the new digits, the stretch's
@@ -53,28 +54,50 @@ func (t *Tally) kernels() []kernel {
 	return ks
 }
 
-// Runner feeds a tally from several goroutines: the kernels are split into
-// groups of about equal cost (largest first onto the least loaded group),
-// the groups run concurrently on each chunk, and the tally advances when
-// all are done. Every kernel is the same code Add runs, on the same chunk,
-// writing fields no other kernel touches, so the tally is identical, bit
-// for bit, whatever the number of workers.
+// calibrationChunks is how many chunks the Runner times, kernel by
+// kernel, before it groups the kernels by their measured cost.
+const calibrationChunks = 8
+
+// Runner feeds a tally from several goroutines: it first runs the kernels
+// one after another on a few chunks, timing each; then it splits them into
+// groups of about equal measured cost (largest first onto the least loaded
+// group), runs the groups concurrently on each chunk, and advances the tally
+// when all are done. Every kernel is the same code Add runs, on the same
+// chunk, writing fields no other kernel touches, so the tally is identical,
+// bit for bit, whatever the number of workers; only the speed depends on the
+// grouping.
 type Runner struct {
-	t      *Tally
-	groups [][]kernel
+	t       *Tally
+	workers int
+	ks      []kernel
+	spent   []time.Duration
+	seen    int
+	groups  [][]kernel
 }
 
 // NewRunner returns a Runner for t with up to workers goroutines.
 func NewRunner(t *Tally, workers int) *Runner {
 	ks := t.kernels()
-	workers = max(1, min(workers, len(ks)))
-	order := make([]int, len(ks))
+	return &Runner{t: t, workers: max(1, min(workers, len(ks))), ks: ks, spent: make([]time.Duration, len(ks))}
+}
+
+// group splits the kernels by measured cost (estimated cost before any
+// measurement), keeping each group in the sequential order.
+func (r *Runner) group() {
+	cost := make([]float64, len(r.ks))
+	for i, k := range r.ks {
+		cost[i] = k.cost
+		if r.seen > 0 {
+			cost[i] = float64(r.spent[i])
+		}
+	}
+	order := make([]int, len(r.ks))
 	for i := range order {
 		order[i] = i
 	}
-	sort.SliceStable(order, func(a, b int) bool { return ks[order[a]].cost > ks[order[b]].cost })
-	groups := make([][]kernel, workers)
-	load := make([]float64, workers)
+	sort.SliceStable(order, func(a, b int) bool { return cost[order[a]] > cost[order[b]] })
+	members := make([][]int, r.workers)
+	load := make([]float64, r.workers)
 	for _, i := range order {
 		g := 0
 		for j := range load {
@@ -82,23 +105,20 @@ func NewRunner(t *Tally, workers int) *Runner {
 				g = j
 			}
 		}
-		groups[g] = append(groups[g], ks[i])
-		load[g] += ks[i].cost
+		members[g] = append(members[g], i)
+		load[g] += cost[i]
 	}
-	// Within a group keep the sequential order (digits before anything else).
-	for _, g := range groups {
-		sort.SliceStable(g, func(a, b int) bool { return kernelRank(ks, g[a]) < kernelRank(ks, g[b]) })
-	}
-	return &Runner{t: t, groups: groups}
-}
-
-func kernelRank(ks []kernel, k kernel) int {
-	for i := range ks {
-		if ks[i].name == k.name && ks[i].cost == k.cost {
-			return i
+	r.groups = r.groups[:0]
+	for _, m := range members {
+		sort.Ints(m)
+		var g []kernel
+		for _, i := range m {
+			g = append(g, r.ks[i])
+		}
+		if len(g) > 0 {
+			r.groups = append(r.groups, g)
 		}
 	}
-	return 0
 }
 
 // Add tallies the next digits of the stretch.
@@ -106,8 +126,21 @@ func (r *Runner) Add(d []byte) {
 	if len(d) == 0 {
 		return
 	}
-	if len(r.groups) == 1 {
+	if r.workers == 1 {
 		r.t.Add(d)
+		return
+	}
+	if r.seen < calibrationChunks {
+		for i, k := range r.ks {
+			t0 := time.Now()
+			k.run(d)
+			r.spent[i] += time.Since(t0)
+		}
+		r.t.advance(d)
+		r.seen++
+		if r.seen == calibrationChunks {
+			r.group()
+		}
 		return
 	}
 	var wg sync.WaitGroup
