@@ -374,7 +374,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	if t.N < int64(K) {
 		return nil, fmt.Errorf("%s: %d digits are too few for --max-block %d", src.Name, t.N, K)
 	}
-	cyc, err := t.Cyclic()
+	cyc, err := t.CyclicInPlace() // the tally is not used after Finish
 	if err != nil {
 		return nil, err
 	}

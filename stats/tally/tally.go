@@ -134,6 +134,8 @@ type Tally struct {
 	Walk     WalkTally
 	Coupon   CouponTally
 	Trace    []TracePoint // digit counts at fixed global checkpoints, for plots
+
+	finished bool // set by CyclicInPlace
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -179,6 +181,9 @@ func value(d []byte, base int) int {
 // Add tallies the next digits of the stretch. Every digit must be below Base
 // (the reader guarantees it); Add panics otherwise.
 func (t *Tally) Add(d []byte) {
+	if t.finished {
+		panic("tally: Add to a finished tally (after CyclicInPlace)")
+	}
 	if len(d) == 0 {
 		return
 	}

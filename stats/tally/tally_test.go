@@ -380,3 +380,21 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 		}
 	}
 }
+
+// CyclicInPlace gives the same counts as Cyclic, and finishes the tally.
+func TestCyclicInPlace(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 21))
+	tl := mustNew(t, Spec{Base: 7, MaxBlock: 4}, 0)
+	tl.Add(randomDigits(rng, 3000, 7))
+	want, _ := tl.Cyclic()
+	got, err := tl.CyclicInPlace()
+	if err != nil || !reflect.DeepEqual(got, want) {
+		t.Fatalf("in-place cyclic counts differ (%v)", err)
+	}
+	defer func() {
+		if recover() == nil {
+			t.Error("Add after CyclicInPlace did not panic")
+		}
+	}()
+	tl.Add([]byte{1})
+}
