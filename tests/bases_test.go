@@ -3,6 +3,7 @@ package tests
 import (
 	"bytes"
 	"encoding/json"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -149,4 +150,43 @@ func TestBasesErrors(t *testing.T) {
 			t.Errorf("%v: exit %d %q, want 2 and %q", c.args, code, errs, c.want)
 		}
 	}
+}
+
+// --checks runs only the named checks, with the same values as in the full
+// battery, and refuses unknown names.
+func TestChecksSelection(t *testing.T) {
+	in := smallInput(t)
+	full := decode(t, func() []byte { _, out, _ := runBorel(t, in, "audit", "-", "--format", "json"); return out }())
+	code, out, errs := runBorel(t, in, "audit", "-", "--checks", "freq,gap", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	sel := decode(t, out)
+	want := map[string]float64{}
+	for _, f := range full.Audits[0].Findings {
+		if f.Check == "freq" || f.Check == "gap" {
+			want[f.Check+" "+f.Statistic+" "+strings.TrimSpace(fmtParams(f.Params))] = f.Value
+		}
+	}
+	if len(sel.Audits[0].Findings) != len(want) {
+		t.Fatalf("%d findings with --checks freq,gap, want %d", len(sel.Audits[0].Findings), len(want))
+	}
+	for _, f := range sel.Audits[0].Findings {
+		if v, ok := want[f.Check+" "+f.Statistic+" "+strings.TrimSpace(fmtParams(f.Params))]; !ok || v != f.Value {
+			t.Errorf("%s %s: %v, in the full battery %v", f.Check, f.Statistic, f.Value, v)
+		}
+	}
+	if code, _, errs := runBorel(t, in, "audit", "-", "--checks", "frequency"); code != 2 || !strings.Contains(string(errs), `unknown check "frequency"; the checks are freq, blocks`) {
+		t.Errorf("unknown check: exit %d %s", code, errs)
+	}
+}
+
+func fmtParams(p map[string]int) string {
+	s := ""
+	for _, k := range []string{"k", "digit", "class"} {
+		if v, ok := p[k]; ok {
+			s += " " + k + "=" + strconv.Itoa(v)
+		}
+	}
+	return s
 }

@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"runtime"
+	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -66,11 +67,12 @@ func runAudit(e env, args []string) (int, error) {
 	source := fs.String("source", "", "audit a built-in source instead of a file: "+expand.Names)
 	count := fs.Int("count", 100_000, "digits drawn from --source in each base")
 	workers := fs.Int("workers", runtime.GOMAXPROCS(0), "goroutines for the pass (the findings are the same for any number)")
+	checkList := fs.String("checks", "", "run only these checks, e.g. freq,serial (default: all); the pass skips what they do not need")
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
 	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
-		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
+		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base, checks: *checkList, workers: *workers,
 			raw: *raw, bits: *bits, count: *count, null: *null, alpha: *alpha, adjust: *adjust, maxBlock: *maxBlock,
 			memory: *memory, segments: *segments, seed: *seed, strict: *strict, out: out})
 	}
@@ -120,6 +122,9 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, usagef("--workers %d: give 1 or more", *workers)
 	}
 	opts.Workers = *workers
+	if *checkList != "" {
+		opts.Checks = splitList(*checkList)
+	}
 	if err := out.check(input); err != nil {
 		return 0, err
 	}
@@ -222,4 +227,15 @@ func checkUnchanged(input string, src audit.Source, read int64) error {
 		return fmt.Errorf("%s shrank while being read (from %d to %d bytes); nothing was audited: audit a file that is not being written", input, src.Bytes, st.Size())
 	}
 	return nil
+}
+
+// splitList splits a comma-separated option value, dropping blanks.
+func splitList(s string) []string {
+	var out []string
+	for _, part := range strings.Split(s, ",") {
+		if p := strings.TrimSpace(part); p != "" {
+			out = append(out, p)
+		}
+	}
+	return out
 }

@@ -234,7 +234,8 @@ func checkMultiNull(ns audit.NullSpec, bases []int) error {
 }
 
 type auditAcross struct {
-	source, bases, fromBase, base         string
+	source, bases, fromBase, base, checks string
+	workers                               int
 	raw, bits, strict                     bool
 	count, segments                       int
 	null, alpha, adjust, maxBlock, memory string
@@ -265,6 +266,13 @@ func runAuditAcross(e env, fs interface {
 		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", a.segments)
 	}
 	opts.Segments, opts.Seed = a.segments, a.seed
+	if a.workers < 1 {
+		return 0, usagef("--workers %d: give 1 or more", a.workers)
+	}
+	opts.Workers = a.workers
+	if a.checks != "" {
+		opts.Checks = splitList(a.checks)
+	}
 	if a.bits && a.raw {
 		return 0, usagef("--raw and --bits exclude each other: bytes are read either as base-256 digits or as bits")
 	}

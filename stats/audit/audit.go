@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"strings"
 
 	"borel/stats"
 	"borel/stats/checks"
@@ -52,6 +53,22 @@ type Options struct {
 	Segments    int    // second level: number of segments, 0 for none
 	Seed        uint64 // seed of the randomized p-values of discrete statistics
 	Workers     int    // goroutines of the pass (results do not depend on it)
+	// Checks, when not empty, names the only checks to run (checks.All's
+	// names); the tally then skips the loops no selected check needs.
+	Checks []string
+}
+
+// selected reports whether check name is to be run.
+func (o Options) selected(name string) bool {
+	if len(o.Checks) == 0 {
+		return true
+	}
+	for _, c := range o.Checks {
+		if c == name {
+			return true
+		}
+	}
+	return false
 }
 
 // DefaultOptions returns alpha 0.01, Holm, automatic K, 256 MiB, minimum
@@ -149,7 +166,8 @@ func validBlock(n float64, minP, minExpected float64) int {
 // hulls unless the null is uniform; coupon classes (the digits up to base 16,
 // else 16 classes of consecutive digits) with lengths pooled from 8 times
 // the expected segment length.
-func batterySpec(base int, null NullSpec) tally.Spec {
+func batterySpec(base int, opts Options) tally.Spec {
+	null := opts.Null
 	s := tally.Spec{Base: base, GapClass: gapClasses(base), PokerHand: 5, Lags: 5, RunDigit: base - 1,
 		UpDownDigits: int(63 / math.Log2(float64(base))), WalkHull: null.Kind != checks.Uniform}
 	if base < 5 {
@@ -173,6 +191,22 @@ func batterySpec(base int, null NullSpec) tally.Spec {
 		harmonic += 1 / float64(i+1)
 	}
 	s.CouponCap = min(4096, max(d+1, int(math.Ceil(8*harmonic/minQ))))
+	// Switch off the loops of checks that are not run.
+	if !opts.selected("poker") {
+		s.PokerHand = 0
+	}
+	if !opts.selected("updown") {
+		s.UpDownDigits = 0
+	}
+	if !opts.selected("lagcorr") {
+		s.Lags = 0
+	}
+	if !opts.selected("coupon") {
+		s.CouponClasses, s.CouponClass, s.CouponCap = 0, nil, 0
+	}
+	s.SkipGaps = !opts.selected("gap")
+	s.SkipRuns = !opts.selected("maxrun")
+	s.SkipWalk = !opts.selected("drift") && !opts.selected("lagcorr")
 	return s
 }
 
@@ -196,7 +230,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 	if err := validateOptions(opts); err != nil {
 		return nil, err
 	}
-	p := &Plan{opts: opts, Spec: batterySpec(base, opts.Null)}
+	p := &Plan{opts: opts, Spec: batterySpec(base, opts)}
 	if opts.Segments > 0 && sizeHint >= 0 && sizeHint/int64(opts.Segments) < MinSegmentDigits {
 		return nil, fmt.Errorf("--segments %d needs at least %d digits (%d per segment); the input holds at most %d",
 			opts.Segments, int64(opts.Segments)*MinSegmentDigits, MinSegmentDigits, sizeHint)
@@ -233,6 +267,9 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 		}
 	}
 	k = max(1, min(k, budgetK))
+	if !opts.selected("blocks") && !opts.selected("serial") && !opts.selected("entropy") {
+		k = 1 // no selected check looks at blocks
+	}
 	p.Spec.MaxBlock = k
 	return p, nil
 }
@@ -252,6 +289,17 @@ func validateOptions(o Options) error {
 	}
 	if o.Segments < 0 || o.Segments == 1 {
 		return fmt.Errorf("--segments %d: give 2 or more segments, or 0 for none", o.Segments)
+	}
+	for _, name := range o.Checks {
+		known := false
+		var names []string
+		for _, c := range checks.All() {
+			names = append(names, c.Name())
+			known = known || c.Name() == name
+		}
+		if !known {
+			return fmt.Errorf("--checks: unknown check %q; the checks are %s", name, strings.Join(names, ", "))
+		}
 	}
 	return nil
 }
@@ -365,6 +413,10 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		}
 		K = max(1, min(K, valid))
 		res.BlockChoice = fmt.Sprintf("largest k with every expected count n·min p(w) at least %g (rule of thumb), within the memory budget", opts.MinExpected)
+		if !opts.selected("blocks") && !opts.selected("serial") && !opts.selected("entropy") {
+			res.BlockChoice = "no selected check uses blocks"
+			res.Notes = res.Notes[:0]
+		}
 	} else {
 		res.BlockChoice = "set by --max-block"
 		if valid < K {
@@ -383,7 +435,12 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
 	var out checks.Result
 	for _, c := range checks.All() {
-		c.Run(in, &out)
+		if opts.selected(c.Name()) {
+			c.Run(in, &out)
+		}
+	}
+	if len(opts.Checks) > 0 {
+		res.Notes = append(res.Notes, "checks run (--checks): "+strings.Join(opts.Checks, ", "))
 	}
 	if p.seg != nil {
 		if t.N/int64(opts.Segments) < MinSegmentDigits {

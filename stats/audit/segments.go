@@ -133,7 +133,9 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 		for _, c := range checks.All() {
 			switch c.Name() {
 			case "freq", "serial", "poker", "updown", "lagcorr", "drift", "maxrun":
-				c.Run(in, &out)
+				if opts.selected(c.Name()) {
+					c.Run(in, &out)
+				}
 			}
 		}
 		for _, f := range out.Findings {

@@ -13,6 +13,7 @@ import (
 	"bufio"
 	"bytes"
 	"compress/gzip"
+	"encoding/binary"
 	"errors"
 	"fmt"
 	"io"
@@ -363,17 +364,33 @@ func (r *Reader) decode(chunk []byte) error {
 	out := r.out[:len(chunk)]
 	j := 0
 	tab := &r.table
-	for i, c := range chunk {
+	fast := r.opt.Base >= 10 // then every ASCII '0'..'9' is a digit of the base
+	for i := 0; i < len(chunk); {
+		if fast && i+8 <= len(chunk) && j+8 <= len(out) {
+			// Eight bytes at a time when all are '0'..'9' (SWAR): x - '0' per
+			// byte borrows into a high bit for a byte below '0', and x + 0x46
+			// per byte sets it for a byte above '9'.
+			x := binary.LittleEndian.Uint64(chunk[i:])
+			lo := x - 0x3030303030303030
+			hi := x + 0x4646464646464646
+			if (x|lo|hi)&0x8080808080808080 == 0 {
+				binary.LittleEndian.PutUint64(out[j:], lo)
+				i += 8
+				j += 8
+				continue
+			}
+		}
+		c := chunk[i]
 		v := tab[c]
-		if v < codeSpace {
+		switch {
+		case v < codeSpace:
 			out[j] = v
 			j++
-			continue
+		case v == codeSpace:
+		default:
+			return r.textError(chunk, i, v)
 		}
-		if v == codeSpace {
-			continue
-		}
-		return r.textError(chunk, i, v)
+		i++
 	}
 	r.digits = out[:j]
 	return nil

@@ -90,7 +90,8 @@ func sameSpec(a, b Spec) bool {
 		a.UpDownDigits == b.UpDownDigits && a.Lags == b.Lags && a.RunDigit == b.RunDigit &&
 		a.WalkHull == b.WalkHull && a.CouponClasses == b.CouponClasses &&
 		slices.Equal(a.CouponClass, b.CouponClass) && a.CouponCap == b.CouponCap &&
-		a.CouponEvery == b.CouponEvery
+		a.CouponEvery == b.CouponEvery && a.SkipGaps == b.SkipGaps && a.SkipRuns == b.SkipRuns &&
+		a.SkipWalk == b.SkipWalk
 }
 
 func addInto(dst, src []int64) {
@@ -143,11 +144,14 @@ func (t *Tally) CyclicInPlace() ([][]int64, error) {
 	if t.N < int64(K) {
 		return nil, fmt.Errorf("tally: %d digits are too few for blocks of length %d", t.N, K)
 	}
+	t.finished = true
+	if K == 1 {
+		return lowerOrders(slices.Clone(t.Digits), 1, b), nil
+	}
 	wrap := append(slices.Clone(t.Tail[len(t.Tail)-(K-1):]), t.Head[:K-1]...)
 	for s := 0; s < K-1; s++ {
 		t.Overlap[value(wrap[s:s+K], b)]++
 	}
-	t.finished = true
 	return lowerOrders(t.Overlap, K, b), nil
 }
 
@@ -181,6 +185,9 @@ func (t *Tally) Cyclic() ([][]int64, error) {
 	K, b := t.MaxBlock, t.Base
 	if t.N < int64(K) {
 		return nil, fmt.Errorf("tally: %d digits are too few for blocks of length %d", t.N, K)
+	}
+	if K == 1 {
+		return lowerOrders(slices.Clone(t.Digits), 1, b), nil
 	}
 	top := slices.Clone(t.Overlap)
 	// The wrap-around windows start in the last K-1 positions.

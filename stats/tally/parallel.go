@@ -24,15 +24,17 @@ func (t *Tally) kernels() []kernel {
 		}
 		return 1
 	}
-	ks := []kernel{
-		{"digits", 0.7, func(d []byte) { t.addTrace(d, t.Offset+t.N); t.addDigits(d) }},
-		{"overlap", 1 + big(len(t.Overlap)), t.addOverlap},
+	ks := []kernel{{"digits", 0.7, func(d []byte) { t.addTrace(d, t.Offset+t.N); t.addDigits(d) }}}
+	if s.MaxBlock > 1 { // at K = 1 the windows are the digits: Cyclic reads Digits
+		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
 	}
 	for k := 2; k <= s.MaxBlock; k++ {
 		k := k
 		ks = append(ks, kernel{"blocks", 1 + big(len(t.Blocks[k]))/float64(k), func(d []byte) { t.addBlocks(k, d) }})
 	}
-	ks = append(ks, kernel{"gaps", 2, t.addGaps})
+	if !s.SkipGaps {
+		ks = append(ks, kernel{"gaps", 2, t.addGaps})
+	}
 	pos := func() int64 { return t.Offset + t.N }
 	if h := s.PokerHand; h > 0 {
 		ks = append(ks, kernel{"poker", 3, func(d []byte) { forWindows(t.Tail, d, pos(), h, h, t.countHand) }})
@@ -47,7 +49,12 @@ func (t *Tally) kernels() []kernel {
 	if s.Lags > 0 {
 		ks = append(ks, kernel{"lags", 3, t.addLags})
 	}
-	ks = append(ks, kernel{"runs", 2.5, t.addRuns}, kernel{"walk", 1.2, t.addWalk})
+	if !s.SkipRuns {
+		ks = append(ks, kernel{"runs", 2.5, t.addRuns})
+	}
+	if !s.SkipWalk {
+		ks = append(ks, kernel{"walk", 1.2, t.addWalk})
+	}
 	if s.CouponClasses > 0 {
 		ks = append(ks, kernel{"coupon", 4.5, func(d []byte) { t.addCoupon(d, pos()) }})
 	}

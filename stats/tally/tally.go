@@ -40,6 +40,9 @@ type Spec struct {
 	CouponClass   []int // class of each digit (len Base) when CouponClasses > 0
 	CouponCap     int   // coupon segment length from which lengths are pooled
 	CouponEvery   int   // restart spacing of coupon segments; 0: CouponRestart
+	SkipGaps      bool  // no gap histograms (their check is not run)
+	SkipRuns      bool  // no longest-run records
+	SkipWalk      bool  // no digit-sum walk
 }
 
 // Cells returns the number of int64 counters a Tally of this Spec holds,
@@ -118,7 +121,7 @@ type Tally struct {
 	Offset  int64
 	N       int64
 	Digits  []int64   // Digits[d]: occurrences of digit d
-	Overlap []int64   // K-windows lying inside the stretch, indexed by block value
+	Overlap []int64   // K-windows lying inside the stretch, indexed by block value (unused at K = 1: the digits)
 	Blocks  [][]int64 // Blocks[k], k = 2..K: aligned non-overlapping k-blocks
 	Gaps    []GapTally
 	Head    []byte // first min(N, span-1) digits (span: the longest window any record needs)
@@ -193,10 +196,22 @@ func (t *Tally) Add(d []byte) {
 	t.advance(d)
 }
 
+// addDigits counts the digits into four interleaved tables, so that a
+// repeated digit does not make each increment wait for the previous one.
 func (t *Tally) addDigits(d []byte) {
-	c := t.Digits
-	for _, x := range d {
-		c[x]++
+	var c [4][256]int64
+	i := 0
+	for ; i+4 <= len(d); i += 4 {
+		c[0][d[i]]++
+		c[1][d[i+1]]++
+		c[2][d[i+2]]++
+		c[3][d[i+3]]++
+	}
+	for ; i < len(d); i++ {
+		c[0][d[i]]++
+	}
+	for x := range t.Digits {
+		t.Digits[x] += c[0][x] + c[1][x] + c[2][x] + c[3][x]
 	}
 }
 
