@@ -25,6 +25,12 @@ printf 'borel audit, %d digits, full default battery: 1 worker %.2f s, 2 workers
   "$N" "$one" "$two" "$(ratio "$one" "$two")"
 /usr/bin/time -f 'borel peak resident memory: %M KB' "$out/borel" audit "$out/digits.txt" -q > /dev/null
 
+go build -o "$out/histogram" ./bench/histogram
+h=$(secs "$out/histogram" "$out/digits.txt")
+f=$(secs "$out/borel" audit "$out/digits.txt" --checks freq -q)
+printf 'frequency check alone %.2f s, bare byte histogram %.2f s: borel runs at %s of its speed\n' \
+  "$f" "$h" "$(ratio "$h" "$f")"
+
 ref=../shared/bench/reference.py
 if [ -f "$ref" ] && /usr/bin/python3 -c 'import numpy, scipy' 2>/dev/null; then
   r=$(env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE /usr/bin/python3 "$ref" "$out/digits.txt" "$N" |
