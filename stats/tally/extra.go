@@ -79,13 +79,45 @@ func newExtras(t *Tally) {
 
 // distinct returns the number of distinct digits in a poker hand.
 func distinct(w []byte) int {
-	n := 0
-	for i, x := range w {
-		if !slices.Contains(w[:i], x) {
-			n++
-		}
+	var seen [4]uint64 // a bit per digit value 0..255
+	for _, x := range w {
+		seen[x>>6] |= 1 << (x & 63)
 	}
-	return n
+	return bits.OnesCount64(seen[0]) + bits.OnesCount64(seen[1]) + bits.OnesCount64(seen[2]) + bits.OnesCount64(seen[3])
+}
+
+// addUpDown counts the aligned L-digit values that end inside d, and the
+// ties and turning points among consecutive values whose last value ends
+// inside d. Each value is computed once: the groups fully inside the kept
+// tail and d are read in order, the tail's (already counted) ones only as
+// the context of the first pairs and triples.
+func (t *Tally) addUpDown(d []byte) {
+	L := t.UpDownDigits
+	keep := min(len(t.Tail), 3*L-1)
+	x := make([]byte, 0, keep+len(d))
+	x = append(x, t.Tail[len(t.Tail)-keep:]...)
+	x = append(x, d...)
+	xs := t.Offset + t.N - int64(keep) // global position of x[0]
+	s := 0
+	if r := xs % int64(L); r != 0 {
+		s = L - int(r)
+	}
+	var v1, v2 uint64 // the previous two values
+	have := 0
+	for ; s+L <= len(x); s += L {
+		v := udValue(x[s:s+L], t.Base)
+		if s+L > keep { // this value ends inside d
+			t.UDValues++
+			if have >= 1 && v == v1 {
+				t.UDTies++
+			}
+			if have >= 2 && ((v1 > v2 && v1 > v) || (v1 < v2 && v1 < v)) {
+				t.UDTurns++
+			}
+		}
+		v2, v1 = v1, v
+		have++
+	}
 }
 
 // udValue returns the value of an L-digit group.

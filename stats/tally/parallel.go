@@ -39,12 +39,8 @@ func (t *Tally) kernels() []kernel {
 	if h := s.PokerHand; h > 0 {
 		ks = append(ks, kernel{"poker", 3, func(d []byte) { forWindows(t.Tail, d, pos(), h, h, t.countHand) }})
 	}
-	if L := s.UpDownDigits; L > 0 {
-		ks = append(ks, kernel{"updown", 5, func(d []byte) {
-			forWindows(t.Tail, d, pos(), L, L, t.countValue)
-			forWindows(t.Tail, d, pos(), L, 2*L, t.countTie)
-			forWindows(t.Tail, d, pos(), L, 3*L, t.countTurn)
-		}})
+	if s.UpDownDigits > 0 {
+		ks = append(ks, kernel{"updown", 5, t.addUpDown})
 	}
 	if s.Lags > 0 {
 		ks = append(ks, kernel{"lags", 3, t.addLags})
@@ -61,9 +57,14 @@ func (t *Tally) kernels() []kernel {
 	return ks
 }
 
-// calibrationChunks is how many chunks the Runner times, kernel by
-// kernel, before it groups the kernels by their measured cost.
-const calibrationChunks = 8
+// The Runner runs the kernels one after another on the first
+// calibrationChunks chunks and times them on all but the first warmupChunks
+// (whose first touches of the large tables cost page faults, not work),
+// then groups the kernels by measured cost.
+const (
+	warmupChunks      = 8
+	calibrationChunks = 40
+)
 
 // Runner feeds a tally from several goroutines: it first runs the kernels
 // one after another on a few chunks, timing each; then it splits them into
@@ -141,7 +142,9 @@ func (r *Runner) Add(d []byte) {
 		for i, k := range r.ks {
 			t0 := time.Now()
 			k.run(d)
-			r.spent[i] += time.Since(t0)
+			if r.seen >= warmupChunks {
+				r.spent[i] += time.Since(t0)
+			}
 		}
 		r.t.advance(d)
 		r.seen++
