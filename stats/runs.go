@@ -172,19 +172,10 @@ func runChain(n int64, p []float64, class int, m int64) (below, atLeast, logBelo
 func scaledVecMatPow(v []float64, Q [][]float64, e int64) ([]float64, float64) {
 	out := append([]float64(nil), v...)
 	scale, qScale := 0.0, 0.0
-	Q = matMul(Q, identity(len(Q))) // a copy
+	Q = matMul(Q, identity(len(Q))) // a copy, rescaled in place below
 	for e > 0 {
 		if e&1 == 1 {
-			next := make([]float64, len(out))
-			for i, vi := range out {
-				if vi == 0 {
-					continue
-				}
-				for j, t := range Q[i] {
-					next[j] += vi * t
-				}
-			}
-			out = next
+			out = vecMat(out, Q)
 			scale += qScale
 			if mx := maxOf(out); mx > 0 {
 				for i := range out {
@@ -257,21 +248,26 @@ func matMul(a, b [][]float64) [][]float64 {
 	return c
 }
 
+// vecMat returns the row vector v times the matrix T.
+func vecMat(v []float64, T [][]float64) []float64 {
+	next := make([]float64, len(v))
+	for i, vi := range v {
+		if vi == 0 {
+			continue
+		}
+		for j, t := range T[i] {
+			next[j] += vi * t
+		}
+	}
+	return next
+}
+
 // vecMatPow returns v·T^e by repeated squaring.
 func vecMatPow(v []float64, T [][]float64, e int64) []float64 {
 	out := append([]float64(nil), v...)
 	for e > 0 {
 		if e&1 == 1 {
-			next := make([]float64, len(out))
-			for i, vi := range out {
-				if vi == 0 {
-					continue
-				}
-				for j, t := range T[i] {
-					next[j] += vi * t
-				}
-			}
-			out = next
+			out = vecMat(out, T)
 		}
 		e >>= 1
 		if e > 0 {
