@@ -19,7 +19,7 @@ The base defaults to the number of entries.
 
 Example: the middle-third Cantor set (base 3, digit 1 never used):
   $ borel dimension 0.5,0,0.5
-  dim F(p) = 0.630930 in base 3 (H(p) = 0.693147 nats = 1 bits per digit)
+  dim F(p) = 0.630930 in base 3 (H(p) = 0.693147 nats = 1 bit per digit)
 `
 
 func runDimension(e env, args []string) (int, error) {
@@ -60,8 +60,12 @@ func runDimension(e env, args []string) (int, error) {
 	full := make([]float64, b)
 	copy(full, p)
 	h := stats.VectorEntropy(full)
-	fmt.Fprintf(e.stdout, "dim F(p) = %s in base %d (H(p) = %s nats = %s bits per digit)\n",
+	bitsWord := "bits"
+	if math.Abs(h/math.Ln2-1) < 1e-12 {
+		bitsWord = "bit"
+	}
+	fmt.Fprintf(e.stdout, "dim F(p) = %s in base %d (H(p) = %s nats = %s %s per digit)\n",
 		strconv.FormatFloat(stats.BesicovitchEgglestonDimension(full, b), 'f', 6, 64), b,
-		strconv.FormatFloat(h, 'f', 6, 64), strconv.FormatFloat(h/math.Ln2, 'g', 6, 64))
+		strconv.FormatFloat(h, 'f', 6, 64), strconv.FormatFloat(h/math.Ln2, 'g', 6, 64), bitsWord)
 	return exitOK, nil
 }
