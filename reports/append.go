@@ -41,11 +41,22 @@ func markers(kind, name string) (begin, end string) {
 	return "<!-- borel:begin " + name + " -->", "<!-- borel:end " + name + " -->"
 }
 
-// markerLine matches a line that is a borel marker of any section.
+// A line is a marker candidate when it starts with the comment opener and
+// "borel:"; only those are parsed (and a malformed one is an error). Text
+// that merely mentions borel:begin is ordinary text.
 var (
-	texMarker  = regexp.MustCompile(`^%\s*borel:(begin|end)\b\s*(.*?)\s*$`)
-	htmlMarker = regexp.MustCompile(`^<!--\s*borel:(begin|end)\b\s*(.*?)\s*(-->)?\s*$`)
+	texCandidate  = regexp.MustCompile(`^%\s*borel:`)
+	htmlCandidate = regexp.MustCompile(`^<!--\s*borel:`)
+	texMarker     = regexp.MustCompile(`^%\s*borel:(begin|end)\b\s*(.*?)\s*$`)
+	htmlMarker    = regexp.MustCompile(`^<!--\s*borel:(begin|end)\b\s*(.*?)\s*(-->)?\s*$`)
 )
+
+func isCandidate(kind, line string) bool {
+	if kind == KindLaTeX {
+		return texCandidate.MatchString(line)
+	}
+	return htmlCandidate.MatchString(line)
+}
 
 type markerAt struct {
 	begin      bool
@@ -73,7 +84,7 @@ func findMarkers(doc []byte, kind, file string) ([]markerAt, error) {
 			stop = pos + next + 1
 		}
 		text := strings.TrimSpace(string(doc[pos:stop]))
-		if strings.Contains(text, "borel:begin") || strings.Contains(text, "borel:end") {
+		if isCandidate(kind, text) {
 			m := re.FindStringSubmatch(text)
 			if m == nil || (kind != KindLaTeX && m[3] == "") || !ValidSectionName(m[2]) {
 				return nil, fmt.Errorf("%s line %d: a borel marker that cannot be read (%q); fix it by hand, nothing was written", file, line, text)
@@ -111,6 +122,11 @@ func AppendSection(doc []byte, kind, name, file string, content []byte) ([]byte,
 	ms, err := findMarkers(doc, kind, file)
 	if err != nil {
 		return nil, err
+	}
+	for _, line := range strings.Split(string(content), "\n") {
+		if isCandidate(kind, strings.TrimSpace(line)) {
+			return nil, fmt.Errorf("the report holds a line that looks like a borel section marker (%q); nothing was written", strings.TrimSpace(line))
+		}
 	}
 	body := content
 	if len(body) > 0 && body[len(body)-1] != '\n' {

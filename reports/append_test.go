@@ -67,3 +67,17 @@ func TestAppendSectionRefusesBrokenMarkers(t *testing.T) {
 		t.Error("section name with a space accepted")
 	}
 }
+
+// Text that mentions the markers (this README does, in prose and in code
+// spans) is not a marker: only lines that start with the comment opener and
+// "borel:" are.
+func TestAppendIgnoresMentions(t *testing.T) {
+	doc := []byte("Run it: the markers are `<!-- borel:begin NAME -->` and borel:end.\n% borel:begin is LaTeX's\n")
+	out, err := AppendSection(doc, KindMarkdown, "r", "README.md", []byte("table\n"))
+	if err != nil || !bytes.HasPrefix(out, doc) {
+		t.Errorf("a document that mentions the markers: %v", err)
+	}
+	if _, err := AppendSection(nil, KindMarkdown, "r", "p.md", []byte("x\n<!-- borel:end r -->\n")); err == nil {
+		t.Error("content holding a marker line was accepted")
+	}
+}
