@@ -92,8 +92,9 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	if !ok1 || !ok2 || err != nil || n < 0 || n > 1<<40 {
 		return nil, fmt.Errorf("%s: shard header is damaged (%q)", name, strings.TrimSpace(line))
 	}
-	payload := make([]byte, n)
-	if _, err := io.ReadFull(br, payload); err != nil {
+	// Read what is there (never allocate what a damaged header claims).
+	payload, err := io.ReadAll(io.LimitReader(br, n))
+	if err != nil || int64(len(payload)) < n {
 		return nil, fmt.Errorf("%s: shard is truncated (its payload has fewer than the %d bytes the header states); tally that stretch again", name, n)
 	}
 	if extra, _ := br.Peek(1); len(extra) > 0 {

@@ -373,6 +373,9 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	cases := map[string][]byte{
 		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 2 was written by a newer borel": future,
 		"not a borel shard": []byte("hello\nworld"),
+		// A damaged header that claims a terabyte must not allocate it
+		// (FuzzReadShard hung on this before the payload was read incrementally).
+		"the 1000000000000 bytes the header states": []byte("borel-tally 1 sha256:00 bytes:1000000000000\nabc"),
 	}
 	for want, data := range cases {
 		if _, err := ReadShard(bytes.NewReader(data), "s1"); err == nil || !strings.Contains(err.Error(), want) {
