@@ -89,6 +89,8 @@ func TestPublishedExpansions(t *testing.T) {
 		{"stoneham:2,3", 10, "0418836808315029850712528986"},
 		{"ln2", 10, "693147180559945309417232121458"},
 		{"phi", 10, "6180339887498948482"},
+		// python3-mpmath 1.2.1, nstr(sqrt(3), 70); OEIS A002194.
+		{"sqrt3", 10, "73205080756887729352744634150587236694280525381038"},
 		{"ln2", 10, c.Extra["ln2 base 10"]},
 		{"phi", 10, c.Extra["phi base 10"]},
 		{"stoneham:2,3", 10, c.Extra["stoneham:2,3 base 10"]},
