@@ -28,14 +28,19 @@ func piFixed(prec uint) (*big.Int, int64) {
 	}
 	r := binarySplit(term, 0, terms, 0)
 	// π = 426880 √10005 Q / T, all scaled by 2^prec.
-	wide := prec + 32
-	sqrt := isqrt(new(big.Int).Lsh(big.NewInt(10005), 2*wide)) // floor(√10005 · 2^wide)
+	// √10005 = 10005/√10005 from the division-free inverse square root:
+	// |10005·X − √10005·2^wide| ≤ 10005·invSqrtErr, which becomes at most
+	// π/√10005 · 10005·invSqrtErr + 1 ≈ 1300 units of 2^-wide in the quotient,
+	// below one unit once the 64 guard bits are dropped.
+	wide := prec + 64
+	sqrt := invSqrt(10005, wide)
+	sqrt.Mul(sqrt, big.NewInt(10005))
 	num := mul(sqrt, r.Q)
 	num.Mul(num, big.NewInt(426880))
 	num.Abs(num)
 	den := new(big.Int).Abs(r.T)
-	v := quo(num, den) // ≈ π·2^wide, |error| ≤ a few units of 2^-wide
-	v.Rsh(v, 32)
+	v := quo(num, den)
+	v.Rsh(v, 64)
 	v.Sub(v, new(big.Int).Lsh(big.NewInt(3), prec))
 	return v, 2
 }

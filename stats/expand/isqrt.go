@@ -31,3 +31,32 @@ func isqrt(n *big.Int) *big.Int {
 		r.Set(next)
 	}
 }
+
+// invSqrt returns X ≈ 2^p/√a for a small integer a ≥ 2, with
+// |X − 2^p/√a| ≤ invSqrtErr units, by Newton's iteration for the inverse
+// square root, x ← x + x(1 − a x²)/2, with precision doubling (Brent &
+// Zimmermann, Modern Computer Arithmetic, §4.2.3): only multiplications, no
+// division. From X_h good to h = p/2 + 32 bits,
+//
+//	E = 2^(2h) − a·X_h²,   X = X_h·2^(p−h) + X_h·E / 2^(3h+1−p),
+//
+// whose error is (3/2)ε² relative (ε ≤ 2^-(h-3)) plus two truncations: a few
+// units. Small p is exact: floor(√floor(4^p/a)) = floor(2^p/√a).
+func invSqrt(a int64, p uint) *big.Int {
+	if p <= 256 {
+		n := new(big.Int).Lsh(one, 2*p)
+		return isqrt(n.Quo(n, big.NewInt(a)))
+	}
+	h := p/2 + 32
+	x := invSqrt(a, h)
+	e := new(big.Int).Lsh(one, 2*h)
+	e.Sub(e, new(big.Int).Mul(mul(x, x), big.NewInt(a)))
+	c := mul(x, e)
+	c.Rsh(c, 3*h+1-p)
+	x.Lsh(x, p-h)
+	return x.Add(x, c)
+}
+
+// invSqrtErr bounds invSqrt's error in units of 2^-p (TestInvSqrt checks it
+// against the exact floor).
+const invSqrtErr = 4

@@ -107,3 +107,20 @@ func TestIsqrt(t *testing.T) {
 		}
 	}
 }
+
+// invSqrt against the exact floor(√(4^p/a)) = floor(2^p/√a) from isqrt
+// (itself checked against math/big above), at precisions that take several
+// Newton levels.
+func TestInvSqrt(t *testing.T) {
+	for _, a := range []int64{2, 3, 5, 10005, 999999} {
+		for _, p := range []uint{100, 300, 1000, 4321, 20000, 70001} {
+			n := new(big.Int).Lsh(one, 2*p)
+			want := isqrt(n.Quo(n, big.NewInt(a)))
+			got := invSqrt(a, p)
+			d := new(big.Int).Sub(got, want)
+			if d.CmpAbs(big.NewInt(invSqrtErr)) > 0 {
+				t.Fatalf("invSqrt(%d, %d) is off by %v units (bound %d)", a, p, d, invSqrtErr)
+			}
+		}
+	}
+}

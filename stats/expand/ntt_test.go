@@ -1,0 +1,42 @@
+package expand
+
+import (
+	"math/big"
+	"math/rand/v2"
+	"testing"
+)
+
+// TestNTTMul checks the three-prime NTT product against math/big's own
+// multiplication (schoolbook/Karatsuba, an independent implementation) on
+// random operands, all-ones operands (the largest coefficients, which test
+// the CRT bound) and squares.
+func TestNTTMul(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	random := func(words int) *big.Int {
+		w := make([]big.Word, words)
+		for i := range w {
+			w[i] = big.Word(rng.Uint64())
+		}
+		return new(big.Int).SetBits(w)
+	}
+	ones := func(words int) *big.Int {
+		v := new(big.Int).Lsh(one, uint(64*words))
+		return v.Sub(v, one)
+	}
+	sizes := [][2]int{{1, 1}, {1, 7}, {3, 5}, {64, 64}, {100, 3000}, {2048, 2048}, {4097, 4095}, {5000, 17}, {20000, 30000}, {1 << 15, 1 << 15}}
+	for _, s := range sizes {
+		for _, gen := range []func(int) *big.Int{random, ones} {
+			a, b := gen(s[0]), gen(s[1])
+			if s[0] > 1 && rng.IntN(2) == 0 {
+				a.Neg(a)
+			}
+			want := new(big.Int).Mul(a, b)
+			if got := nttMul(a, b); got.Cmp(want) != 0 {
+				t.Fatalf("%d×%d words: product differs from math/big", s[0], s[1])
+			}
+			if got := nttMul(a, a); got.Cmp(new(big.Int).Mul(a, a)) != 0 {
+				t.Fatalf("%d words: square differs from math/big", s[0])
+			}
+		}
+	}
+}
