@@ -26,7 +26,7 @@ func piFixed(prec uint) (*big.Int, int64) {
 		q = new(big.Int).Mul(big.NewInt(k*k*k), c3)
 		return a, b, p, q
 	}
-	r := binarySplit(term, 0, terms, 0)
+	r := binarySplit(term, 0, terms, 0, false)
 	// π = 426880 √10005 Q / T, all scaled by 2^prec.
 	// √10005 = 10005/√10005 from the division-free inverse square root:
 	// |10005·X − √10005·2^wide| ≤ 10005·invSqrtErr, which becomes at most
@@ -35,10 +35,16 @@ func piFixed(prec uint) (*big.Int, int64) {
 	wide := prec + 64
 	sqrt := invSqrt(10005, wide)
 	sqrt.Mul(sqrt, big.NewInt(10005))
-	num := mul(sqrt, r.Q)
+	// Q and T have about 2.3 times the bits the precision needs; only their
+	// ratio matters, so both drop the same low bits, keeping wide+64 bits
+	// of T: a relative error below 2^-(wide+62), under one more unit.
+	q, den := new(big.Int).Abs(r.Q), new(big.Int).Abs(r.T)
+	if sh := den.BitLen() - int(wide+64); sh > 0 {
+		q.Rsh(q, uint(sh))
+		den.Rsh(den, uint(sh))
+	}
+	num := mul(sqrt, q)
 	num.Mul(num, big.NewInt(426880))
-	num.Abs(num)
-	den := new(big.Int).Abs(r.T)
 	v := quo(num, den)
 	v.Rsh(v, 64)
 	v.Sub(v, new(big.Int).Lsh(big.NewInt(3), prec))

@@ -114,30 +114,57 @@ func newPowerCache(base int) *powerCache {
 	return &powerCache{base: int64(base), pows: map[int]*big.Int{}, invs: map[int]*big.Int{}, prec: map[int]uint{}}
 }
 
-// get returns base^h (h = leaf·2^j) with its reciprocal for quotients of up
-// to h digits.
-func (c *powerCache) get(h int) (*big.Int, *big.Int, uint) {
+// pow returns base^h, cached: from the square of base^(h/2) for even h
+// above the leaf size (the conversions use h = leaf·2^j), else directly.
+func (c *powerCache) pow(h int) *big.Int {
 	c.mu.Lock()
-	defer c.mu.Unlock()
-	if p, ok := c.pows[h]; ok {
-		return p, c.invs[h], c.prec[h]
+	p, ok := c.pows[h]
+	c.mu.Unlock()
+	if ok {
+		return p
 	}
-	var p *big.Int
-	if h <= leafDigits {
-		p = new(big.Int).Exp(big.NewInt(c.base), big.NewInt(int64(h)), nil)
-	} else {
-		c.mu.Unlock()
-		half, _, _ := c.get(h / 2)
+	if h > leafDigits && h%2 == 0 {
+		half := c.pow(h / 2)
 		p = mul(half, half)
-		c.mu.Lock()
+	} else {
+		p = new(big.Int).Exp(big.NewInt(c.base), big.NewInt(int64(h)), nil)
 	}
-	prec := uint(p.BitLen()) + 64
-	var inv *big.Int
+	c.mu.Lock()
+	if q, ok := c.pows[h]; ok {
+		p = q
+	} else {
+		c.pows[h] = p
+	}
+	c.mu.Unlock()
+	return p
+}
+
+// get returns base^h with its reciprocal for quotients of up to h digits.
+func (c *powerCache) get(h int) (*big.Int, *big.Int, uint) {
+	p := c.pow(h)
+	c.mu.Lock()
+	inv, ok := c.invs[h]
+	prec := c.prec[h]
+	c.mu.Unlock()
+	if ok {
+		return p, inv, prec
+	}
+	prec = uint(p.BitLen()) + 64
 	if p.BitLen() >= directBits {
 		inv = recip(p, prec)
 	}
-	c.pows[h], c.invs[h], c.prec[h] = p, inv, prec
+	c.mu.Lock()
+	c.invs[h], c.prec[h] = inv, prec
+	c.mu.Unlock()
 	return p, inv, prec
+}
+
+// warm computes base^(leaf·2^j) for every leaf·2^j < n in order, so that
+// parallel conversions find them instead of squaring twice.
+func (c *powerCache) warm(n int) {
+	for h := leafDigits; h < n; h *= 2 {
+		c.pow(h)
+	}
 }
 
 // convert writes v (0 ≤ v < base^len(out)) as len(out) base-b digits into
@@ -147,19 +174,7 @@ func (c *powerCache) get(h int) (*big.Int, *big.Int, uint) {
 func convert(v *big.Int, out []byte, base int, c *powerCache, depth int) {
 	n := len(out)
 	if n <= 2*leafDigits {
-		s := v.Text(base)
-		off := n - len(s)
-		for i := 0; i < off; i++ {
-			out[i] = 0
-		}
-		for i := 0; i < len(s); i++ {
-			ch := s[i]
-			if ch <= '9' {
-				out[off+i] = ch - '0'
-			} else {
-				out[off+i] = ch - 'a' + 10
-			}
-		}
+		writeDigits(v, out, base)
 		return
 	}
 	h := leafDigits

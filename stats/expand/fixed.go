@@ -18,7 +18,7 @@ const guardBits = 64
 
 // bitsFor returns the binary precision that n base-b digits need.
 func bitsFor(n int, base int) uint {
-	return uint(math.Ceil(float64(n)*math.Log2(float64(base)))) + guardBits
+	return uint(math.Ceil(float64(n)*math.Log2(float64(base)))) + guardBits + 8 // + 8: fracBits's margin
 }
 
 // digitsFrom returns the first n base-b digits after the point of the
@@ -33,10 +33,16 @@ func digitsFrom(f fixedFunc, n, base int) ([]byte, error) {
 	if n == 0 {
 		return []byte{}, nil
 	}
-	scale := pow(int64(base), n)
+	var scale *big.Int
 	for extra := uint(0); extra <= 4096; extra = 2*extra + guardBits {
 		prec := bitsFor(n, base) + extra
 		v, e := f(prec)
+		if d, ok := fastDigits(v, e, prec, n, base); ok {
+			return d, nil
+		}
+		if scale == nil {
+			scale = pow(int64(base), n)
+		}
 		lo := mul(new(big.Int).Sub(v, big.NewInt(e)), scale)
 		lo.Rsh(lo, prec)
 		hi := mul(new(big.Int).Add(v, big.NewInt(e+1)), scale) // floor truncates: true value < v + e + 1
@@ -46,6 +52,31 @@ func digitsFrom(f fixedFunc, n, base int) ([]byte, error) {
 		}
 	}
 	return nil, fmt.Errorf("could not decide the digits of the constant to %d places", n)
+}
+
+// fastDigits is digitsFrom's usual path: the digits of the lower end
+// V = v − e of the error interval by the scaled remainder tree, which also
+// bounds frac(V·b^n/2^prec) from above; the upper end (V + 2e + 1) is at
+// most (2e+1)·b^n·2^-prec ≤ 2e+1 units of 2^-64 higher (prec ≥ n·log2 b +
+// 64), so both ends have the same n digits when the bound plus 2e+1 stays
+// below 1. Otherwise (or for powers of two, or a value too close to 0) it
+// reports false and digitsFrom takes the exact integer path.
+func fastDigits(v *big.Int, e int64, prec uint, n, base int) ([]byte, bool) {
+	if base&(base-1) == 0 || prec < fracBits(n, base) || n <= 2*leafDigits {
+		return nil, false
+	}
+	V := new(big.Int).Sub(v, big.NewInt(e))
+	if V.Sign() < 0 || V.BitLen() > int(prec) {
+		return nil, false
+	}
+	d := make([]byte, n)
+	c := newPowerCache(base)
+	c.warm(n)
+	left, ok := fracDigits(V, prec, d, base, c, 0)
+	if !ok || left >= math.MaxUint64-uint64(2*e+1) {
+		return nil, false
+	}
+	return d, true
 }
 
 // toDigits writes v (0 ≤ v < base^n) as exactly n base-b digits.
@@ -88,8 +119,13 @@ type bsResult struct{ P, Q, B, T *big.Int }
 //
 //	P = P_l P_r, Q = Q_l Q_r, B = B_l B_r, T = B_r Q_r T_l + B_l P_l T_r.
 //
-// The top two levels run on separate goroutines.
-func binarySplit(term bsTerm, n1, n2 int64, depth int) bsResult {
+// P is not formed where no caller needs it (the root, and right children of
+// nodes that do not need it). The top two levels run on separate
+// goroutines. Large nodes of series with b = 1 (π, e) multiply in the
+// transform domain: P_l and Q_r are transformed once for their two uses
+// and T's two products are added before one inverse transform (9
+// transforms where separate products take 12).
+func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool) bsResult {
 	if n2-n1 == 1 {
 		a, b, p, q := term(n1)
 		return bsResult{P: p, Q: q, B: b, T: new(big.Int).Mul(a, p)}
@@ -99,22 +135,50 @@ func binarySplit(term bsTerm, n1, n2 int64, depth int) bsResult {
 	if depth < 2 {
 		var wg sync.WaitGroup
 		wg.Add(1)
-		go func() { defer wg.Done(); l = binarySplit(term, n1, m, depth+1) }()
-		r = binarySplit(term, m, n2, depth+1)
+		go func() { defer wg.Done(); l = binarySplit(term, n1, m, depth+1, true) }()
+		r = binarySplit(term, m, n2, depth+1, needP)
 		wg.Wait()
 	} else {
-		l = binarySplit(term, n1, m, depth+1)
-		r = binarySplit(term, m, n2, depth+1)
+		l = binarySplit(term, n1, m, depth+1, true)
+		r = binarySplit(term, m, n2, depth+1, needP)
+	}
+	if isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
+		return fusedNode(l, r, needP)
 	}
 	t1 := mul(mul(r.B, r.Q), l.T)
 	t2 := mul(mul(l.B, l.P), r.T)
-	return bsResult{P: mul(l.P, r.P), Q: mul(l.Q, r.Q), B: mul(l.B, r.B), T: t1.Add(t1, t2)}
+	res := bsResult{Q: mul(l.Q, r.Q), B: mul(l.B, r.B), T: t1.Add(t1, t2)}
+	if needP {
+		res.P = mul(l.P, r.P)
+	}
+	return res
+}
+
+func isOne(v *big.Int) bool { return v.BitLen() == 1 && v.Sign() > 0 }
+
+// fusedNode combines two halves with b = 1 in the transform domain.
+func fusedNode(l, r bsResult, needP bool) bsResult {
+	w := func(v *big.Int) int { return len(v.Bits()) }
+	words := max(w(r.Q)+w(l.T), w(l.P)+w(r.T), w(l.Q)+w(r.Q))
+	ops := []*big.Int{l.P, r.T, r.Q, l.T, l.Q}
+	if needP {
+		words = max(words, w(l.P)+w(r.P))
+		ops = append(ops, r.P)
+	}
+	s := spectra(nttLen(words+1), ops...)
+	res := bsResult{B: one,
+		T: sumOfProducts(product{s[2], s[3]}, product{s[0], s[1]}),
+		Q: sumOfProducts(product{s[4], s[2]})}
+	if needP {
+		res.P = sumOfProducts(product{s[0], s[5]})
+	}
+	return res
 }
 
 // seriesFixed returns floor(S·2^prec) for the series summed over [0, n)
 // (the caller bounds the tail by one unit).
 func seriesFixed(term bsTerm, n int64, prec uint) *big.Int {
-	r := binarySplit(term, 0, n, 0)
+	r := binarySplit(term, 0, n, 0, false)
 	return quo(new(big.Int).Lsh(r.T, prec), mul(r.B, r.Q))
 }
 

@@ -258,33 +258,128 @@ func load(x []uint64, v []big.Word, p uint64) {
 	clear(x[len(v):])
 }
 
-// convolveMod computes the cyclic convolution of a and b (length n) modulo
-// q.p, scaled to natural order, into a new slice with values in [0, p).
-func convolveMod(q *nttPrime, a, b []big.Word, n int, square bool) []uint64 {
-	tw, twp := q.tables(n)
-	p := q.p
-	x := make([]uint64, n)
-	load(x, a, p)
-	forward(x, tw, twp, p)
-	y := x
-	if !square {
-		y = make([]uint64, n)
-		load(y, b, p)
-		forward(y, tw, twp, p)
+// A spectrum is the forward transform of |v| modulo each of the three
+// primes, at length n (bit-reversed order, values in [0, 2p)). Products are
+// formed from spectra, so an operand used twice is transformed once.
+type spectrum struct {
+	n     int
+	words int
+	neg   bool
+	r     [3][]uint64
+}
+
+// nttLen is the transform length for a product of w words.
+func nttLen(w int) int {
+	n := 1
+	for n < w {
+		n *= 2
 	}
-	// Pointwise x·y·2^-64 (Montgomery), then × 2^64/n (Shoup) = x·y/n.
-	cMont := mulMod(powMod(2, 64, p), powMod(uint64(n), p-2, p), p) // 2^64/n mod p
-	cMontP, _ := bits.Div64(cMont, 0, p)
-	pinv := q.pinv
-	for i := range x {
-		hi, lo := bits.Mul64(x[i], y[i])
-		m := lo * pinv
-		mh, _ := bits.Mul64(m, p)
-		t := hi - mh
-		if hi < mh {
-			t += p
+	return n
+}
+
+// newSpectrum transforms v at length n (the three primes in parallel).
+func newSpectrum(v *big.Int, n int) *spectrum {
+	s := &spectrum{n: n, words: len(v.Bits()), neg: v.Sign() < 0}
+	w := v.Bits()
+	var wg sync.WaitGroup
+	for i, q := range nttPrimes {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			tw, twp := q.tables(n)
+			x := make([]uint64, n)
+			load(x, w, q.p)
+			forward(x, tw, twp, q.p)
+			s.r[i] = x
+		}()
+	}
+	wg.Wait()
+	return s
+}
+
+// spectra transforms several operands at length n concurrently.
+func spectra(n int, vs ...*big.Int) []*spectrum {
+	out := make([]*spectrum, len(vs))
+	var wg sync.WaitGroup
+	for i, v := range vs {
+		wg.Add(1)
+		go func() { defer wg.Done(); out[i] = newSpectrum(v, n) }()
+	}
+	wg.Wait()
+	return out
+}
+
+// A product term of a sum of products.
+type product struct{ a, b *spectrum }
+
+// sumOfProducts returns Σ a_k·b_k (signed) from spectra of a common
+// length n, which must be at least the words of every product (the caller
+// chooses n = nttLen(max words)). Up to three terms.
+func sumOfProducts(terms ...product) *big.Int {
+	n := terms[0].a.n
+	words := 0
+	negative := make([]bool, len(terms))
+	mixed := false
+	for k, t := range terms {
+		words = max(words, t.a.words+t.b.words)
+		negative[k] = t.a.neg != t.b.neg
+		mixed = mixed || negative[k] != negative[0]
+	}
+	if words > n {
+		panic("expand: transform too short for the product")
+	}
+	var r [3][]uint64
+	var wg sync.WaitGroup
+	for i, q := range nttPrimes {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			r[i] = pointwiseInverse(q, terms, negative, n)
+		}()
+	}
+	wg.Wait()
+	z := garner(r, words+1, mixed)
+	if negative[0] {
+		z.Neg(z) // all terms shared the first one's sign: magnitudes were added
+	}
+	return z
+}
+
+// pointwiseInverse forms Σ ±a_k·b_k / n pointwise (Montgomery products, then
+// a Shoup product by 2^64/n) and inverts the transform: values in [0, p).
+// When the signs differ the terms of the first sign are added and the
+// others subtracted, so coefficients are taken as signed by garner.
+func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []uint64 {
+	p, pinv := q.p, q.pinv
+	k := 0
+	for i, q := range nttPrimes {
+		if q.p == p {
+			k = i
 		}
-		x[i] = shoup(t, cMont, cMontP, p)
+	}
+	tw, twp := q.tables(n)
+	c := mulMod(powMod(2, 64, p), powMod(uint64(n), p-2, p), p) // 2^64/n mod p
+	cp, _ := bits.Div64(c, 0, p)
+	x := make([]uint64, n)
+	for t, term := range terms {
+		a, b := term.a.r[k], term.b.r[k]
+		a, b = a[:n], b[:n]
+		sub := negative[t] != negative[0]
+		for i := range x {
+			hi, lo := bits.Mul64(a[i], b[i])
+			mh, _ := bits.Mul64(lo*pinv, p)
+			v := hi - mh // a·b·2^-64 in (−p, p)
+			if hi < mh {
+				v += p
+			}
+			if sub {
+				v = p - v // [1, p]
+			}
+			x[i] += v // at most 3 terms: below 3p < 2^64
+		}
+	}
+	for i, v := range x {
+		x[i] = shoup(v, c, cp, p)
 	}
 	inverse(x, tw, twp, p)
 	p2 := 2 * p
@@ -310,88 +405,102 @@ var (
 	p1m3         = p1 % p3
 	p1m3p, _     = bits.Div64(p1m3, 0, p3)
 	p12hi, p12lo = bits.Mul64(p1, p2)
+	// p1 p2 p3 and half of it, three words, least significant first.
+	p123, p123half = func() ([3]uint64, [3]uint64) {
+		h, l := p12hi, p12lo
+		h1, l1 := bits.Mul64(l, p3)
+		h2, l2 := bits.Mul64(h, p3)
+		w1, c := bits.Add64(h1, l2, 0)
+		full := [3]uint64{l1, w1, h2 + c}
+		half := [3]uint64{full[0]>>1 | full[1]<<63, full[1]>>1 | full[2]<<63, full[2] >> 1}
+		return full, half
+	}()
 )
 
-// nttMulWords returns the product of the natural numbers with words a and b.
-func nttMulWords(a, b []big.Word) []big.Word {
-	out := len(a) + len(b)
-	n := 1
-	for n < out {
-		n *= 2
-	}
-	square := len(a) == len(b) && &a[0] == &b[0]
-	var r [3][]uint64
-	var wg sync.WaitGroup
-	for i := range nttPrimes {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			r[i] = convolveMod(nttPrimes[i], a, b, n, square)
-		}()
-	}
-	wg.Wait()
-	z := make([]big.Word, out)
+// garner recovers each coefficient from its three residues (Garner's
+// mixed-radix form x = v1 + p1·v2 + p1 p2·v3) and adds the coefficients,
+// each shifted by its index in words, into a number of `words` words. When
+// signed, a coefficient above (p1 p2 p3)/2 stands for itself minus p1 p2 p3
+// (the true coefficients are below N·2^128 in absolute value).
+func garner(r [3][]uint64, words int, signed bool) *big.Int {
 	r1, r2, r3 := r[0], r[1], r[2]
-	var a0, a1, a2 uint64 // pending sum at positions i, i+1, i+2
+	n := len(r1)
+	r2, r3 = r2[:n], r3[:n]
+	z := make([]big.Word, words)
+	var a0, a1, a2, a3 uint64 // pending sum at positions i..i+3 (two's complement)
 	for i := range z {
-		var x0, x1, x2 uint64
+		var x0, x1, x2, x3 uint64
 		if i < n {
 			v1 := r1[i]
-			// v2 = (r2 - v1)·p1^-1 mod p2
-			t := v1
+			t := v1 // v2 = (r2 − v1)·p1^-1 mod p2
 			if t >= p2 {
 				t -= p2
 			}
-			t = r2[i] + p2 - t
-			v2 := shoup(t, inv12, inv12p, p2)
+			v2 := shoup(r2[i]+p2-t, inv12, inv12p, p2)
 			if v2 >= p2 {
 				v2 -= p2
 			}
-			// v3 = (r3 - v1 - p1·v2)·(p1 p2)^-1 mod p3
-			u := v1
+			u := v1 // v3 = (r3 − v1 − p1·v2)·(p1 p2)^-1 mod p3
 			if u >= p3 {
 				u -= p3
 			}
-			s := shoup(v2, p1m3, p1m3p, p3) // [0, 2p3)
-			s += u                          // [0, 3p3)
-			for s >= p3 {
+			s := shoup(v2, p1m3, p1m3p, p3) + u // [0, 3p3)
+			if s >= 2*p3 {
+				s -= 2 * p3
+			}
+			if s >= p3 {
 				s -= p3
 			}
 			v3 := shoup(r3[i]+p3-s, inv123, inv123p, p3)
 			if v3 >= p3 {
 				v3 -= p3
 			}
-			// x = v1 + p1·v2 + p1 p2·v3
+			// x = v1 + p1·v2 + (p1 p2)·v3, three words.
 			h, l := bits.Mul64(p1, v2)
 			var c uint64
 			x0, c = bits.Add64(l, v1, 0)
 			x1 = h + c
 			bh, bl := bits.Mul64(v3, p12lo)
 			ch, cl := bits.Mul64(v3, p12hi)
-			x0, c = bits.Add64(x0, 0, 0)
-			var c2 uint64
-			x1, c = bits.Add64(x1, bh, 0)
-			x1, c2 = bits.Add64(x1, cl, 0)
-			x2 = ch + c + c2
 			x0, c = bits.Add64(x0, bl, 0)
-			x1, c = bits.Add64(x1, 0, c)
+			x1, c = bits.Add64(x1, bh, c)
+			x2 = ch + c
+			x1, c = bits.Add64(x1, cl, 0)
 			x2 += c
+			if signed && (x2 > p123half[2] || x2 == p123half[2] && (x1 > p123half[1] || x1 == p123half[1] && x0 > p123half[0])) {
+				var b uint64
+				x0, b = bits.Sub64(x0, p123[0], 0)
+				x1, b = bits.Sub64(x1, p123[1], b)
+				x2, _ = bits.Sub64(x2, p123[2], b)
+				x3 = ^uint64(0)
+			}
 		}
 		var c uint64
 		a0, c = bits.Add64(a0, x0, 0)
 		a1, c = bits.Add64(a1, x1, c)
-		a2, _ = bits.Add64(a2, x2, c)
+		a2, c = bits.Add64(a2, x2, c)
+		a3, _ = bits.Add64(a3, x3, c)
 		z[i] = big.Word(a0)
-		a0, a1, a2 = a1, a2, 0
+		a0, a1, a2, a3 = a1, a2, a3, uint64(int64(a3)>>63)
 	}
-	return z
+	if int64(a0) < 0 { // the sum is negative: z holds its two's complement
+		for i := range z {
+			z[i] = ^z[i]
+		}
+		v := new(big.Int).SetBits(z)
+		v.Add(v, one)
+		return v.Neg(v)
+	}
+	return new(big.Int).SetBits(z)
 }
 
-// nttMul returns a·b by nttMulWords, with signs.
+// nttMul returns a·b (signed) by the transforms.
 func nttMul(a, b *big.Int) *big.Int {
-	z := new(big.Int).SetBits(nttMulWords(a.Bits(), b.Bits()))
-	if a.Sign()*b.Sign() < 0 {
-		z.Neg(z)
+	n := nttLen(len(a.Bits()) + len(b.Bits()))
+	if a == b {
+		s := newSpectrum(a, n)
+		return sumOfProducts(product{s, s})
 	}
-	return z
+	s := spectra(n, a, b)
+	return sumOfProducts(product{s[0], s[1]})
 }

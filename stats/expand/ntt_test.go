@@ -40,3 +40,35 @@ func TestNTTMul(t *testing.T) {
 		}
 	}
 }
+
+// TestSumOfProducts checks signed sums of products formed in the transform
+// domain (as binary splitting uses them) against math/big.
+func TestSumOfProducts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	random := func(words int) *big.Int {
+		w := make([]big.Word, words)
+		for i := range w {
+			w[i] = big.Word(rng.Uint64())
+		}
+		v := new(big.Int).SetBits(w)
+		if rng.IntN(2) == 0 {
+			v.Neg(v)
+		}
+		return v
+	}
+	for trial := range 40 {
+		w := 1 + rng.IntN(3000)
+		a, b, c, d := random(w), random(w/2+1), random(w), random(1+rng.IntN(w))
+		if trial%5 == 0 {
+			c.Neg(a) // cancellation: a·b − a·b' with b' near b
+			d.Add(b, big.NewInt(1))
+		}
+		n := nttLen(max(len(a.Bits())+len(b.Bits()), len(c.Bits())+len(d.Bits())))
+		s := spectra(n, a, b, c, d)
+		want := new(big.Int).Mul(a, b)
+		want.Add(want, new(big.Int).Mul(c, d))
+		if got := sumOfProducts(product{s[0], s[1]}, product{s[2], s[3]}); got.Cmp(want) != 0 {
+			t.Fatalf("trial %d (%d words): a·b + c·d differs from math/big", trial, w)
+		}
+	}
+}

@@ -124,3 +124,45 @@ func TestInvSqrt(t *testing.T) {
 		}
 	}
 }
+
+// fracDigits (the scaled remainder tree) against the exact integer
+// conversion of floor(F·b^n/2^Q) by big.Int.Text, on random fractions and on
+// fractions built to sit just above and below digit boundaries, where the
+// guard-bit tests must either give the exact digits or report failure.
+func TestFracDigits(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := range 40 {
+		base := []int{2, 3, 7, 10, 16, 36}[trial%6]
+		n := 1 + rng.IntN(40000)
+		Q := fracBits(n, base) + uint(rng.IntN(100))
+		words := make([]big.Word, (Q+63)/64)
+		for i := range words {
+			words[i] = big.Word(rng.Uint64())
+		}
+		F := new(big.Int).SetBits(words)
+		F.Mod(F, new(big.Int).Lsh(one, Q))
+		if trial%4 == 1 { // just below a boundary at digit n/3: ...d999...
+			k := n/3 + 1
+			bk := new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(k)), nil)
+			m := new(big.Int).Lsh(one, Q)
+			m.Mul(m, big.NewInt(int64(rng.IntN(1000)+1))).Quo(m, bk) // a multiple of b^-k, rounded down
+			F.Set(m)
+		}
+		want := new(big.Int).Mul(F, new(big.Int).Exp(big.NewInt(int64(base)), big.NewInt(int64(n)), nil))
+		want.Rsh(want, Q)
+		wantDigits := make([]byte, n)
+		writeDigits(want, wantDigits, base)
+		got := make([]byte, n)
+		c := newPowerCache(base)
+		c.warm(n)
+		if _, ok := fracDigits(F, Q, got, base, c, 0); ok {
+			if !bytes.Equal(got, wantDigits) {
+				t.Fatalf("trial %d (base %d, %d digits): fracDigits differs from the exact digits", trial, base, n)
+			}
+		} else if testing.Verbose() && trial%4 == 1 {
+			t.Logf("trial %d: near a boundary, reported failure", trial)
+		} else if trial%4 != 1 {
+			t.Fatalf("trial %d: fracDigits failed on a random fraction (probability about 2^-60)", trial)
+		}
+	}
+}
