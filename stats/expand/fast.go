@@ -27,9 +27,13 @@ const directBits = 1 << 17
 
 // recip returns an approximation x of 2^(n+p)/d, n = bitlen(d) (d > 0),
 // good to a few units in its last place, by Newton's iteration with
-// precision doubling: the reciprocal of d's top bits at half precision, then
-// one step x ← x + x(2^(n+p) − d x)/2^(n+p) at full precision, which squares
-// the relative error (Brent & Zimmermann, Modern Computer Arithmetic, §3.4).
+// precision doubling (Brent & Zimmermann, Modern Computer Arithmetic, §3.4):
+// X ≈ 2^(n+h)/d at h = p/2 + 32 bits from d's top bits, then
+//
+//	E = 2^(n+h) − d·X,   x = X·2^(p−h) + X·E·2^(p−h)/2^(n+h),
+//
+// which squares the relative error. Only the bits that reach the result are
+// multiplied: d's top p+64 bits in d·X, E's top p−h+64 bits in X·E.
 func recip(d *big.Int, p uint) *big.Int {
 	n := uint(d.BitLen())
 	if p+n <= 2*directBits {
@@ -38,14 +42,26 @@ func recip(d *big.Int, p uint) *big.Int {
 	}
 	h := p/2 + 32
 	keep := min(n, h+32)
-	dt := new(big.Int).Rsh(d, n-keep)
-	x := recip(dt, h) // ≈ 2^(keep+h)/dt ≈ 2^(n+h)/d
-	x.Lsh(x, p-h)
-	e := new(big.Int).Lsh(one, n+p)
-	e.Sub(e, mul(d, x))
-	c := mul(x, e)
-	c.Rsh(c, n+p)
-	return x.Add(x, c)
+	X := recip(new(big.Int).Rsh(d, n-keep), h) // ≈ 2^(keep+h)/dt ≈ 2^(n+h)/d
+	var s1 uint
+	if n > p+64 {
+		s1 = n - (p + 64)
+	}
+	E := new(big.Int).Lsh(one, n+h-s1)
+	E.Sub(E, mul(new(big.Int).Rsh(d, s1), X)) // ≈ (2^(n+h) − d·X)/2^s1
+	var s2 uint
+	if b := uint(E.BitLen()); b > p-h+64 {
+		s2 = b - (p - h + 64)
+	}
+	E.Rsh(E, s2)
+	c := mul(X, E) // correction · 2^(n+2h−p−s1−s2)
+	if sh := int(n+2*h) - int(p) - int(s1+s2); sh >= 0 {
+		c.Rsh(c, uint(sh))
+	} else {
+		c.Lsh(c, uint(-sh))
+	}
+	X.Lsh(X, p-h)
+	return X.Add(X, c)
 }
 
 // quo returns floor(a/b) for a ≥ 0, b > 0: by a Newton reciprocal and two
@@ -68,8 +84,17 @@ func quoRem(a, b, inv *big.Int, p uint) (*big.Int, *big.Int) {
 		p = m + 32
 		inv = recip(b, p)
 	}
-	q := mul(a, inv)
-	q.Rsh(q, n+p)
+	// Only a's top m+64 bits reach the quotient; the few units this and
+	// the reciprocal are off by are corrected exactly below.
+	var q *big.Int
+	if sa := uint(a.BitLen()); sa > m+64 {
+		s := sa - (m + 64)
+		q = mul(new(big.Int).Rsh(a, s), inv)
+		q.Rsh(q, n+p-s)
+	} else {
+		q = mul(a, inv)
+		q.Rsh(q, n+p)
+	}
 	r := new(big.Int).Sub(a, mul(q, b))
 	for r.Sign() < 0 {
 		q.Sub(q, one)

@@ -36,13 +36,32 @@ func fracBits(n, base int) uint {
 // frac(F·b^n/2^Q), and ok = false if a guard-bit test failed (out is then
 // unusable).
 func fracDigits(F *big.Int, Q uint, out []byte, base int, c *powerCache, depth int) (leftover uint64, ok bool) {
+	_, hi, ok := fracDigitsBounds(F, Q, out, base, c)
+	return hi, ok
+}
+
+// fracDigitsBounds is fracDigits returning a lower bound on the leftover as
+// well: the rightmost leaf's exact leftover (rounded down), which the
+// truncations above it can only have lowered.
+func fracDigitsBounds(F *big.Int, Q uint, out []byte, base int, c *powerCache) (lo, hi uint64, ok bool) {
+	lo = math.MaxUint64
+	hi, ok = fracTree(F, Q, out, base, c, 0, &lo)
+	return lo, hi, ok
+}
+
+// fracTree is the recursion; the rightmost leaf stores its leftover in *last.
+func fracTree(F *big.Int, Q uint, out []byte, base int, c *powerCache, depth int, last *uint64) (leftover uint64, ok bool) {
 	n := len(out)
 	if n <= 2*leafDigits {
 		y := new(big.Int).Mul(F, c.pow(n))
 		rem := new(big.Int).Sub(y, new(big.Int).Lsh(new(big.Int).Rsh(y, Q), Q))
 		y.Rsh(y, Q)
 		writeDigits(y, out, base)
-		return fracTop(rem, Q), true
+		top := fracTop(rem, Q)
+		if last != nil {
+			*last = max(top, 1) - 1
+		}
+		return top, true
 	}
 	h := leafDigits
 	for 2*h < n {
@@ -66,12 +85,12 @@ func fracDigits(F *big.Int, Q uint, out []byte, base int, c *powerCache, depth i
 	if depth < 2 {
 		var wg sync.WaitGroup
 		wg.Add(1)
-		go func() { defer wg.Done(); _, ok1 = fracDigits(F1, Q1, out[:h], base, c, depth+1) }()
-		left, ok2 = fracDigits(R2, Q2, out[h:], base, c, depth+1)
+		go func() { defer wg.Done(); _, ok1 = fracTree(F1, Q1, out[:h], base, c, depth+1, nil) }()
+		left, ok2 = fracTree(R2, Q2, out[h:], base, c, depth+1, last)
 		wg.Wait()
 	} else {
-		_, ok1 = fracDigits(F1, Q1, out[:h], base, c, depth+1)
-		left, ok2 = fracDigits(R2, Q2, out[h:], base, c, depth+1)
+		_, ok1 = fracTree(F1, Q1, out[:h], base, c, depth+1, nil)
+		left, ok2 = fracTree(R2, Q2, out[h:], base, c, depth+1, last)
 	}
 	// R2 is below the exact remainder by less than 2^-(fracGuard+2) in
 	// units of the second part's last digit: its digits are exact unless

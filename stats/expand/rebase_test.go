@@ -166,3 +166,102 @@ func TestFracDigits(t *testing.T) {
 		}
 	}
 }
+
+// The fast rebase (one conversion, prefix from the digits) against the
+// exact one (both interval ends converted as integers), on random digit
+// strings and on strings whose interval ends sit on or near boundaries of
+// the target base: decimals that are dyadic (…5, …25, …0625 to base 2 and
+// 4-free bases), runs of 9s and 0s, and 1/3-like runs for base 3.
+func TestRebaseFastMatchesExact(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	type tc struct {
+		d        []byte
+		from, to int
+	}
+	var cases []tc
+	randomDigits := func(n, base int) []byte {
+		d := make([]byte, n)
+		for i := range d {
+			d[i] = byte(rng.IntN(base))
+		}
+		return d
+	}
+	for range 12 {
+		from := []int{10, 3, 7, 16, 36}[rng.IntN(5)]
+		to := []int{3, 10, 6, 7, 36}[rng.IntN(5)]
+		if from == to {
+			to = 5
+		}
+		cases = append(cases, tc{randomDigits(9000+rng.IntN(30000), from), from, to})
+	}
+	// 0.3333…3 (n digits) in base 10 to base 3: the upper end 0.333…34 is
+	// just above 1/3 = 0.1 (base 3), the lower end just below.
+	thirds := bytes.Repeat([]byte{3}, 20000)
+	cases = append(cases, tc{thirds, 10, 3})
+	// 0.5 followed by zeros: the lower end is exactly 1/2 = 0.111… in base 3.
+	half := make([]byte, 20000)
+	half[0] = 5
+	cases = append(cases, tc{half, 10, 3})
+	nines := bytes.Repeat([]byte{9}, 20000)
+	cases = append(cases, tc{nines, 10, 7})
+	zeros := make([]byte, 20000)
+	cases = append(cases, tc{zeros, 10, 7})
+	// Base 3 digits of a number then re-read: ends near base-3 boundaries.
+	tern := append(bytes.Repeat([]byte{2}, 15000), 1)
+	cases = append(cases, tc{tern, 3, 9 - 3})
+	for i, c := range cases {
+		n := len(c.d)
+		M := parseDigits(c.d, c.from)
+		j := int(math.Floor(float64(n)*math.Log(float64(c.from))/math.Log(float64(c.to)))) + 2
+		want := rebaseExact(M, n, c.from, c.to, j)
+		got, ok := rebaseFast(M, n, c.from, c.to, j)
+		if !ok {
+			t.Logf("case %d (%d→%d, %d digits): fast path declined (exact path used)", i, c.from, c.to, n)
+			continue
+		}
+		if !bytes.Equal(got, want) {
+			t.Fatalf("case %d (%d→%d, %d digits): fast rebase gives %d digits, exact %d (first difference at %d)",
+				i, c.from, c.to, n, len(got), len(want), firstDiff(got, want))
+		}
+	}
+}
+
+func firstDiff(a, b []byte) int {
+	i := 0
+	for i < len(a) && i < len(b) && a[i] == b[i] {
+		i++
+	}
+	return i
+}
+
+// 0.999 (base 10) stands for [0.999, 1): the upper end is 1, which used to
+// overflow the digit buffer. By hand: 0.999·7 = 6.993, ·7 = 6.951, ·7 =
+// 6.657, ·7 = 4.599, so 0.999 = 0.6664… in base 7 and the numbers just
+// below 1 read 0.6666…: three digits are determined.
+func TestRebaseAllNines(t *testing.T) {
+	if got := Rebase([]byte{9, 9, 9}, 10, 7); !bytes.Equal(got, []byte{6, 6, 6}) {
+		t.Fatalf("rebase of 0.999 to base 7 = %v, want [6 6 6]", got)
+	}
+}
+
+// quoRem (Newton reciprocal, truncated operands, exact correction) against
+// math/big's QuoRem on operands large enough for the fast path, including
+// quotients longer than the divisor and divisors longer than the quotient.
+func TestQuoRemLarge(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	random := func(words int) *big.Int {
+		w := make([]big.Word, words)
+		for i := range w {
+			w[i] = big.Word(rng.Uint64())
+		}
+		return new(big.Int).SetBits(w)
+	}
+	for _, s := range [][2]int{{9000, 4000}, {12000, 3000}, {9000, 6000}, {20000, 5000}, {7000, 3500}} {
+		a, b := random(s[0]), random(s[1])
+		q, r := quoRem(a, b, nil, 0)
+		wq, wr := new(big.Int).QuoRem(a, b, new(big.Int))
+		if q.Cmp(wq) != 0 || r.Cmp(wr) != 0 {
+			t.Fatalf("%d/%d words: quoRem differs from math/big", s[0], s[1])
+		}
+	}
+}
