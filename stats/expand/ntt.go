@@ -123,8 +123,37 @@ func forward(x, tw, twp []uint64, p uint64) {
 		}
 		return
 	}
-	for m := n / 2; m >= 1; m /= 2 {
-		difStage(x, m, tw, twp, p)
+	m := n / 2
+	for ; m >= 2; m /= 4 {
+		difStage2(x, m, tw, twp, p)
+	}
+	if m == 1 {
+		lastStage(x, p)
+	}
+}
+
+// lastStage is the stage of half-length 1, whose twiddle is 1:
+// (a, b) → (a + b, a − b), [0, 2p) → [0, 2p) (the DIT first stage is the
+// same map but leaves its outputs in [0, 4p), which ditStage accepts).
+func lastStage(x []uint64, p uint64) {
+	p2 := 2 * p
+	for i := 0; i+1 < len(x); i += 2 {
+		a, b := x[i], x[i+1]
+		if a >= p2 {
+			a -= p2
+		}
+		if b >= p2 {
+			b -= p2
+		}
+		t := a + b
+		if t >= p2 {
+			t -= p2
+		}
+		u := a + p2 - b
+		if u >= p2 {
+			u -= p2
+		}
+		x[i], x[i+1] = t, u
 	}
 }
 
@@ -153,49 +182,105 @@ func difStage(x []uint64, m int, tw, twp []uint64, p uint64) {
 func difStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
 	p2 := 2 * p
 	h := m / 2
-	x0, x1, x2, x3 := x[:h], x[h:m], x[m:m+h], x[m+h:2*m]
-	x1, x2, x3 = x1[:len(x0)], x2[:len(x0)], x3[:len(x0)]
 	wa, wap := tw[m:m+h], twp[m:m+h]     // w_{2m}^j
 	wb, wbp := tw[m+h:2*m], twp[m+h:2*m] // w_{2m}^(j+h)
 	wc, wcp := tw[h:m], twp[h:m]         // w_m^j
-	wa, wap, wb, wbp = wa[:len(x0)], wap[:len(x0)], wb[:len(x0)], wbp[:len(x0)]
-	wc, wcp = wc[:len(x0)], wcp[:len(x0)]
-	for j := range x0 {
-		a, b, c, d := x0[j], x1[j], x2[j], x3[j]
-		// stage m: (a, c) with w_{2m}^j, (b, d) with w_{2m}^(j+h)
-		t := a + c
-		if t >= p2 {
-			t -= p2
+	for s := 0; s+2*m <= len(x); s += 2 * m {
+		x0, x1, x2, x3 := x[s:s+h], x[s+h:s+m], x[s+m:s+m+h], x[s+m+h:s+2*m]
+		x1, x2, x3 = x1[:len(x0)], x2[:len(x0)], x3[:len(x0)]
+		wa, wap, wb, wbp := wa[:len(x0)], wap[:len(x0)], wb[:len(x0)], wbp[:len(x0)]
+		wc, wcp := wc[:len(x0)], wcp[:len(x0)]
+		for j := range x0 {
+			a, b, c, d := x0[j], x1[j], x2[j], x3[j]
+			// stage m: (a, c) with w_{2m}^j, (b, d) with w_{2m}^(j+h)
+			t := a + c
+			if t >= p2 {
+				t -= p2
+			}
+			c = shoup(a+p2-c, wa[j], wap[j], p)
+			a = t
+			t = b + d
+			if t >= p2 {
+				t -= p2
+			}
+			d = shoup(b+p2-d, wb[j], wbp[j], p)
+			b = t
+			// stage m/2: (a, b) and (c, d) with w_m^j
+			t = a + b
+			if t >= p2 {
+				t -= p2
+			}
+			x1[j] = shoup(a+p2-b, wc[j], wcp[j], p)
+			x0[j] = t
+			t = c + d
+			if t >= p2 {
+				t -= p2
+			}
+			x3[j] = shoup(c+p2-d, wc[j], wcp[j], p)
+			x2[j] = t
 		}
-		c = shoup(a+p2-c, wa[j], wap[j], p)
-		a = t
-		t = b + d
-		if t >= p2 {
-			t -= p2
-		}
-		d = shoup(b+p2-d, wb[j], wbp[j], p)
-		b = t
-		// stage m/2: (a, b) and (c, d) with w_m^j
-		t = a + b
-		if t >= p2 {
-			t -= p2
-		}
-		x1[j] = shoup(a+p2-b, wc[j], wcp[j], p)
-		x0[j] = t
-		t = c + d
-		if t >= p2 {
-			t -= p2
-		}
-		x3[j] = shoup(c+p2-d, wc[j], wcp[j], p)
-		x2[j] = t
 	}
 }
 
-// ditStage2 undoes difStage2: the stages of half-lengths m/2 then m in one
-// pass; inputs in [0, 2p)... [0, 4p), outputs in [0, 4p).
+// ditStage2 undoes difStage2: the stages of half-lengths m/2 and m in one
+// pass over each block of 2m; inputs below 2^64 with the first of each pair
+// in [0, 4p), outputs in [0, 4p). Inverse twiddles come from the forward
+// table: w_{2m}^-j = −tw[2m−j] (j ≥ 1), so products by tw[2m−j] enter with
+// the opposite sign.
 func ditStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
-	ditStage(x, m/2, tw, twp, p)
-	ditStage(x, m, tw, twp, p)
+	p2 := 2 * p
+	h := m / 2
+	for s := 0; s+2*m <= len(x); s += 2 * m {
+		x0, x1, x2, x3 := x[s:s+h], x[s+h:s+m], x[s+m:s+m+h], x[s+m+h:s+2*m]
+		x1, x2, x3 = x1[:len(x0)], x2[:len(x0)], x3[:len(x0)]
+		for j := range x0 {
+			a, b, c, d := x0[j], x1[j], x2[j], x3[j]
+			if a >= p2 {
+				a -= p2
+			}
+			if c >= p2 {
+				c -= p2
+			}
+			// stage h: (a, b) and (c, d) with w_m^-j
+			var tb, td uint64
+			if j == 0 {
+				if b >= p2 {
+					b -= p2
+				}
+				if d >= p2 {
+					d -= p2
+				}
+				tb, td = p2-b, p2-d // −b, −d in (0, 2p]
+			} else {
+				k := m - j
+				tb = shoup(b, tw[k], twp[k], p) // −b·w_m^-j
+				td = shoup(d, tw[k], twp[k], p)
+			}
+			a, b = a+p2-tb, a+tb // [0, 4p)
+			c, d = c+p2-td, c+td
+			if a >= p2 {
+				a -= p2
+			}
+			if b >= p2 {
+				b -= p2
+			}
+			// stage m: (a, c) with w_{2m}^-j, (b, d) with w_{2m}^-(j+h)
+			var tc uint64
+			if j == 0 {
+				if c >= p2 {
+					c -= p2
+				}
+				tc = p2 - c
+			} else {
+				k := 2*m - j
+				tc = shoup(c, tw[k], twp[k], p)
+			}
+			k := 2*m - j - h
+			tdd := shoup(d, tw[k], twp[k], p)
+			x0[j], x2[j] = a+p2-tc, a+tc
+			x1[j], x3[j] = b+p2-tdd, b+tdd
+		}
+	}
 }
 
 // inverse is the decimation-in-time transform without the 1/n factor:
@@ -210,8 +295,13 @@ func inverse(x, tw, twp []uint64, p uint64) {
 		ditStage2(x, n/2, tw, twp, p)
 		return
 	}
-	for m := 1; m < n; m *= 2 {
-		ditStage(x, m, tw, twp, p)
+	m := 1
+	if bits.TrailingZeros(uint(n))%2 == 1 {
+		lastStage(x, p)
+		m = 2
+	}
+	for ; m < n; m *= 4 {
+		ditStage2(x, 2*m, tw, twp, p)
 	}
 }
 
