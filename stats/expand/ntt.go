@@ -180,6 +180,10 @@ func difStage(x []uint64, m int, tw, twp []uint64, p uint64) {
 // difStage2 does the stages of half-lengths m and m/2 of one block of 2m in
 // one pass (radix 4), so that large transforms read memory half as often.
 func difStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
+	if m == 2 {
+		difQuads(x, tw[3], twp[3], p)
+		return
+	}
 	p2 := 2 * p
 	h := m / 2
 	wa, wap := tw[m:m+h], twp[m:m+h]     // w_{2m}^j
@@ -222,12 +226,95 @@ func difStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
 	}
 }
 
+// difQuads is difStage2 for m = 2, blocks of four, where three of the four
+// twiddles are 1 and the fourth is w = w_4 (w' its Shoup companion).
+func difQuads(x []uint64, w, wp, p uint64) {
+	p2 := 2 * p
+	for i := 0; i+3 < len(x); i += 4 {
+		q := x[i : i+4 : i+4]
+		a, b, c, d := q[0], q[1], q[2], q[3]
+		t := a + c
+		if t >= p2 {
+			t -= p2
+		}
+		c = a + p2 - c
+		if c >= p2 {
+			c -= p2
+		}
+		a = t
+		t = b + d
+		if t >= p2 {
+			t -= p2
+		}
+		d = shoup(b+p2-d, w, wp, p)
+		b = t
+		t = a + b
+		if t >= p2 {
+			t -= p2
+		}
+		u := a + p2 - b
+		if u >= p2 {
+			u -= p2
+		}
+		q[0], q[1] = t, u
+		t = c + d
+		if t >= p2 {
+			t -= p2
+		}
+		u = c + p2 - d
+		if u >= p2 {
+			u -= p2
+		}
+		q[2], q[3] = t, u
+	}
+}
+
+// ditQuads is ditStage2 for m = 2: the pairs (0,1), (2,3) with twiddle 1,
+// then (0,2) with 1 and (1,3) with w_4^-1 = −w_4 (w = tw[3]).
+func ditQuads(x []uint64, w, wp, p uint64) {
+	p2 := 2 * p
+	for i := 0; i+3 < len(x); i += 4 {
+		q := x[i : i+4 : i+4]
+		a, b, c, d := q[0], q[1], q[2], q[3]
+		if a >= p2 {
+			a -= p2
+		}
+		if b >= p2 {
+			b -= p2
+		}
+		if c >= p2 {
+			c -= p2
+		}
+		if d >= p2 {
+			d -= p2
+		}
+		a, b = a+b, a+p2-b // [0, 4p)
+		c, d = c+d, c+p2-d
+		if a >= p2 {
+			a -= p2
+		}
+		if b >= p2 {
+			b -= p2
+		}
+		if c >= p2 {
+			c -= p2
+		}
+		td := shoup(d, w, wp, p) // −d·w_4^-1
+		q[0], q[2] = a+c, a+p2-c
+		q[1], q[3] = b+p2-td, b+td
+	}
+}
+
 // ditStage2 undoes difStage2: the stages of half-lengths m/2 and m in one
 // pass over each block of 2m; inputs below 2^64 with the first of each pair
 // in [0, 4p), outputs in [0, 4p). Inverse twiddles come from the forward
 // table: w_{2m}^-j = −tw[2m−j] (j ≥ 1), so products by tw[2m−j] enter with
 // the opposite sign.
 func ditStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
+	if m == 2 {
+		ditQuads(x, tw[3], twp[3], p)
+		return
+	}
 	p2 := 2 * p
 	h := m / 2
 	for s := 0; s+2*m <= len(x); s += 2 * m {
