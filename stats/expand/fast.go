@@ -133,10 +133,12 @@ type powerCache struct {
 	pows map[int]*big.Int
 	invs map[int]*big.Int
 	prec map[int]uint
+	spec map[[2]int]*spectrum // spectra of powers: (h, transform length)
 }
 
 func newPowerCache(base int) *powerCache {
-	return &powerCache{base: int64(base), pows: map[int]*big.Int{}, invs: map[int]*big.Int{}, prec: map[int]uint{}}
+	return &powerCache{base: int64(base), pows: map[int]*big.Int{}, invs: map[int]*big.Int{},
+		prec: map[int]uint{}, spec: map[[2]int]*spectrum{}}
 }
 
 // pow returns base^h, cached: from the square of base^(h/2) for even h
@@ -162,6 +164,29 @@ func (c *powerCache) pow(h int) *big.Int {
 	}
 	c.mu.Unlock()
 	return p
+}
+
+// mulPow returns v·base^h. Large balanced products reuse the transform of
+// base^h: a conversion or parse multiplies every node of a level by the
+// same power, so one of the three transforms per product is saved.
+func (c *powerCache) mulPow(v *big.Int, h int) *big.Int {
+	p := c.pow(h)
+	nv, np := len(v.Bits()), len(p.Bits())
+	if min(nv, np) < nttMinWords || max(nv, np) > 8*min(nv, np) {
+		return mul(v, p)
+	}
+	n := nttLen(nv + np)
+	key := [2]int{h, n}
+	c.mu.Lock()
+	s, ok := c.spec[key]
+	c.mu.Unlock()
+	if !ok {
+		s = newSpectrum(p, n)
+		c.mu.Lock()
+		c.spec[key] = s
+		c.mu.Unlock()
+	}
+	return sumOfProducts(product{newSpectrum(v, n), s})
 }
 
 // get returns base^h with its reciprocal for quotients of up to h digits.

@@ -166,12 +166,15 @@ func fusedNode(l, r bsResult, needP bool) bsResult {
 		ops = append(ops, r.P)
 	}
 	s := spectra(nttLen(words+1), ops...)
-	res := bsResult{B: one,
-		T: sumOfProducts(product{s[2], s[3]}, product{s[0], s[1]}),
-		Q: sumOfProducts(product{s[4], s[2]})}
+	res := bsResult{B: one}
+	var wg sync.WaitGroup
+	wg.Add(2)
+	go func() { defer wg.Done(); res.T = sumOfProducts(product{s[2], s[3]}, product{s[0], s[1]}) }()
+	go func() { defer wg.Done(); res.Q = sumOfProducts(product{s[4], s[2]}) }()
 	if needP {
 		res.P = sumOfProducts(product{s[0], s[5]})
 	}
+	wg.Wait()
 	return res
 }
 

@@ -67,7 +67,7 @@ func fracTree(F *big.Int, Q uint, out []byte, base int, c *powerCache, depth int
 	for 2*h < n {
 		h *= 2
 	}
-	y := mul(F, c.pow(h))
+	y := c.mulPow(F, h)
 	R := new(big.Int).Rsh(y, Q)
 	R.Lsh(R, Q)
 	R.Sub(y, R) // frac(x·b^h)·2^Q, exact

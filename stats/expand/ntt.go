@@ -37,10 +37,13 @@ type nttPrime struct {
 	tableLen int
 }
 
+// The primes are c·2^32 + 1 with 3 | c, so that lengths 3·2^k exist too;
+// found with math/big's ProbablyPrime (40 rounds) and each generator checked
+// against every prime factor of p − 1 (listed).
 var nttPrimes = [3]*nttPrime{
-	newNTTPrime(4611685941117976577, 3),  // 1073741805·2^32 + 1 (found with math/big ProbablyPrime; generator checked against the factors of p-1)
-	newNTTPrime(4611685692009873409, 19), // 1073741747·2^32 + 1
-	newNTTPrime(4611685606110527489, 3),  // 1073741727·2^32 + 1
+	newNTTPrime(4611685692009873409, 19), // c = 1073741748 = 2²·3·277·323027
+	newNTTPrime(4611685318347718657, 5),  // c = 1073741661 = 3·19·41·153151
+	newNTTPrime(4611685125074190337, 5),  // c = 1073741616 = 2⁴·3·2485513 (2485513 prime)
 }
 
 func newNTTPrime(p, g uint64) *nttPrime {
@@ -107,6 +110,28 @@ func (q *nttPrime) tables(n int) ([]uint64, []uint64) {
 	return tw, twp
 }
 
+// quarters applies f to the four quarters of x, concurrently when they are
+// large: three primes on two cores would otherwise leave one core idle for
+// the third prime's transforms.
+func quarters(x []uint64, f func([]uint64)) {
+	q := len(x) / 4
+	if q < nttParallel {
+		for i := 0; i < len(x); i += q {
+			f(x[i : i+q])
+		}
+		return
+	}
+	var wg sync.WaitGroup
+	for i := 0; i < len(x); i += q {
+		wg.Add(1)
+		go func() { defer wg.Done(); f(x[i : i+q]) }()
+	}
+	wg.Wait()
+}
+
+// nttParallel is the quarter length from which quarters run concurrently.
+const nttParallel = 1 << 16
+
 // nttBlock is the length below which a transform finishes in cache.
 const nttBlock = 1 << 14
 
@@ -117,10 +142,7 @@ func forward(x, tw, twp []uint64, p uint64) {
 	n := len(x)
 	if n > nttBlock {
 		difStage2(x, n/2, tw, twp, p)
-		q := n / 4
-		for i := 0; i < n; i += q {
-			forward(x[i:i+q], tw, twp, p)
-		}
+		quarters(x, func(y []uint64) { forward(y, tw, twp, p) })
 		return
 	}
 	m := n / 2
@@ -375,10 +397,7 @@ func ditStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
 func inverse(x, tw, twp []uint64, p uint64) {
 	n := len(x)
 	if n > nttBlock {
-		q := n / 4
-		for i := 0; i < n; i += q {
-			inverse(x[i:i+q], tw, twp, p)
-		}
+		quarters(x, func(y []uint64) { inverse(y, tw, twp, p) })
 		ditStage2(x, n/2, tw, twp, p)
 		return
 	}
@@ -445,13 +464,131 @@ type spectrum struct {
 	r     [3][]uint64
 }
 
-// nttLen is the transform length for a product of w words.
+// nttLen is the transform length for a product of w words: the least
+// 2^k or 3·2^k (k ≥ 2) not below w, which wastes at most a third of the
+// transform on padding where powers of two alone waste up to half.
 func nttLen(w int) int {
 	n := 1
 	for n < w {
 		n *= 2
 	}
+	if t := 3 * n / 4; n >= 16 && t >= w {
+		return t
+	}
 	return n
+}
+
+// montMul returns a·b·2^-64 mod p in [0, p) for a < 2^64, b < p.
+func (q *nttPrime) montMul(a, b uint64) uint64 {
+	hi, lo := bits.Mul64(a, b)
+	mh, _ := bits.Mul64(lo*q.pinv, q.p)
+	t := hi - mh
+	if hi < mh {
+		t += q.p
+	}
+	return t
+}
+
+// forwardAny transforms x (values in [0, 2p)) at length 2^k or 3·2^k.
+// For 3m, a radix-3 pass first maps blocks (a, b, c) at j, j+m, j+2m to
+//
+//	(a + b + c,  (a + ω b + ω² c)·w^j,  (a + ω² b + ω c)·w^(2j)),
+//
+// w a primitive 3m-th root and ω = w^m, with one product for the 3-point
+// DFT (ω b + ω² c = ω(b − c) − c, ω² b + ω c = −b − ω(b − c)); twiddles are
+// kept in Montgomery form and advanced by one product per j. Each third is
+// then a power-of-two transform: outputs in [0, 2p), in an order that the
+// inverse undoes.
+func (q *nttPrime) forwardAny(x []uint64) {
+	n := len(x)
+	if n&(n-1) == 0 {
+		tw, twp := q.tables(n)
+		forward(x, tw, twp, q.p)
+		return
+	}
+	m := n / 3
+	p := q.p
+	w := powMod(q.g, (p-1)/uint64(n), p)
+	r := q.montR()
+	omR := mulMod(powMod(w, uint64(m), p), r, p)
+	w1R, w2R := mulMod(w, r, p), mulMod(mulMod(w, w, p), r, p)
+	c1, c2 := r, r // w^j·R, w^(2j)·R
+	x0, x1, x2 := x[:m], x[m:2*m], x[2*m:3*m]
+	x1, x2 = x1[:len(x0)], x2[:len(x0)]
+	for j := range x0 {
+		a, b, c := x0[j], x1[j], x2[j]
+		if a >= p {
+			a -= p
+		}
+		if b >= p {
+			b -= p
+		}
+		if c >= p {
+			c -= p
+		}
+		y0 := a + b + c // < 3p
+		if y0 >= 2*p {
+			y0 -= 2 * p
+		}
+		t := q.montMul(b+p-c, omR) // ω(b − c), [0, p)
+		x0[j] = y0
+		x1[j] = q.montMul(a+(p-c)+t, c1)     // (a − c + ω(b − c))·w^j
+		x2[j] = q.montMul(a+(p-b)+(p-t), c2) // (a − b − ω(b − c))·w^(2j)
+		c1, c2 = q.montMul(c1, w1R), q.montMul(c2, w2R)
+	}
+	tw, twp := q.tables(m)
+	forward(x0, tw, twp, p)
+	forward(x1, tw, twp, p)
+	forward(x2, tw, twp, p)
+}
+
+// inverseAny undoes forwardAny without the 1/n factor: [0, 2p) in, [0, 4p)
+// out. For 3m: power-of-two inverses of each third, then with
+// u1 = Y1·w^-j, u2 = Y2·w^-(2j), ω' = ω^-1 and t = ω'(u1 − u2),
+//
+//	x_j = Y0 + u1 + u2,  x_(j+m) = Y0 − u2 + t,  x_(j+2m) = Y0 − u1 − t.
+func (q *nttPrime) inverseAny(x []uint64) {
+	n := len(x)
+	if n&(n-1) == 0 {
+		tw, twp := q.tables(n)
+		inverse(x, tw, twp, q.p)
+		return
+	}
+	m := n / 3
+	p := q.p
+	tw, twp := q.tables(m)
+	x0, x1, x2 := x[:m], x[m:2*m], x[2*m:3*m]
+	x1, x2 = x1[:len(x0)], x2[:len(x0)]
+	inverse(x0, tw, twp, p)
+	inverse(x1, tw, twp, p)
+	inverse(x2, tw, twp, p)
+	wi := powMod(powMod(q.g, (p-1)/uint64(n), p), p-2, p) // w^-1
+	r := q.montR()
+	omR := mulMod(powMod(wi, uint64(m), p), r, p) // ω^-1·R
+	w1R, w2R := mulMod(wi, r, p), mulMod(mulMod(wi, wi, p), r, p)
+	c1, c2 := r, r
+	for j := range x0 {
+		y0 := x0[j] // [0, 4p) → [0, p)
+		if y0 >= 2*p {
+			y0 -= 2 * p
+		}
+		if y0 >= p {
+			y0 -= p
+		}
+		u1 := q.montMul(x1[j], c1)
+		u2 := q.montMul(x2[j], c2)
+		t := q.montMul(u1+p-u2, omR)
+		x0[j] = y0 + u1 + u2
+		x1[j] = y0 + (p - u2) + t
+		x2[j] = y0 + (p - u1) + (p - t)
+		c1, c2 = q.montMul(c1, w1R), q.montMul(c2, w2R)
+	}
+}
+
+// montR returns 2^64 mod p.
+func (q *nttPrime) montR() uint64 {
+	_, r := bits.Div64(1, 0, q.p)
+	return r
 }
 
 // newSpectrum transforms v at length n (the three primes in parallel).
@@ -463,10 +600,9 @@ func newSpectrum(v *big.Int, n int) *spectrum {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			tw, twp := q.tables(n)
 			x := make([]uint64, n)
 			load(x, w, q.p)
-			forward(x, tw, twp, q.p)
+			q.forwardAny(x)
 			s.r[i] = x
 		}()
 	}
@@ -534,7 +670,6 @@ func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []ui
 			k = i
 		}
 	}
-	tw, twp := q.tables(n)
 	c := mulMod(powMod(2, 64, p), powMod(uint64(n), p-2, p), p) // 2^64/n mod p
 	cp, _ := bits.Div64(c, 0, p)
 	x := make([]uint64, n)
@@ -558,7 +693,7 @@ func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []ui
 	for i, v := range x {
 		x[i] = shoup(v, c, cp, p)
 	}
-	inverse(x, tw, twp, p)
+	q.inverseAny(x)
 	p2 := 2 * p
 	for i, v := range x {
 		if v >= p2 {

@@ -23,7 +23,9 @@ func TestNTTMul(t *testing.T) {
 		v := new(big.Int).Lsh(one, uint(64*words))
 		return v.Sub(v, one)
 	}
-	sizes := [][2]int{{1, 1}, {1, 7}, {3, 5}, {64, 64}, {100, 3000}, {2048, 2048}, {4097, 4095}, {5000, 17}, {20000, 30000}, {1 << 15, 1 << 15}}
+	sizes := [][2]int{{1, 1}, {1, 7}, {3, 5}, {64, 64}, {100, 3000}, {2048, 2048}, {4097, 4095}, {5000, 17}, {20000, 30000}, {1 << 15, 1 << 15},
+		{700, 800}, {12000, 12000}, {3 << 12, 3 << 12}, {100000, 90000}, // the last four at lengths 3·2^k
+		{300000, 300000}} // quarters of 2^16 words: transformed concurrently
 	for _, s := range sizes {
 		for _, gen := range []func(int) *big.Int{random, ones} {
 			a, b := gen(s[0]), gen(s[1])

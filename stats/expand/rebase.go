@@ -42,7 +42,7 @@ func parseRec(d []byte, base int, cache *powerCache, depth int) *big.Int {
 		hi = parseRec(d[:len(d)-h], base, cache, depth+1)
 		lo = parseRec(d[len(d)-h:], base, cache, depth+1)
 	}
-	hi = mul(hi, cache.pow(h))
+	hi = cache.mulPow(hi, h)
 	return hi.Add(hi, lo)
 }
 
