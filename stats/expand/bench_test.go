@@ -1,6 +1,12 @@
 package expand
 
-import "testing"
+import (
+	"fmt"
+	"math/big"
+	"testing"
+
+	"github.com/remyoudompheng/bigfft"
+)
 
 // Benchmarks of the digit engine; digits/s via b.ReportMetric. The script
 // bench/digits.sh times the command against mpmath and PARI/GP.
@@ -35,4 +41,27 @@ func BenchmarkRebase1e6From10To3(b *testing.B) {
 		Rebase(d, 10, 3)
 	}
 	b.ReportMetric(float64(len(d))*float64(b.N)/b.Elapsed().Seconds(), "digits/s")
+}
+
+// BenchmarkMul compares the NTT with bigfft on balanced products (the
+// thresholds in fast.go come from it).
+func BenchmarkMul(b *testing.B) {
+	for _, words := range []int{1000, 2000, 8000, 33000, 100000, 519000} {
+		w := make([]big.Word, words)
+		for i := range w {
+			w[i] = big.Word(uint64(i)*0x9e3779b97f4a7c15 + 1)
+		}
+		x := new(big.Int).SetBits(w)
+		y := new(big.Int).Add(x, big.NewInt(12345))
+		b.Run(fmt.Sprintf("ntt/%dwords", words), func(b *testing.B) {
+			for range b.N {
+				nttMul(x, y)
+			}
+		})
+		b.Run(fmt.Sprintf("bigfft/%dwords", words), func(b *testing.B) {
+			for range b.N {
+				bigfft.Mul(x, y)
+			}
+		})
+	}
 }
