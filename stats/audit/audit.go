@@ -246,6 +246,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 				opts.MaxBlock, mib(need), base, mib(float64(opts.MemoryBytes)))
 		}
 		p.Spec.MaxBlock = opts.MaxBlock
+		p.Spec.BlocksMax = countedBlocks(p.Spec.MaxBlock, base, sizeHint, opts)
 		return p, nil
 	}
 	p.Auto = true
@@ -271,7 +272,32 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 		k = 1 // no selected check looks at blocks
 	}
 	p.Spec.MaxBlock = k
+	p.Spec.BlocksMax = countedBlocks(k, base, sizeHint, opts)
 	return p, nil
+}
+
+// countedBlocks returns the Spec's BlocksMax: when the input length n is
+// known, non-overlapping k-blocks whose ⌊n/k⌋ blocks cannot reach the
+// minimum expected count are not counted (the blocks check would skip them;
+// at 10^8 decimal digits the 10^7-cell table of k = 7 is left out, which
+// is most of the pass's memory traffic after the overlapping windows).
+// 0 (count every k ≤ K) when the length is unknown.
+func countedBlocks(K, base int, sizeHint int64, opts Options) int {
+	if sizeHint < 0 {
+		return 0
+	}
+	minP := 1 / float64(base)
+	if opts.Null.Kind == checks.Vector {
+		minP = checks.Null{P: opts.Null.P}.MinProb()
+	}
+	k := K
+	for k >= 2 && float64(sizeHint/int64(k))*math.Pow(minP, float64(k)) < opts.MinExpected {
+		k--
+	}
+	if k >= K {
+		return 0
+	}
+	return max(k, 1)
 }
 
 func validateOptions(o Options) error {

@@ -39,7 +39,15 @@ func (blocksCheck) Run(in Input, out *Result) {
 		for _, c := range counts {
 			m += c
 		}
+		if !t.HasBlocks(k) { // not counted: the plan knew they would be too few
+			m = t.N / int64(k)
+		}
 		minP := math.Pow(in.Null.MinProb(), float64(k))
+		if !t.HasBlocks(k) && float64(m)*minP >= in.Opts.MinExpected {
+			out.Skips = append(out.Skips, Skip{Check: "blocks", Params: params,
+				Reason: fmt.Sprintf("blocks of length %d were not counted: the input was expected to be shorter (%d digits arrived)", k, t.N)})
+			continue
+		}
 		if float64(m)*minP < in.Opts.MinExpected {
 			out.Skips = append(out.Skips, Skip{Check: "blocks", Params: params,
 				Reason: fmt.Sprintf("%d blocks of length %d give expected counts of %.3g, below %g; needs %d digits or more",

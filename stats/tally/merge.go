@@ -37,7 +37,7 @@ func Merge(a, b *Tally) (*Tally, error) {
 	t.mergeTrace(a, b)
 	addInto(t.Digits, b.Digits)
 	addInto(t.Overlap, b.Overlap)
-	for k := 2; k <= t.MaxBlock; k++ {
+	for k := 2; k <= t.blocksMax(); k++ {
 		addInto(t.Blocks[k], b.Blocks[k])
 	}
 
@@ -48,7 +48,7 @@ func Merge(a, b *Tally) (*Tally, error) {
 	for s := max(0, cut-K+1); s < cut && s+K <= len(x); s++ {
 		t.Overlap[value(x[s:s+K], base)]++
 	}
-	for k := 2; k <= K; k++ {
+	for k := 2; k <= t.blocksMax(); k++ {
 		for s := 0; s < cut && s+k <= len(x); s++ {
 			if (xs+int64(s))%int64(k) == 0 && s+k > cut {
 				t.Blocks[k][value(x[s:s+k], base)]++

@@ -28,7 +28,7 @@ func (t *Tally) kernels() []kernel {
 	if s.MaxBlock > 1 { // at K = 1 the windows are the digits: Cyclic reads Digits
 		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
 	}
-	for k := 2; k <= s.MaxBlock; k++ {
+	for k := 2; k <= s.blocksMax(); k++ {
 		k := k
 		ks = append(ks, kernel{"blocks", 1 + big(len(t.Blocks[k]))/float64(k), func(d []byte) { t.addBlocks(k, d) }})
 	}
@@ -168,4 +168,15 @@ func (r *Runner) Add(d []byte) {
 	}
 	wg.Wait()
 	r.t.advance(d)
+}
+
+// KernelTimes runs each kernel on d in order, adding its time to costs
+// (a profiling aid), and advances the tally.
+func (t *Tally) KernelTimes(d []byte, costs map[string]time.Duration) {
+	for _, k := range t.kernels() {
+		s := time.Now()
+		k.run(d)
+		costs[k.name] += time.Since(s)
+	}
+	t.advance(d)
 }

@@ -135,7 +135,11 @@ func (t *Tally) wellFormed() error {
 	bad := len(t.Digits) != b || len(t.Overlap) != ipow(b, K) || len(t.Blocks) != K+1 ||
 		len(t.Gaps) != t.Spec.classes() || t.N < 0 || t.Offset < 0
 	for k := 2; k <= K && !bad; k++ {
-		bad = len(t.Blocks[k]) != ipow(b, k)
+		want := 0
+		if t.HasBlocks(k) {
+			want = ipow(b, k)
+		}
+		bad = len(t.Blocks[k]) != want
 	}
 	for _, g := range t.Gaps {
 		bad = bad || len(g.Hist) != t.gapCap()+1

@@ -26,6 +26,10 @@ const DefaultGapCap = 2048
 type Spec struct {
 	Base     int // 2..256
 	MaxBlock int // K ≥ 1: overlapping counts at order K, blocks k = 2..K
+	// BlocksMax, when in 1..K−1, is the largest k whose non-overlapping
+	// blocks are counted (the plan leaves out lengths too long for the
+	// blocks check at the known input length); 0 means K.
+	BlocksMax int
 	// GapClass maps each digit to its gap class (len Base); nil means one
 	// class per digit.
 	GapClass []int
@@ -55,13 +59,24 @@ func (s Spec) Cells() float64 {
 	for k := 1; k <= s.MaxBlock; k++ {
 		pow *= b
 		cells += pow // cyclic table of order k
-		if k >= 2 {
+		if s.HasBlocks(k) {
 			cells += pow // non-overlapping blocks
 		}
 	}
 	cells += pow // overlapping linear counts at K
 	return cells + float64(s.classes()*(s.gapCap()+1)) + float64(s.PokerHand+s.Lags+s.CouponCap+CouponRestart/8)
 }
+
+// blocksMax returns the largest k of the non-overlapping block counts.
+func (s Spec) blocksMax() int {
+	if s.BlocksMax > 0 && s.BlocksMax < s.MaxBlock {
+		return s.BlocksMax
+	}
+	return s.MaxBlock
+}
+
+// HasBlocks reports whether the non-overlapping k-blocks are counted.
+func (s Spec) HasBlocks(k int) bool { return k >= 2 && k <= s.blocksMax() }
 
 func (s Spec) gapCap() int {
 	if s.GapCap <= 0 {
@@ -81,6 +96,9 @@ func (s Spec) classes() int {
 func (s Spec) Validate() error {
 	if s.Base < 2 || s.Base > 256 {
 		return fmt.Errorf("tally: base %d outside 2..256", s.Base)
+	}
+	if s.BlocksMax < 0 {
+		return fmt.Errorf("tally: largest counted block length %d is negative", s.BlocksMax)
 	}
 	if s.MaxBlock < 1 {
 		return fmt.Errorf("tally: block length %d, need at least 1", s.MaxBlock)
@@ -151,7 +169,7 @@ func New(spec Spec, offset int64) (*Tally, error) {
 	t.Digits = make([]int64, b)
 	t.Overlap = make([]int64, ipow(b, spec.MaxBlock))
 	t.Blocks = make([][]int64, spec.MaxBlock+1)
-	for k := 2; k <= spec.MaxBlock; k++ {
+	for k := 2; k <= spec.blocksMax(); k++ {
 		t.Blocks[k] = make([]int64, ipow(b, k))
 	}
 	t.Gaps = make([]GapTally, spec.classes())
