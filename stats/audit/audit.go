@@ -403,6 +403,7 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 // Finish runs the checks on a finished tally of the whole sequence and
 // returns the audit result.
 func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
+	t.Settle()
 	opts := p.opts
 	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment,
 		Segments: opts.Segments, Seed: opts.Seed, DigitCounts: t.Digits, Trace: t.Trace}

@@ -14,6 +14,8 @@ import (
 // at most K-1 digits on either side. One that reaches beyond a short piece
 // is not complete yet and is counted by the merge that completes it.
 func Merge(a, b *Tally) (*Tally, error) {
+	a.Settle()
+	b.Settle()
 	if a.finished || b.finished {
 		panic("tally: Merge of a finished tally (after CyclicInPlace)")
 	}
@@ -105,7 +107,9 @@ func (t *Tally) Clone() *Tally {
 	if t.finished {
 		panic("tally: Clone of a finished tally (after CyclicInPlace)")
 	}
+	t.Settle()
 	u := *t
+	u.hotOverlap, u.hotBlocks = nil, nil
 	u.GapClass = slices.Clone(t.GapClass)
 	u.Digits = slices.Clone(t.Digits)
 	u.Overlap = slices.Clone(t.Overlap)
@@ -140,6 +144,7 @@ func (t *Tally) Clone() *Tally {
 // the end of an audit. The tally is finished: Add, Merge and Clone panic
 // afterwards.
 func (t *Tally) CyclicInPlace() ([][]int64, error) {
+	t.Settle()
 	K, b := t.MaxBlock, t.Base
 	if t.N < int64(K) {
 		return nil, fmt.Errorf("tally: %d digits are too few for blocks of length %d", t.N, K)
@@ -182,6 +187,7 @@ func lowerOrders(top []int64, K, b int) [][]int64 {
 // lower orders follow by summing out the last digit. It needs N ≥ K-1, and
 // the stretch must be the whole sequence (a shard has no wrap-around).
 func (t *Tally) Cyclic() ([][]int64, error) {
+	t.Settle()
 	K, b := t.MaxBlock, t.Base
 	if t.N < int64(K) {
 		return nil, fmt.Errorf("tally: %d digits are too few for blocks of length %d", t.N, K)

@@ -180,3 +180,17 @@ func (t *Tally) KernelTimes(d []byte, costs map[string]time.Duration) {
 	}
 	t.advance(d)
 }
+
+// KernelTimesOnly is KernelTimes for the named kernels only.
+func (t *Tally) KernelTimesOnly(d []byte, costs map[string]time.Duration, names ...string) {
+	for _, k := range t.kernels() {
+		for _, n := range names {
+			if k.name == n {
+				s := time.Now()
+				k.run(d)
+				costs[k.name] += time.Since(s)
+			}
+		}
+	}
+	t.advance(d)
+}

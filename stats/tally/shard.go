@@ -48,6 +48,9 @@ type ShardInput struct {
 // then n bytes of gzip-compressed JSON whose SHA-256 the header states.
 func WriteShard(w io.Writer, s *Shard) error {
 	s.Format, s.Version = "borel-tally", ShardVersion
+	if s.Tally != nil {
+		s.Tally.Settle()
+	}
 	var payload bytes.Buffer
 	zw, _ := gzip.NewWriterLevel(&payload, gzip.BestSpeed)
 	if err := json.NewEncoder(zw).Encode(s); err != nil {

@@ -157,6 +157,11 @@ type Tally struct {
 	Trace    []TracePoint // digit counts at fixed global checkpoints, for plots
 
 	finished bool // set by CyclicInPlace
+
+	// Hot byte counters of the large tables (see hot.go): the true count
+	// of cell w is Overlap[w] + hotOverlap[w] until Settle folds them in.
+	hotOverlap []uint8
+	hotBlocks  [][]uint8
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -252,6 +257,17 @@ func (t *Tally) addOverlap(d []byte) {
 	pow := ipow(b, K-1)
 	w := value(d[:K], b)
 	cnt[w]++
+	if hot := t.hotTable(&t.hotOverlap, len(cnt)); hot != nil {
+		for i := K; i < len(d); i++ {
+			w = (w-int(d[i-K])*pow)*b + int(d[i])
+			v := hot[w] + 1
+			hot[w] = v
+			if v == 0 {
+				cnt[w] += 256
+			}
+		}
+		return
+	}
 	for i := K; i < len(d); i++ {
 		w = (w-int(d[i-K])*pow)*b + int(d[i])
 		cnt[w]++
@@ -285,6 +301,24 @@ func (t *Tally) addBlocks(k int, d []byte) {
 			cnt[cur]++
 			have, cur = 0, 0
 		}
+	}
+	if len(cnt) >= hotMinCells && len(t.hotBlocks) <= k {
+		t.hotBlocks = append(t.hotBlocks, make([][]uint8, k+1-len(t.hotBlocks))...)
+	}
+	var hot []uint8
+	if len(t.hotBlocks) > k {
+		hot = t.hotTable(&t.hotBlocks[k], len(cnt))
+	}
+	if hot != nil {
+		for ; i+k <= len(d); i += k {
+			w := value(d[i:i+k], b)
+			v := hot[w] + 1
+			hot[w] = v
+			if v == 0 {
+				cnt[w] += 256
+			}
+		}
+		return
 	}
 	for ; i+k <= len(d); i += k {
 		cnt[value(d[i:i+k], b)]++

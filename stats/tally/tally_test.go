@@ -68,10 +68,10 @@ func TestMergeEqualsWhole(t *testing.T) {
 				t.Fatal(err)
 			}
 		}
-		if !reflect.DeepEqual(left, whole) {
+		if !same(left, whole) {
 			t.Fatalf("trial %d (base %d, K %d, n %d, cuts %v): left-fold merge differs from the whole", trial, base, K, n, cuts)
 		}
-		if tree := mergeTree(t, parts); !reflect.DeepEqual(tree, whole) {
+		if tree := mergeTree(t, parts); !same(tree, whole) {
 			t.Fatalf("trial %d: tree merge differs from the whole", trial)
 		}
 		// Streaming in several Add calls is the same as one.
@@ -79,7 +79,7 @@ func TestMergeEqualsWhole(t *testing.T) {
 		for i := 1; i < len(cuts); i++ {
 			inc.Add(d[cuts[i-1]:cuts[i]])
 		}
-		if !reflect.DeepEqual(inc, whole) {
+		if !same(inc, whole) {
 			t.Fatalf("trial %d: incremental Add differs from one Add", trial)
 		}
 	}
@@ -342,7 +342,7 @@ func TestRunnerIdenticalForAnyWorkers(t *testing.T) {
 			for i := 0; i < len(d); i += 4096 {
 				r.Add(d[i:min(len(d), i+4096)])
 			}
-			if !reflect.DeepEqual(got, want) {
+			if !same(got, want) {
 				t.Fatalf("trial %d: %d workers give a different tally", trial, w)
 			}
 		}
@@ -364,7 +364,7 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !reflect.DeepEqual(s.Tally, tl) {
+	if !same(s.Tally, tl) {
 		t.Error("the shard's tally differs after the round trip")
 	}
 	damaged := append([]byte(nil), good...)
@@ -400,4 +400,51 @@ func TestCyclicInPlace(t *testing.T) {
 		}
 	}()
 	tl.Add([]byte{1})
+}
+
+// same reports whether two tallies hold the same counts (byte counters
+// folded in first).
+func same(a, b *Tally) bool {
+	a.Settle()
+	b.Settle()
+	return reflect.DeepEqual(a, b)
+}
+
+// Every table through the byte counters (hot.go), including wrap-arounds
+// past 255: merges, worker counts and shards must give the same tallies as
+// with 64-bit counting only.
+func TestHotCountersExact(t *testing.T) {
+	defer func(v int) { hotMinCells = v }(hotMinCells)
+	rng := rand.New(rand.NewPCG(31, 32))
+	for trial := range 20 {
+		base := 2 + rng.IntN(9)
+		spec := randomSpec(rng, base, 1+rng.IntN(5))
+		n := 2000 + rng.IntN(30000)
+		d := randomDigits(rng, n, base)
+		if trial%3 == 0 { // long constant runs: single cells pass 255 many times
+			for i := range d[:n/2] {
+				d[i] = 1
+			}
+		}
+		hotMinCells = 1 << 62
+		want := mustNew(t, spec, 0)
+		want.Add(d)
+		hotMinCells = 1
+		got := mustNew(t, spec, 0)
+		r := NewRunner(got, 1+trial%3)
+		cut := rng.IntN(n)
+		for i := 0; i < n; i += 777 {
+			r.Add(d[i:min(n, i+777)])
+		}
+		if !same(got, want) {
+			t.Fatalf("trial %d (base %d, K %d): byte counters change the tally", trial, base, spec.MaxBlock)
+		}
+		a, b := mustNew(t, spec, 0), mustNew(t, spec, int64(cut))
+		a.Add(d[:cut])
+		b.Add(d[cut:])
+		m, err := Merge(a, b)
+		if err != nil || !same(m, want) {
+			t.Fatalf("trial %d: merge of byte-counted halves differs (%v)", trial, err)
+		}
+	}
 }
