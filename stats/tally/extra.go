@@ -167,7 +167,15 @@ func (t *Tally) addLags(d []byte) {
 	}
 }
 
+// addRuns extends the run records over d: the longest run of any digit and
+// of RunDigit, the runs that reach back to the stretch's first digit (Lead)
+// and the current runs (Trail). Leads can only grow while every digit so far
+// belongs to them, which is checked once per call; the main loop keeps its
+// state in locals.
 func (t *Tally) addRuns(d []byte) {
+	if len(d) == 0 {
+		return
+	}
 	n := t.N
 	c := byte(t.RunDigit)
 	any, dig := &t.RunAny, &t.RunDig
@@ -175,28 +183,44 @@ func (t *Tally) addRuns(d []byte) {
 	if n > 0 {
 		prev = t.Tail[len(t.Tail)-1]
 	}
-	for i, x := range d {
-		pos := n + int64(i)
-		if pos > 0 && x == prev {
-			any.Trail++
+	// Leads: while the stretch so far is one run, it grows with equal digits.
+	if any.Lead == n {
+		i := 0
+		for i < len(d) && (n+int64(i) == 0 || d[i] == d[0] && (n == 0 || d[i] == prev)) {
+			i++
+		}
+		any.Lead = n + int64(i)
+	}
+	if dig.Lead == n {
+		i := 0
+		for i < len(d) && d[i] == c {
+			i++
+		}
+		dig.Lead = n + int64(i)
+	}
+	aTrail, aMax := any.Trail, any.Max
+	dTrail, dMax := dig.Trail, dig.Max
+	if n == 0 {
+		aTrail = 0 // the first digit starts a run of 1 below
+		prev = d[0] + 1
+	}
+	for _, x := range d {
+		if x == prev {
+			aTrail++
 		} else {
-			any.Trail = 1
+			aTrail = 1
 		}
-		if any.Lead == pos && (pos == 0 || x == prev) {
-			any.Lead++
-		}
-		any.Max = max(any.Max, any.Trail)
+		aMax = max(aMax, aTrail)
 		if x == c {
-			dig.Trail++
-			if dig.Lead == pos {
-				dig.Lead++
-			}
-			dig.Max = max(dig.Max, dig.Trail)
+			dTrail++
+			dMax = max(dMax, dTrail)
 		} else {
-			dig.Trail = 0
+			dTrail = 0
 		}
 		prev = x
 	}
+	any.Trail, any.Max = aTrail, aMax
+	dig.Trail, dig.Max = dTrail, dMax
 }
 
 func (t *Tally) addWalk(d []byte) {
@@ -289,17 +313,41 @@ func (t *Tally) couponStep(c *CouponTally, x byte) {
 	}
 }
 
+// addCoupon runs the coupon collector over d: segments restart at global
+// positions that are multiples of couponEvery; before the stretch's first
+// restart the digits are kept in Head (a merge completes that segment).
+// The loop between restarts keeps its state in locals.
 func (t *Tally) addCoupon(d []byte, pos0 int64) {
 	c := &t.Coupon
-	for i, x := range d {
-		if (pos0+int64(i))%t.couponEvery() == 0 {
+	every := t.couponEvery()
+	i := 0
+	for i < len(d) {
+		// Digits up to the next restart position (exclusive).
+		next := len(d)
+		if r := (pos0 + int64(i)) % every; r == 0 {
 			c.Restarted, c.Seen, c.Len = true, 0, 0
+			next = min(len(d), i+int(every))
+		} else {
+			next = min(len(d), i+int(every-r))
 		}
 		if !c.Restarted {
-			c.Head = append(c.Head, x)
+			c.Head = append(c.Head, d[i:next]...)
+			i = next
 			continue
 		}
-		t.couponStep(c, x)
+		seen, n := c.Seen, c.Len
+		full := uint32(1)<<t.CouponClasses - 1
+		class, hist, capLen := t.CouponClass, c.Hist, int64(t.CouponCap)
+		for _, x := range d[i:next] {
+			seen |= 1 << class[x]
+			n++
+			if seen == full {
+				hist[min(n, capLen)]++
+				seen, n = 0, 0
+			}
+		}
+		c.Seen, c.Len = seen, n
+		i = next
 	}
 }
 

@@ -28,9 +28,14 @@ func (t *Tally) hotTable(p *[]uint8, n int) []uint8 {
 }
 
 // Settle folds the byte counters into the 64-bit tables and drops them (a
-// later Add makes new ones). It is idempotent and must not run concurrently
-// with Add.
+// later Add makes new ones), then fills the records derived from the tables
+// (derive). It is idempotent, does nothing to a finished tally, and must not
+// run concurrently with Add.
 func (t *Tally) Settle() {
+	if t.finished {
+		return
+	}
+	defer t.derive()
 	fold := func(cold []int64, hot []uint8) {
 		for w, v := range hot {
 			if v != 0 {
@@ -47,4 +52,67 @@ func (t *Tally) Settle() {
 		}
 	}
 	t.hotOverlap, t.hotBlocks = nil, nil
+}
+
+// Two records follow from the count tables at the end instead of costing a
+// loop per digit in the pass:
+//
+//   - the lag products Σ x_i x_{i+h} (h ≤ H) of the pairs inside the stretch,
+//     from the overlapping K-windows when K > H: each pair whose first digit
+//     starts a K-window inside the stretch is that window's first and
+//     (h+1)-th digit; the pairs starting in the last K−1 positions lie in
+//     Tail;
+//   - the poker hands, which are exactly the aligned non-overlapping
+//     h-blocks, when those are counted.
+//
+// The values are the same as counting them digit by digit (TestDerived), so
+// merges, shards and the checks see no difference.
+
+// lagsDerived reports whether the lag products come from the K-windows.
+func (s Spec) lagsDerived() bool { return s.Lags > 0 && s.MaxBlock > s.Lags }
+
+// pokerDerived reports whether the poker hands come from the block counts.
+func (s Spec) pokerDerived() bool { return s.PokerHand > 0 && s.HasBlocks(s.PokerHand) }
+
+func (t *Tally) derive() {
+	s := t.Spec
+	if s.lagsDerived() {
+		K, b := s.MaxBlock, s.Base
+		n, L := t.N, int64(len(t.Tail))
+		for h := 1; h <= s.Lags; h++ {
+			var sum int64
+			inner, mid := ipow(b, K-1-h), ipow(b, h-1)
+			for a := 1; a < b; a++ {
+				for m := 0; m < mid; m++ {
+					row := ((a*mid + m) * b) * inner
+					for c := 1; c < b; c++ {
+						var rs int64
+						for _, v := range t.Overlap[row+c*inner : row+(c+1)*inner] {
+							rs += v
+						}
+						sum += int64(a*c) * rs
+					}
+				}
+			}
+			// Pairs whose first digit is past the last K-window's start.
+			for i := max(0, n-int64(K)+1); i+int64(h) < n; i++ {
+				sum += int64(t.Tail[i-(n-L)]) * int64(t.Tail[i+int64(h)-(n-L)])
+			}
+			t.LagProd[h] = sum
+		}
+	}
+	if s.pokerDerived() {
+		h, b := s.PokerHand, s.Base
+		clear(t.Poker)
+		w := make([]byte, h)
+		for v, c := range t.Blocks[h] {
+			if c == 0 {
+				continue
+			}
+			for j, x := h-1, v; j >= 0; j, x = j-1, x/b {
+				w[j] = byte(x % b)
+			}
+			t.Poker[distinct(w)] += c
+		}
+	}
 }

@@ -36,13 +36,13 @@ func (t *Tally) kernels() []kernel {
 		ks = append(ks, kernel{"gaps", 2, t.addGaps})
 	}
 	pos := func() int64 { return t.Offset + t.N }
-	if h := s.PokerHand; h > 0 {
+	if h := s.PokerHand; h > 0 && !s.pokerDerived() {
 		ks = append(ks, kernel{"poker", 3, func(d []byte) { forWindows(t.Tail, d, pos(), h, h, t.countHand) }})
 	}
 	if s.UpDownDigits > 0 {
 		ks = append(ks, kernel{"updown", 5, t.addUpDown})
 	}
-	if s.Lags > 0 {
+	if s.Lags > 0 && !s.lagsDerived() {
 		ks = append(ks, kernel{"lags", 3, t.addLags})
 	}
 	if !s.SkipRuns {

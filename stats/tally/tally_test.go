@@ -207,6 +207,7 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 		}
 		tl := mustNew(t, spec, 0)
 		tl.Add(d)
+		tl.Settle() // records derived from the tables are filled here
 
 		h := spec.PokerHand
 		poker := make([]int64, h+1)
@@ -445,6 +446,56 @@ func TestHotCountersExact(t *testing.T) {
 		m, err := Merge(a, b)
 		if err != nil || !same(m, want) {
 			t.Fatalf("trial %d: merge of byte-counted halves differs (%v)", trial, err)
+		}
+	}
+}
+
+// TestDerived: lag products from the K-windows and poker hands from the
+// block counts (derive, hot.go) equal the definitions, for stretches at any
+// offset, shorter than K or not, and after merges.
+func TestDerived(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	for trial := range 200 {
+		base := 2 + rng.IntN(4)
+		H := 1 + rng.IntN(4)
+		h := 2 + rng.IntN(3)
+		spec := Spec{Base: base, MaxBlock: max(H+1, h) + rng.IntN(2), Lags: H, PokerHand: h, RunDigit: 0}
+		if !spec.lagsDerived() || !spec.pokerDerived() {
+			t.Fatalf("spec %+v does not derive both records", spec)
+		}
+		n := 1 + rng.IntN(400)
+		offset := int64(rng.IntN(50))
+		d := randomDigits(rng, n, base)
+		tl := mustNew(t, spec, offset)
+		tl.Add(d)
+		tl.Settle()
+		for lag := 1; lag <= H; lag++ {
+			var want int64
+			for i := 0; i+lag < n; i++ {
+				want += int64(d[i]) * int64(d[i+lag])
+			}
+			if tl.LagProd[lag] != want {
+				t.Fatalf("trial %d (n %d, K %d): lag %d product %d, want %d", trial, n, spec.MaxBlock, lag, tl.LagProd[lag], want)
+			}
+		}
+		poker := make([]int64, h+1)
+		for i := 0; i+h <= n; i++ {
+			if (offset+int64(i))%int64(h) == 0 {
+				poker[distinct(d[i:i+h])]++
+			}
+		}
+		if !slices.Equal(tl.Poker, poker) {
+			t.Fatalf("trial %d (n %d, offset %d): poker %v, want %v", trial, n, offset, tl.Poker, poker)
+		}
+		if n > 2 {
+			cut := 1 + rng.IntN(n-1)
+			a, b := mustNew(t, spec, offset), mustNew(t, spec, offset+int64(cut))
+			a.Add(d[:cut])
+			b.Add(d[cut:])
+			m, err := Merge(a, b)
+			if err != nil || !same(m, tl) {
+				t.Fatalf("trial %d: merged halves differ from the whole (%v)", trial, err)
+			}
 		}
 	}
 }
