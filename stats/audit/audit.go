@@ -385,12 +385,68 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 	if err := p.Start(); err != nil {
 		return nil, err
 	}
+	if p.opts.Workers > 1 {
+		return p.tallyPipelined(r)
+	}
 	for r.Scan() {
 		p.Add(r.Digits())
 		if p.OnChunk != nil {
 			p.OnChunk(r.Count(), r.Offset())
 		}
 		if p.Stop != nil && p.Stop() {
+			return nil, ErrStopped
+		}
+	}
+	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	return p.t, nil
+}
+
+// tallyPipelined is Tally with the reading (decoding, hashing by the
+// caller's tee, decompression) on its own goroutine, one chunk ahead of the
+// kernels, so that it overlaps with them instead of stopping every worker
+// while the next chunk is read. The chunks and their order are the same as
+// in Tally, so the tally is too.
+func (p *Plan) tallyPipelined(r *seq.Reader) (*tally.Tally, error) {
+	type chunk struct {
+		d             []byte
+		count, offset int64
+	}
+	const depth = 2
+	free := make(chan []byte, depth+1)
+	for range depth + 1 {
+		free <- nil
+	}
+	full := make(chan chunk, depth)
+	quit := make(chan struct{})
+	go func() {
+		defer close(full)
+		for r.Scan() {
+			var buf []byte
+			select {
+			case buf = <-free:
+			case <-quit:
+				return
+			}
+			buf = append(buf[:0], r.Digits()...)
+			select {
+			case full <- chunk{buf, r.Count(), r.Offset()}:
+			case <-quit:
+				return
+			}
+		}
+	}()
+	for c := range full {
+		p.Add(c.d)
+		free <- c.d
+		if p.OnChunk != nil {
+			p.OnChunk(c.count, c.offset)
+		}
+		if p.Stop != nil && p.Stop() {
+			close(quit)
+			for range full { // let the reader finish its current chunk
+			}
 			return nil, ErrStopped
 		}
 	}

@@ -95,8 +95,8 @@ func (entropyCheck) Run(in Input, out *Result) {
 	plugIn1, _, _ := stats.PlugInEntropy(t.Digits)
 	prev := 0.0
 	for k := 1; k <= in.MaxBlock(); k++ {
-		hk, _, _ := stats.PlugInEntropy(in.Cyclic[k])
-		row := EntropyRow{K: k, Blocks: t.N, PlugIn: hk, MillerMadow: stats.MillerMadowEntropy(in.Cyclic[k]),
+		hk, total, occupied := stats.PlugInEntropy(in.Cyclic[k])
+		row := EntropyRow{K: k, Blocks: t.N, PlugIn: hk, MillerMadow: stats.MillerMadowFrom(hk, total, occupied),
 			Conditional: hk - prev}
 		prev = hk
 		info, infoLo, infoHi := 0.0, 0.0, 0.0
@@ -127,8 +127,8 @@ func digitEntropyInterval(counts []int64, base int, conf float64) (h, lo, hi flo
 	for _, c := range counts {
 		n += float64(c)
 	}
-	plug, _, _ := stats.PlugInEntropy(counts)
-	h = stats.MillerMadowEntropy(counts)
+	plug, total, occupied := stats.PlugInEntropy(counts)
+	h = stats.MillerMadowFrom(plug, total, occupied)
 	lnb := math.Log(float64(base))
 	h = math.Min(h, lnb)
 	// Delta method (Basharin 1959): Var Ĥ ≈ (Σ f ln² f - H²)/n.
