@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"io"
@@ -146,9 +145,10 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, usageError{err.Error()}
 	}
 	opt.Source = src.Name
-	hash := sha256.New()
+	hash := newAsyncHash()
 	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
 	if err != nil {
+		hash.Sum()
 		return 0, err
 	}
 	prog := newProgress(e, out.quiet, src.Bytes)
@@ -156,12 +156,13 @@ func runAudit(e env, args []string) (int, error) {
 	plan.Stop = interrupted.Load
 	t, err := plan.Tally(r)
 	prog.done()
+	sum := hash.Sum()
 	if err != nil {
 		return 0, err
 	}
 	src.Compressed = r.Compressed()
 	src.IntegerPart = r.IntegerPart()
-	src.SHA256 = hex.EncodeToString(hash.Sum(nil))
+	src.SHA256 = hex.EncodeToString(sum)
 	if err := checkUnchanged(input, src, r.Offset()); err != nil {
 		return 0, err
 	}
