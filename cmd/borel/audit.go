@@ -152,7 +152,7 @@ func runAudit(e env, args []string) (int, error) {
 		return 0, err
 	}
 	prog := newProgress(e, out.quiet, src.Bytes)
-	plan.OnChunk = func(digits, _ int64) { prog.update(digits, r.Offset()) }
+	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
 	plan.Stop = interrupted.Load
 	t, err := plan.Tally(r)
 	prog.done()
