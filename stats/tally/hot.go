@@ -74,8 +74,74 @@ func (s Spec) lagsDerived() bool { return s.Lags > 0 && s.MaxBlock > s.Lags }
 // pokerDerived reports whether the poker hands come from the block counts.
 func (s Spec) pokerDerived() bool { return s.PokerHand > 0 && s.HasBlocks(s.PokerHand) }
 
+// blocksSource returns the block length whose counts give those of length
+// k: the largest multiple m of k that is counted (m ≤ blocksMax), or 0 when
+// the k-blocks are counted in the pass. Every aligned m-block is m/k aligned
+// k-blocks, so only the k-blocks near the stretch's ends (outside every
+// complete m-block) need the digits, which Head and Tail hold.
+func (s Spec) blocksSource(k int) int {
+	if m := s.blocksMax() / k * k; m > k {
+		return m
+	}
+	return 0
+}
+
+// deriveBlocks fills Blocks[k] from Blocks[m], m = blocksSource(k).
+func (t *Tally) deriveBlocks(k, m int) {
+	b := t.Base
+	cnt := t.Blocks[k]
+	clear(cnt)
+	digits := make([]byte, m)
+	for v, c := range t.Blocks[m] {
+		if c == 0 {
+			continue
+		}
+		for j, x := m-1, v; j >= 0; j, x = j-1, x/b {
+			digits[j] = byte(x % b)
+		}
+		for j := 0; j < m; j += k {
+			cnt[value(digits[j:j+k], b)] += c
+		}
+	}
+	// Aligned k-blocks inside the stretch but outside its complete aligned
+	// m-blocks: before the first m-aligned position, or after the last
+	// complete m-block. (m-aligned positions are k-aligned, so no k-block
+	// straddles one.)
+	n := t.N
+	first := (int64(m) - t.Offset%int64(m)) % int64(m) // local position of the first m-aligned start
+	end := first
+	if first+int64(m) <= n {
+		end = first + (n-first)/int64(m)*int64(m)
+	}
+	block := make([]byte, k)
+	for i := (int64(k) - t.Offset%int64(k)) % int64(k); i+int64(k) <= n; i += int64(k) {
+		if i >= first && i+int64(k) <= end {
+			i = end - int64(k) // skip the covered stretch
+			continue
+		}
+		for j := range block {
+			block[j] = t.digitAt(i + int64(j))
+		}
+		cnt[value(block, b)]++
+	}
+}
+
+// digitAt returns local digit i of the stretch from Head or Tail (the
+// derivations only ask for digits near the ends).
+func (t *Tally) digitAt(i int64) byte {
+	if i < int64(len(t.Head)) {
+		return t.Head[i]
+	}
+	return t.Tail[i-(t.N-int64(len(t.Tail)))]
+}
+
 func (t *Tally) derive() {
 	s := t.Spec
+	for k := s.blocksMax(); k >= 2; k-- {
+		if m := s.blocksSource(k); m > 0 {
+			t.deriveBlocks(k, m)
+		}
+	}
 	if s.lagsDerived() {
 		K, b := s.MaxBlock, s.Base
 		n, L := t.N, int64(len(t.Tail))

@@ -1,6 +1,8 @@
 package tally
 
 import (
+	"fmt"
+	"os"
 	"sort"
 	"sync"
 	"time"
@@ -29,6 +31,9 @@ func (t *Tally) kernels() []kernel {
 		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
 	}
 	for k := 2; k <= s.blocksMax(); k++ {
+		if s.blocksSource(k) > 0 {
+			continue // derived from a longer block length at the end
+		}
 		k := k
 		ks = append(ks, kernel{"blocks", 1 + big(len(t.Blocks[k]))/float64(k), func(d []byte) { t.addBlocks(k, d) }})
 	}
@@ -81,6 +86,8 @@ type Runner struct {
 	spent   []time.Duration
 	seen    int
 	groups  [][]kernel
+	gt      [3]time.Duration
+	chunks  int
 }
 
 // NewRunner returns a Runner for t with up to workers goroutines.
@@ -150,24 +157,46 @@ func (r *Runner) Add(d []byte) {
 		r.seen++
 		if r.seen == calibrationChunks {
 			r.group()
+			if os.Getenv("BOREL_DEBUG_GROUPS") != "" {
+				for gi, g := range r.groups {
+					for _, k := range g {
+						for i, kk := range r.ks {
+							if &kk.run == &k.run || kk.name == k.name {
+								fmt.Fprintf(os.Stderr, "group %d: %s %v\n", gi, k.name, r.spent[i])
+								break
+							}
+						}
+					}
+				}
+			}
 		}
 		return
 	}
 	var wg sync.WaitGroup
-	for _, g := range r.groups[1:] {
+	t00 := time.Now()
+	for gi, g := range r.groups[1:] {
 		wg.Add(1)
 		go func(g []kernel) {
 			defer wg.Done()
+			t0 := time.Now()
 			for _, k := range g {
 				k.run(d)
 			}
+			r.gt[gi+1] += time.Since(t0)
 		}(g)
 	}
+	t0 := time.Now()
 	for _, k := range r.groups[0] {
 		k.run(d)
 	}
+	r.gt[0] += time.Since(t0)
 	wg.Wait()
+	r.gt[2] += time.Since(t00)
 	r.t.advance(d)
+	r.chunks++
+	if r.chunks%1000 == 0 && os.Getenv("BOREL_DEBUG_GROUPS") != "" {
+		fmt.Fprintf(os.Stderr, "chunks %d: group0 %v group1 %v wall %v\n", r.chunks, r.gt[0], r.gt[1], r.gt[2])
+	}
 }
 
 // KernelTimes runs each kernel on d in order, adding its time to costs

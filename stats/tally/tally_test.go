@@ -459,7 +459,7 @@ func TestDerived(t *testing.T) {
 		base := 2 + rng.IntN(4)
 		H := 1 + rng.IntN(4)
 		h := 2 + rng.IntN(3)
-		spec := Spec{Base: base, MaxBlock: max(H+1, h) + rng.IntN(2), Lags: H, PokerHand: h, RunDigit: 0}
+		spec := Spec{Base: base, MaxBlock: max(H+1, h) + rng.IntN(4), Lags: H, PokerHand: h, RunDigit: 0}
 		if !spec.lagsDerived() || !spec.pokerDerived() {
 			t.Fatalf("spec %+v does not derive both records", spec)
 		}
@@ -476,6 +476,18 @@ func TestDerived(t *testing.T) {
 			}
 			if tl.LagProd[lag] != want {
 				t.Fatalf("trial %d (n %d, K %d): lag %d product %d, want %d", trial, n, spec.MaxBlock, lag, tl.LagProd[lag], want)
+			}
+		}
+		for k := 2; k <= spec.MaxBlock; k++ {
+			want := make([]int64, ipow(base, k))
+			for i := 0; i+k <= n; i++ {
+				if (offset+int64(i))%int64(k) == 0 {
+					want[value(d[i:i+k], base)]++
+				}
+			}
+			if !slices.Equal(tl.Blocks[k], want) {
+				t.Fatalf("trial %d (n %d, offset %d, K %d): blocks of %d differ from the definition (source %d)",
+					trial, n, offset, spec.MaxBlock, k, spec.blocksSource(k))
 			}
 		}
 		poker := make([]int64, h+1)
