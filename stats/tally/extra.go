@@ -120,13 +120,31 @@ func (t *Tally) addUpDown(d []byte) {
 	}
 }
 
-// udValue returns the value of an L-digit group.
+// udValue returns the value of an L-digit group, as two halves in
+// independent chains (hi·base^(L−h) + lo), which halves the latency of the
+// multiply-add chain.
 func udValue(w []byte, base int) uint64 {
-	var v uint64
-	for _, x := range w {
-		v = v*uint64(base) + uint64(x)
+	h := len(w) / 2
+	var hi, lo, scale uint64 = 0, 0, 1
+	b := uint64(base)
+	for i, x := range w[:h] {
+		hi = hi*b + uint64(x)
+		lo = lo*b + uint64(w[h+i])
+		scale *= b
 	}
-	return v
+	if len(w)%2 == 1 {
+		lo = lo*b + uint64(w[len(w)-1])
+		scale *= b
+	}
+	return hi*scale + lo
+}
+
+// b2i is 1 for true, 0 for false.
+func b2i(v bool) int64 {
+	if v {
+		return 1
+	}
+	return 0
 }
 
 func (t *Tally) countHand(w []byte)  { t.Poker[distinct(w)]++ }
@@ -204,19 +222,12 @@ func (t *Tally) addRuns(d []byte) {
 		aTrail = 0 // the first digit starts a run of 1 below
 		prev = d[0] + 1
 	}
+	// Branch-free: runs of random digits end at unpredictable places.
 	for _, x := range d {
-		if x == prev {
-			aTrail++
-		} else {
-			aTrail = 1
-		}
+		aTrail = aTrail*b2i(x == prev) + 1
 		aMax = max(aMax, aTrail)
-		if x == c {
-			dTrail++
-			dMax = max(dMax, dTrail)
-		} else {
-			dTrail = 0
-		}
+		dTrail = (dTrail + 1) * b2i(x == c)
+		dMax = max(dMax, dTrail)
 		prev = x
 	}
 	any.Trail, any.Max = aTrail, aMax
@@ -228,14 +239,14 @@ func (t *Tally) addWalk(d []byte) {
 	if !t.WalkHull {
 		step := int64(t.Base - 1)
 		u := 2*w.Sum - t.N*step
+		hi, lo := w.UMax, w.UMin
 		for _, x := range d {
 			u += 2*int64(x) - step
-			w.UMax = max(w.UMax, u)
-			w.UMin = min(w.UMin, u)
+			hi = max(hi, u)
+			lo = min(lo, u)
 		}
-		for _, x := range d {
-			w.Sum += int64(x)
-		}
+		w.UMax, w.UMin = hi, lo
+		w.Sum = (u + (t.N+int64(len(d)))*step) / 2
 		return
 	}
 	k := t.N

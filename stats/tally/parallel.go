@@ -1,8 +1,6 @@
 package tally
 
 import (
-	"fmt"
-	"os"
 	"sort"
 	"sync"
 	"time"
@@ -86,8 +84,6 @@ type Runner struct {
 	spent   []time.Duration
 	seen    int
 	groups  [][]kernel
-	gt      [3]time.Duration
-	chunks  int
 }
 
 // NewRunner returns a Runner for t with up to workers goroutines.
@@ -157,69 +153,22 @@ func (r *Runner) Add(d []byte) {
 		r.seen++
 		if r.seen == calibrationChunks {
 			r.group()
-			if os.Getenv("BOREL_DEBUG_GROUPS") != "" {
-				for gi, g := range r.groups {
-					for _, k := range g {
-						for i, kk := range r.ks {
-							if &kk.run == &k.run || kk.name == k.name {
-								fmt.Fprintf(os.Stderr, "group %d: %s %v\n", gi, k.name, r.spent[i])
-								break
-							}
-						}
-					}
-				}
-			}
 		}
 		return
 	}
 	var wg sync.WaitGroup
-	t00 := time.Now()
-	for gi, g := range r.groups[1:] {
+	for _, g := range r.groups[1:] {
 		wg.Add(1)
 		go func(g []kernel) {
 			defer wg.Done()
-			t0 := time.Now()
 			for _, k := range g {
 				k.run(d)
 			}
-			r.gt[gi+1] += time.Since(t0)
 		}(g)
 	}
-	t0 := time.Now()
 	for _, k := range r.groups[0] {
 		k.run(d)
 	}
-	r.gt[0] += time.Since(t0)
 	wg.Wait()
-	r.gt[2] += time.Since(t00)
 	r.t.advance(d)
-	r.chunks++
-	if r.chunks%1000 == 0 && os.Getenv("BOREL_DEBUG_GROUPS") != "" {
-		fmt.Fprintf(os.Stderr, "chunks %d: group0 %v group1 %v wall %v\n", r.chunks, r.gt[0], r.gt[1], r.gt[2])
-	}
-}
-
-// KernelTimes runs each kernel on d in order, adding its time to costs
-// (a profiling aid), and advances the tally.
-func (t *Tally) KernelTimes(d []byte, costs map[string]time.Duration) {
-	for _, k := range t.kernels() {
-		s := time.Now()
-		k.run(d)
-		costs[k.name] += time.Since(s)
-	}
-	t.advance(d)
-}
-
-// KernelTimesOnly is KernelTimes for the named kernels only.
-func (t *Tally) KernelTimesOnly(d []byte, costs map[string]time.Duration, names ...string) {
-	for _, k := range t.kernels() {
-		for _, n := range names {
-			if k.name == n {
-				s := time.Now()
-				k.run(d)
-				costs[k.name] += time.Since(s)
-			}
-		}
-	}
-	t.advance(d)
 }

@@ -325,21 +325,40 @@ func (t *Tally) addBlocks(k int, d []byte) {
 	}
 }
 
+// addGaps extends each digit class's gap record over d, with the
+// positions of the last occurrences in a local array (−1: not seen yet).
 func (t *Tally) addGaps(d []byte) {
 	cap64 := int64(t.gapCap())
+	var last [256]int64
+	for c := range t.Gaps {
+		last[c] = -1
+		if t.Gaps[c].Seen {
+			last[c] = t.Gaps[c].Last
+		}
+	}
+	hists := make([][]int64, len(t.Gaps))
+	for c := range t.Gaps {
+		hists[c] = t.Gaps[c].Hist
+	}
+	class := t.GapClass
+	n := t.N
 	for i, x := range d {
 		c := int(x)
-		if t.GapClass != nil {
-			c = t.GapClass[x]
+		if class != nil {
+			c = class[x]
 		}
-		g := &t.Gaps[c]
-		pos := t.N + int64(i)
-		if g.Seen {
-			g.Hist[min(pos-g.Last-1, cap64)]++
+		pos := n + int64(i)
+		if l := last[c]; l >= 0 {
+			hists[c][min(pos-l-1, cap64)]++
 		} else {
-			g.Seen, g.First = true, pos
+			t.Gaps[c].Seen, t.Gaps[c].First = true, pos
 		}
-		g.Last = pos
+		last[c] = pos
+	}
+	for c := range t.Gaps {
+		if last[c] >= 0 {
+			t.Gaps[c].Last = last[c]
+		}
 	}
 }
 
