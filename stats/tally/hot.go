@@ -1,5 +1,7 @@
 package tally
 
+import "sync"
+
 // Large count tables are counted in bytes first. At 10^8 decimal digits the
 // overlapping 7-windows go to 10^7 cells: as 64-bit counters that is 80 MB,
 // far beyond the caches, and every increment waited on memory (about 13 ns
@@ -43,15 +45,33 @@ func (t *Tally) Settle() {
 			}
 		}
 	}
-	if t.hotOverlap != nil {
-		fold(t.Overlap, t.hotOverlap)
+	var tasks []func()
+	if h := t.hotOverlap; h != nil { // in halves: the largest table
+		m := len(h) / 2
+		tasks = append(tasks, func() { fold(t.Overlap[:m], h[:m]) }, func() { fold(t.Overlap[m:], h[m:]) })
 	}
 	for k, hot := range t.hotBlocks {
 		if hot != nil {
-			fold(t.Blocks[k], hot)
+			tasks = append(tasks, func() { fold(t.Blocks[k], hot) })
 		}
 	}
+	parallel(tasks...)
 	t.hotOverlap, t.hotBlocks = nil, nil
+}
+
+// parallel runs fns on their own goroutines and waits for all of them
+// (each must write only its own data).
+func parallel(fns ...func()) {
+	if len(fns) == 1 {
+		fns[0]()
+		return
+	}
+	var wg sync.WaitGroup
+	for _, f := range fns {
+		wg.Add(1)
+		go func() { defer wg.Done(); f() }()
+	}
+	wg.Wait()
 }
 
 // Two records follow from the count tables at the end instead of costing a
@@ -135,50 +155,67 @@ func (t *Tally) digitAt(i int64) byte {
 	return t.Tail[i-(t.N-int64(len(t.Tail)))]
 }
 
+// derive fills the derived records; the lag products (one task per lag)
+// and the block and poker derivations run concurrently.
 func (t *Tally) derive() {
 	s := t.Spec
-	for k := s.blocksMax(); k >= 2; k-- {
-		if m := s.blocksSource(k); m > 0 {
-			t.deriveBlocks(k, m)
+	var tasks []func()
+	tasks = append(tasks, func() {
+		for k := s.blocksMax(); k >= 2; k-- {
+			if m := s.blocksSource(k); m > 0 {
+				t.deriveBlocks(k, m)
+			}
 		}
-	}
+		if s.pokerDerived() {
+			t.derivePoker()
+		}
+	})
 	if s.lagsDerived() {
-		K, b := s.MaxBlock, s.Base
-		n, L := t.N, int64(len(t.Tail))
 		for h := 1; h <= s.Lags; h++ {
-			var sum int64
-			inner, mid := ipow(b, K-1-h), ipow(b, h-1)
-			for a := 1; a < b; a++ {
-				for m := 0; m < mid; m++ {
-					row := ((a*mid + m) * b) * inner
-					for c := 1; c < b; c++ {
-						var rs int64
-						for _, v := range t.Overlap[row+c*inner : row+(c+1)*inner] {
-							rs += v
-						}
-						sum += int64(a*c) * rs
-					}
-				}
-			}
-			// Pairs whose first digit is past the last K-window's start.
-			for i := max(0, n-int64(K)+1); i+int64(h) < n; i++ {
-				sum += int64(t.Tail[i-(n-L)]) * int64(t.Tail[i+int64(h)-(n-L)])
-			}
-			t.LagProd[h] = sum
+			tasks = append(tasks, func() { t.LagProd[h] = t.lagProduct(h) })
 		}
 	}
-	if s.pokerDerived() {
-		h, b := s.PokerHand, s.Base
-		clear(t.Poker)
-		w := make([]byte, h)
-		for v, c := range t.Blocks[h] {
-			if c == 0 {
-				continue
+	parallel(tasks...)
+}
+
+// lagProduct returns Σ x_i x_{i+h} over the pairs inside the stretch, from
+// the K-windows (first and (h+1)-th digit) and Tail.
+func (t *Tally) lagProduct(h int) int64 {
+	K, b := t.MaxBlock, t.Base
+	n, L := t.N, int64(len(t.Tail))
+	var sum int64
+	inner, mid := ipow(b, K-1-h), ipow(b, h-1)
+	for a := 1; a < b; a++ {
+		for m := 0; m < mid; m++ {
+			row := ((a*mid + m) * b) * inner
+			for c := 1; c < b; c++ {
+				var rs int64
+				for _, v := range t.Overlap[row+c*inner : row+(c+1)*inner] {
+					rs += v
+				}
+				sum += int64(a*c) * rs
 			}
-			for j, x := h-1, v; j >= 0; j, x = j-1, x/b {
-				w[j] = byte(x % b)
-			}
-			t.Poker[distinct(w)] += c
 		}
+	}
+	// Pairs whose first digit is past the last K-window's start.
+	for i := max(0, n-int64(K)+1); i+int64(h) < n; i++ {
+		sum += int64(t.Tail[i-(n-L)]) * int64(t.Tail[i+int64(h)-(n-L)])
+	}
+	return sum
+}
+
+// derivePoker fills the poker hands from the aligned h-blocks.
+func (t *Tally) derivePoker() {
+	h, b := t.PokerHand, t.Base
+	clear(t.Poker)
+	w := make([]byte, h)
+	for v, c := range t.Blocks[h] {
+		if c == 0 {
+			continue
+		}
+		for j, x := h-1, v; j >= 0; j, x = j-1, x/b {
+			w[j] = byte(x % b)
+		}
+		t.Poker[distinct(w)] += c
 	}
 }
