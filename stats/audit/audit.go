@@ -403,6 +403,10 @@ func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
 	return p.t, nil
 }
 
+// pipelineChunk is the digits handed to the kernels at a time by
+// tallyPipelined.
+const pipelineChunk = 1 << 18
+
 // tallyPipelined is Tally with the reading (decoding, hashing by the
 // caller's tee, decompression) on its own goroutine, one chunk ahead of the
 // kernels, so that it overlaps with them instead of stopping every worker
@@ -422,14 +426,21 @@ func (p *Plan) tallyPipelined(r *seq.Reader) (*tally.Tally, error) {
 	quit := make(chan struct{})
 	go func() {
 		defer close(full)
-		for r.Scan() {
+		more := r.Scan()
+		for more {
 			var buf []byte
 			select {
 			case buf = <-free:
 			case <-quit:
 				return
 			}
-			buf = append(buf[:0], r.Digits()...)
+			// Several reader chunks per step of the pass: each step ends by
+			// waiting for the slowest group of kernels.
+			buf = buf[:0]
+			for more && len(buf) < pipelineChunk {
+				buf = append(buf, r.Digits()...)
+				more = r.Scan()
+			}
 			select {
 			case full <- chunk{buf, r.Count(), r.Offset()}:
 			case <-quit:
