@@ -61,12 +61,14 @@ func (t *Tally) kernels() []kernel {
 }
 
 // The Runner runs the kernels one after another on the first
-// calibrationChunks chunks and times them on all but the first warmupChunks
+// calibrationDigits digits and times them on all but the first warmupDigits
 // (whose first touches of the large tables cost page faults, not work),
-// then groups the kernels by measured cost.
-const (
-	warmupChunks      = 8
-	calibrationChunks = 40
+// then groups the kernels by measured cost. Counted in digits, not chunks:
+// callers hand over chunks of any size, and this stretch runs on one core.
+// (Variables so that tests can reach the concurrent path on short inputs.)
+var (
+	warmupDigits      = 1 << 19
+	calibrationDigits = 1 << 21
 )
 
 // Runner feeds a tally from several goroutines: it first runs the kernels
@@ -95,10 +97,14 @@ func NewRunner(t *Tally, workers int) *Runner {
 // group splits the kernels by measured cost (estimated cost before any
 // measurement), keeping each group in the sequential order.
 func (r *Runner) group() {
+	measured := false
+	for _, d := range r.spent {
+		measured = measured || d > 0
+	}
 	cost := make([]float64, len(r.ks))
 	for i, k := range r.ks {
 		cost[i] = k.cost
-		if r.seen > 0 {
+		if measured {
 			cost[i] = float64(r.spent[i])
 		}
 	}
@@ -141,17 +147,17 @@ func (r *Runner) Add(d []byte) {
 		r.t.Add(d)
 		return
 	}
-	if r.seen < calibrationChunks {
+	if r.seen < calibrationDigits {
 		for i, k := range r.ks {
 			t0 := time.Now()
 			k.run(d)
-			if r.seen >= warmupChunks {
+			if r.seen >= warmupDigits {
 				r.spent[i] += time.Since(t0)
 			}
 		}
 		r.t.advance(d)
-		r.seen++
-		if r.seen == calibrationChunks {
+		r.seen += len(d)
+		if r.seen >= calibrationDigits {
 			r.group()
 		}
 		return

@@ -330,6 +330,9 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 // The parallel runner gives the same tally, bit for bit, as one goroutine,
 // for 1, 2, 3 and 8 workers.
 func TestRunnerIdenticalForAnyWorkers(t *testing.T) {
+	// Calibrate on the first few chunks so that the concurrent groups run.
+	defer func(w, c int) { warmupDigits, calibrationDigits = w, c }(warmupDigits, calibrationDigits)
+	warmupDigits, calibrationDigits = 4096, 3*4096
 	rng := rand.New(rand.NewPCG(7, 8))
 	for trial := 0; trial < 20; trial++ {
 		base := 2 + rng.IntN(15)
@@ -416,6 +419,8 @@ func same(a, b *Tally) bool {
 // with 64-bit counting only.
 func TestHotCountersExact(t *testing.T) {
 	defer func(v int) { hotMinCells = v }(hotMinCells)
+	defer func(w, c int) { warmupDigits, calibrationDigits = w, c }(warmupDigits, calibrationDigits)
+	warmupDigits, calibrationDigits = 777, 3*777
 	rng := rand.New(rand.NewPCG(31, 32))
 	for trial := range 20 {
 		base := 2 + rng.IntN(9)
