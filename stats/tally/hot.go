@@ -106,24 +106,28 @@ func (s Spec) blocksSource(k int) int {
 	return 0
 }
 
-// deriveBlocks fills Blocks[k] from Blocks[m], m = blocksSource(k).
+// deriveBlocks fills Blocks[k] from Blocks[m], m = blocksSource(k): the
+// m-block table, seen as m/k axes of b^k values each, is summed over all
+// axes but one, for each axis in turn (streaming passes, no decoding).
 func (t *Tally) deriveBlocks(k, m int) {
 	b := t.Base
 	cnt := t.Blocks[k]
 	clear(cnt)
-	digits := make([]byte, m)
-	for v, c := range t.Blocks[m] {
-		if c == 0 {
-			continue
-		}
-		for j, x := m-1, v; j >= 0; j, x = j-1, x/b {
-			digits[j] = byte(x % b)
-		}
-		for j := 0; j < m; j += k {
-			cnt[value(digits[j:j+k], b)] += c
+	src, mid := t.Blocks[m], ipow(b, k)
+	for j := 0; j < m/k; j++ {
+		outer, inner := ipow(b, k*j), ipow(b, m-k-k*j)
+		for o := 0; o < outer; o++ {
+			for x := 0; x < mid; x++ {
+				start := (o*mid + x) * inner
+				var s int64
+				for _, v := range src[start : start+inner] {
+					s += v
+				}
+				cnt[x] += s
+			}
 		}
 	}
-	// Aligned k-blocks inside the stretch but outside its complete aligned
+// Aligned k-blocks inside the stretch but outside its complete aligned
 	// m-blocks: before the first m-aligned position, or after the last
 	// complete m-block. (m-aligned positions are k-aligned, so no k-block
 	// straddles one.)
@@ -171,26 +175,30 @@ func (t *Tally) derive() {
 		}
 	})
 	if s.lagsDerived() {
-		for h := 1; h <= s.Lags; h++ {
-			tasks = append(tasks, func() { t.LagProd[h] = t.lagProduct(h) })
-		}
+		tasks = append(tasks, func() {
+			heads := t.lagHeads()
+			for h := 1; h <= s.Lags; h++ {
+				t.LagProd[h] = t.lagProduct(h, heads)
+			}
+		})
 	}
 	parallel(tasks...)
 }
 
 // lagProduct returns Σ x_i x_{i+h} over the pairs inside the stretch, from
-// the K-windows (first and (h+1)-th digit) and Tail.
-func (t *Tally) lagProduct(h int) int64 {
-	K, b := t.MaxBlock, t.Base
+// the K-windows (first and (h+1)-th digit) and Tail. heads is the window
+// table summed over its digits after the (H+1)-th (lagHeads).
+func (t *Tally) lagProduct(h int, heads []int64) int64 {
+	b, H := t.Base, t.Lags
 	n, L := t.N, int64(len(t.Tail))
 	var sum int64
-	inner, mid := ipow(b, K-1-h), ipow(b, h-1)
+	inner, mid := ipow(b, H-h), ipow(b, h-1)
 	for a := 1; a < b; a++ {
 		for m := 0; m < mid; m++ {
 			row := ((a*mid + m) * b) * inner
 			for c := 1; c < b; c++ {
 				var rs int64
-				for _, v := range t.Overlap[row+c*inner : row+(c+1)*inner] {
+				for _, v := range heads[row+c*inner : row+(c+1)*inner] {
 					rs += v
 				}
 				sum += int64(a*c) * rs
@@ -198,10 +206,30 @@ func (t *Tally) lagProduct(h int) int64 {
 		}
 	}
 	// Pairs whose first digit is past the last K-window's start.
+	K := t.MaxBlock
 	for i := max(0, n-int64(K)+1); i+int64(h) < n; i++ {
 		sum += int64(t.Tail[i-(n-L)]) * int64(t.Tail[i+int64(h)-(n-L)])
 	}
 	return sum
+}
+
+// lagHeads sums the K-window table over the digits after the (H+1)-th, so
+// that each lag's pass runs over b^(H+1) cells instead of b^K.
+func (t *Tally) lagHeads() []int64 {
+	b, K, H := t.Base, t.MaxBlock, t.Lags
+	r := ipow(b, K-1-H)
+	if r == 1 {
+		return t.Overlap
+	}
+	heads := make([]int64, ipow(b, H+1))
+	for i := range heads {
+		var s int64
+		for _, v := range t.Overlap[i*r : i*r+r] {
+			s += v
+		}
+		heads[i] = s
+	}
+	return heads
 }
 
 // derivePoker fills the poker hands from the aligned h-blocks.
