@@ -94,9 +94,9 @@ func distinct(w []byte) int {
 func (t *Tally) addUpDown(d []byte) {
 	L := t.UpDownDigits
 	keep := min(len(t.Tail), 3*L-1)
-	x := make([]byte, 0, keep+len(d))
-	x = append(x, t.Tail[len(t.Tail)-keep:]...)
+	x := append(t.udScratch[:0], t.Tail[len(t.Tail)-keep:]...)
 	x = append(x, d...)
+	t.udScratch = x // reused: no garbage per chunk
 	xs := t.Offset + t.N - int64(keep) // global position of x[0]
 	s := 0
 	if r := xs % int64(L); r != 0 {

@@ -56,7 +56,7 @@ func (t *Tally) Settle() {
 		}
 	}
 	parallel(tasks...)
-	t.hotOverlap, t.hotBlocks = nil, nil
+	t.hotOverlap, t.hotBlocks, t.udScratch = nil, nil, nil
 }
 
 // parallel runs fns on their own goroutines and waits for all of them

@@ -109,7 +109,7 @@ func (t *Tally) Clone() *Tally {
 	}
 	t.Settle()
 	u := *t
-	u.hotOverlap, u.hotBlocks = nil, nil
+	u.hotOverlap, u.hotBlocks, u.udScratch = nil, nil, nil
 	u.GapClass = slices.Clone(t.GapClass)
 	u.Digits = slices.Clone(t.Digits)
 	u.Overlap = slices.Clone(t.Overlap)

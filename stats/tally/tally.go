@@ -162,6 +162,7 @@ type Tally struct {
 	// of cell w is Overlap[w] + hotOverlap[w] until Settle folds them in.
 	hotOverlap []uint8
 	hotBlocks  [][]uint8
+	udScratch  []byte // addUpDown's tail‖chunk buffer
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
