@@ -96,7 +96,7 @@ func (t *Tally) addUpDown(d []byte) {
 	keep := min(len(t.Tail), 3*L-1)
 	x := append(t.udScratch[:0], t.Tail[len(t.Tail)-keep:]...)
 	x = append(x, d...)
-	t.udScratch = x // reused: no garbage per chunk
+	t.udScratch = x                    // reused: no garbage per chunk
 	xs := t.Offset + t.N - int64(keep) // global position of x[0]
 	s := 0
 	if r := xs % int64(L); r != 0 {

@@ -127,7 +127,7 @@ func (t *Tally) deriveBlocks(k, m int) {
 			}
 		}
 	}
-// Aligned k-blocks inside the stretch but outside its complete aligned
+	// Aligned k-blocks inside the stretch but outside its complete aligned
 	// m-blocks: before the first m-aligned position, or after the last
 	// complete m-block. (m-aligned positions are k-aligned, so no k-block
 	// straddles one.)
