@@ -83,9 +83,11 @@ type Runner struct {
 	t       *Tally
 	workers int
 	ks      []kernel
-	spent   []time.Duration
+	spent   []time.Duration // per kernel: alone (calibration), then in groups
 	seen    int
-	groups  [][]kernel
+	groups  [][]int // indices into ks, in sequential order
+	steps   int     // concurrent steps so far
+	next    int     // step at which to regroup on the times measured in groups
 }
 
 // NewRunner returns a Runner for t with up to workers goroutines.
@@ -128,12 +130,8 @@ func (r *Runner) group() {
 	r.groups = r.groups[:0]
 	for _, m := range members {
 		sort.Ints(m)
-		var g []kernel
-		for _, i := range m {
-			g = append(g, r.ks[i])
-		}
-		if len(g) > 0 {
-			r.groups = append(r.groups, g)
+		if len(m) > 0 {
+			r.groups = append(r.groups, m)
 		}
 	}
 }
@@ -159,22 +157,33 @@ func (r *Runner) Add(d []byte) {
 		r.seen += len(d)
 		if r.seen >= calibrationDigits {
 			r.group()
+			clear(r.spent)
+			r.next = 4
 		}
 		return
+	}
+	run := func(g []int) {
+		for _, i := range g {
+			t0 := time.Now()
+			r.ks[i].run(d)
+			r.spent[i] += time.Since(t0) // each kernel is in one group: no race
+		}
 	}
 	var wg sync.WaitGroup
 	for _, g := range r.groups[1:] {
 		wg.Add(1)
-		go func(g []kernel) {
-			defer wg.Done()
-			for _, k := range g {
-				k.run(d)
-			}
-		}(g)
+		go func() { defer wg.Done(); run(g) }()
 	}
-	for _, k := range r.groups[0] {
-		k.run(d)
-	}
+	run(r.groups[0])
 	wg.Wait()
 	r.t.advance(d)
+	// Kernels slow down beside each other (they share the last-level cache
+	// and the memory bus), so the groups are rebalanced on the times they
+	// take together, at steps 4, 12, 28, … (doubling intervals).
+	r.steps++
+	if r.steps == r.next {
+		r.group()
+		clear(r.spent)
+		r.next = 2*r.next + 4
+	}
 }
