@@ -10,6 +10,7 @@ import (
 	"math"
 	"runtime"
 	"strings"
+	"sync"
 
 	"borel/stats"
 	"borel/stats/checks"
@@ -467,6 +468,40 @@ func (p *Plan) tallyPipelined(r *seq.Reader) (*tally.Tally, error) {
 	return p.t, nil
 }
 
+// runChecks runs the selected checks on in, each into its own result, on
+// their own goroutines when more than one worker is allowed (they only read
+// the tally), and joins the results in the checks' order.
+func runChecks(in checks.Input, opts Options) checks.Result {
+	var run []checks.Check
+	for _, c := range checks.All() {
+		if opts.selected(c.Name()) {
+			run = append(run, c)
+		}
+	}
+	parts := make([]checks.Result, len(run))
+	if opts.Workers > 1 {
+		var wg sync.WaitGroup
+		for i, c := range run {
+			wg.Add(1)
+			go func() { defer wg.Done(); c.Run(in, &parts[i]) }()
+		}
+		wg.Wait()
+	} else {
+		for i, c := range run {
+			c.Run(in, &parts[i])
+		}
+	}
+	var out checks.Result
+	for _, r := range parts {
+		out.Findings = append(out.Findings, r.Findings...)
+		out.Skips = append(out.Skips, r.Skips...)
+		if r.Entropy != nil {
+			out.Entropy = r.Entropy
+		}
+	}
+	return out
+}
+
 // Finish runs the checks on a finished tally of the whole sequence and
 // returns the audit result.
 func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
@@ -527,12 +562,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	res.MaxBlock = K
 	in := checks.Input{Tally: t, Cyclic: cyc[:K+1], Null: res.Null,
 		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
-	var out checks.Result
-	for _, c := range checks.All() {
-		if opts.selected(c.Name()) {
-			c.Run(in, &out)
-		}
-	}
+	out := runChecks(in, opts)
 	if len(opts.Checks) > 0 {
 		res.Notes = append(res.Notes, "checks run (--checks): "+strings.Join(opts.Checks, ", "))
 	}
