@@ -145,6 +145,18 @@ func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool) bsResult {
 	if isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
 		return fusedNode(l, r, needP)
 	}
+	if isOne(l.B) && isOne(r.B) {
+		// Small nodes of b = 1 series: math/big's products, in place where
+		// an operand is not needed again (the leaves are most of the nodes,
+		// and allocation showed in profiles).
+		t1 := new(big.Int).Mul(r.Q, l.T)
+		t2 := l.T.Mul(l.P, r.T)
+		res := bsResult{Q: l.Q.Mul(l.Q, r.Q), B: l.B, T: t1.Add(t1, t2)}
+		if needP {
+			res.P = l.P.Mul(l.P, r.P)
+		}
+		return res
+	}
 	t1 := mul(mul(r.B, r.Q), l.T)
 	t2 := mul(mul(l.B, l.P), r.T)
 	res := bsResult{Q: mul(l.Q, r.Q), B: mul(l.B, r.B), T: t1.Add(t1, t2)}
