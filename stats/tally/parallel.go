@@ -3,6 +3,7 @@ package tally
 import (
 	"sort"
 	"sync"
+	"sync/atomic"
 	"time"
 )
 
@@ -72,68 +73,28 @@ var (
 )
 
 // Runner feeds a tally from several goroutines: it first runs the kernels
-// one after another on a few chunks, timing each; then it splits them into
-// groups of about equal measured cost (largest first onto the least loaded
-// group), runs the groups concurrently on each chunk, and advances the tally
-// when all are done. Every kernel is the same code Add runs, on the same
-// chunk, writing fields no other kernel touches, so the tally is identical,
-// bit for bit, whatever the number of workers; only the speed depends on the
-// grouping.
+// one after another on the first digits, timing each; then, on each chunk,
+// its workers take kernels from a shared list, costliest first (re-sorted
+// now and then on the times they take side by side), until none is left,
+// and the tally advances when all are done. Every kernel is the same code
+// Add runs, on the same chunk, writing fields no other kernel touches, so
+// the tally is identical, bit for bit, whatever the number of workers; only
+// the speed depends on who ran what.
 type Runner struct {
 	t       *Tally
 	workers int
 	ks      []kernel
-	spent   []time.Duration // per kernel: alone (calibration), then in groups
+	spent   []time.Duration // per kernel: alone (calibration), then side by side
 	seen    int
-	groups  [][]int // indices into ks, in sequential order
-	steps   int     // concurrent steps so far
-	next    int     // step at which to regroup on the times measured in groups
+	order   []int // indices into ks, costliest first
+	steps   int   // concurrent steps so far
+	next    int   // step at which to regroup on the times measured in groups
 }
 
 // NewRunner returns a Runner for t with up to workers goroutines.
 func NewRunner(t *Tally, workers int) *Runner {
 	ks := t.kernels()
 	return &Runner{t: t, workers: max(1, min(workers, len(ks))), ks: ks, spent: make([]time.Duration, len(ks))}
-}
-
-// group splits the kernels by measured cost (estimated cost before any
-// measurement), keeping each group in the sequential order.
-func (r *Runner) group() {
-	measured := false
-	for _, d := range r.spent {
-		measured = measured || d > 0
-	}
-	cost := make([]float64, len(r.ks))
-	for i, k := range r.ks {
-		cost[i] = k.cost
-		if measured {
-			cost[i] = float64(r.spent[i])
-		}
-	}
-	order := make([]int, len(r.ks))
-	for i := range order {
-		order[i] = i
-	}
-	sort.SliceStable(order, func(a, b int) bool { return cost[order[a]] > cost[order[b]] })
-	members := make([][]int, r.workers)
-	load := make([]float64, r.workers)
-	for _, i := range order {
-		g := 0
-		for j := range load {
-			if load[j] < load[g] {
-				g = j
-			}
-		}
-		members[g] = append(members[g], i)
-		load[g] += cost[i]
-	}
-	r.groups = r.groups[:0]
-	for _, m := range members {
-		sort.Ints(m)
-		if len(m) > 0 {
-			r.groups = append(r.groups, m)
-		}
-	}
 }
 
 // Add tallies the next digits of the stretch.
@@ -156,34 +117,49 @@ func (r *Runner) Add(d []byte) {
 		r.t.advance(d)
 		r.seen += len(d)
 		if r.seen >= calibrationDigits {
-			r.group()
+			r.sortByCost()
 			clear(r.spent)
 			r.next = 4
 		}
 		return
 	}
-	run := func(g []int) {
-		for _, i := range g {
+	// The workers take kernels from a shared list, costliest first (as last
+	// measured), until none is left: each step balances itself, whatever
+	// the kernels cost beside each other.
+	var next atomic.Int32
+	work := func() {
+		for {
+			j := int(next.Add(1)) - 1
+			if j >= len(r.order) {
+				return
+			}
+			i := r.order[j]
 			t0 := time.Now()
 			r.ks[i].run(d)
-			r.spent[i] += time.Since(t0) // each kernel is in one group: no race
+			r.spent[i] += time.Since(t0) // one worker per kernel per step
 		}
 	}
 	var wg sync.WaitGroup
-	for _, g := range r.groups[1:] {
+	for range r.workers - 1 {
 		wg.Add(1)
-		go func() { defer wg.Done(); run(g) }()
+		go func() { defer wg.Done(); work() }()
 	}
-	run(r.groups[0])
+	work()
 	wg.Wait()
 	r.t.advance(d)
-	// Kernels slow down beside each other (they share the last-level cache
-	// and the memory bus), so the groups are rebalanced on the times they
-	// take together, at steps 4, 12, 28, … (doubling intervals).
 	r.steps++
-	if r.steps == r.next {
-		r.group()
+	if r.steps == r.next { // re-sort on recent times, at steps 4, 12, 28, …
+		r.sortByCost()
 		clear(r.spent)
 		r.next = 2*r.next + 4
 	}
+}
+
+// sortByCost orders the kernels by measured cost, largest first.
+func (r *Runner) sortByCost() {
+	r.order = r.order[:0]
+	for i := range r.ks {
+		r.order = append(r.order, i)
+	}
+	sort.SliceStable(r.order, func(a, b int) bool { return r.spent[r.order[a]] > r.spent[r.order[b]] })
 }
