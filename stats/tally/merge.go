@@ -187,6 +187,9 @@ func lowerOrders(top []int64, K, b int) [][]int64 {
 // lower orders follow by summing out the last digit. It needs N ≥ K-1, and
 // the stretch must be the whole sequence (a shard has no wrap-around).
 func (t *Tally) Cyclic() ([][]int64, error) {
+	if t.finished { // Overlap already holds the cyclic counts
+		return nil, fmt.Errorf("tally: Cyclic of a finished tally (after CyclicInPlace)")
+	}
 	t.Settle()
 	K, b := t.MaxBlock, t.Base
 	if t.N < int64(K) {
