@@ -13,17 +13,21 @@ import (
 // transform length N) is computed modulo three primes p_i = c_i·2^32 + 1 in
 // (2^61, 2^62) and recovered exactly by the Chinese remainder theorem
 // (Garner's method), since p_1 p_2 p_3 > 2^183 > N·2^128 for every N < 2^55.
-// The transforms are radix 2: decimation in frequency forward (natural order
-// in, bit-reversed out), decimation in time inverse (bit-reversed in, natural
-// out), so no permutation pass is needed. Butterflies keep values lazily in
-// [0, 2p) or [0, 4p) (Harvey, "Faster arithmetic for number-theoretic
-// transforms", J. Symbolic Comput. 60, 2014) and multiply by a fixed twiddle
-// w with Shoup's precomputed w' = floor(w·2^64/p): one high and two low
-// products, no division. Pointwise products use Montgomery reduction. The
-// three primes run on their own goroutines.
+// Lengths are 2^k or 3·2^k (nttLen). Power-of-two transforms are decimation
+// in frequency forward (natural order in, bit-reversed out) and decimation
+// in time inverse (bit-reversed in, natural out), so no permutation pass is
+// needed, done two stages per pass (radix 4) and, for large lengths, top
+// stages first and then each quarter in cache (the quarters of the largest
+// on their own goroutines); a length 3·2^k adds one radix-3 pass. Butterflies
+// keep values lazily in [0, 2p) or [0, 4p) (Harvey, "Faster arithmetic for
+// number-theoretic transforms", J. Symbolic Comput. 60, 2014) and multiply by
+// a fixed twiddle w with Shoup's precomputed w' = floor(w·2^64/p): one high
+// and two low products, no division. Pointwise products use Montgomery
+// reduction. The three primes run on their own goroutines.
 //
-// Cost: 3 transforms per prime (2 for a square) of length N, the least power
-// of two ≥ len(a)+len(b) words. The check is TestNTTMul against math/big.
+// Cost: 3 transforms per prime (2 for a square) of length N ≥ len(a)+len(b)
+// words; operands that recur are transformed once (spectrum). The checks are
+// TestNTTMul and TestSumOfProducts against math/big.
 
 // nttPrime holds one prime and its twiddle tables: tw[m+j] = w_{2m}^j for
 // the stage of half-length m (w_{2m} a primitive 2m-th root of unity), j < m,
