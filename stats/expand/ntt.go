@@ -140,8 +140,9 @@ const nttParallel = 1 << 16
 const nttBlock = 1 << 14
 
 // forward is the decimation-in-frequency transform: x in [0, 2p) natural
-// order → [0, 2p) bit-reversed order. Large lengths do their top stage over
-// the whole array, then recurse on halves so that small blocks stay cached.
+// order → [0, 2p) bit-reversed order. Large lengths do their top two stages
+// over the whole array, then recurse on the quarters, so that small blocks
+// stay in cache.
 func forward(x, tw, twp []uint64, p uint64) {
 	n := len(x)
 	if n > nttBlock {
@@ -160,7 +161,7 @@ func forward(x, tw, twp []uint64, p uint64) {
 
 // lastStage is the stage of half-length 1, whose twiddle is 1:
 // (a, b) → (a + b, a − b), [0, 2p) → [0, 2p) (the DIT first stage is the
-// same map but leaves its outputs in [0, 4p), which ditStage accepts).
+// same map; its outputs in [0, 2p) suit ditStage2).
 func lastStage(x []uint64, p uint64) {
 	p2 := 2 * p
 	for i := 0; i+1 < len(x); i += 2 {
@@ -183,28 +184,8 @@ func lastStage(x []uint64, p uint64) {
 	}
 }
 
-func difStage(x []uint64, m int, tw, twp []uint64, p uint64) {
-	p2 := 2 * p
-	w, wp := tw[m:2*m], twp[m:2*m]
-	for s := 0; s+2*m <= len(x); s += 2 * m {
-		lo, hi := x[s:s+m], x[s+m:s+2*m]
-		hi, w, wp := hi[:len(lo)], w[:len(lo)], wp[:len(lo)]
-		for j := range lo {
-			a, b := lo[j], hi[j]
-			t := a + b
-			if t >= p2 {
-				t -= p2
-			}
-			lo[j] = t
-			u := a + p2 - b
-			q, _ := bits.Mul64(u, wp[j])
-			hi[j] = u*w[j] - q*p
-		}
-	}
-}
-
-// difStage2 does the stages of half-lengths m and m/2 of one block of 2m in
-// one pass (radix 4), so that large transforms read memory half as often.
+// difStage2 does the stages of half-lengths m and m/2 of each block of 2m in
+// one pass (radix 4): half the loads and stores of two radix-2 stages.
 func difStage2(x []uint64, m int, tw, twp []uint64, p uint64) {
 	if m == 2 {
 		difQuads(x, tw[3], twp[3], p)
@@ -412,33 +393,6 @@ func inverse(x, tw, twp []uint64, p uint64) {
 	}
 	for ; m < n; m *= 4 {
 		ditStage2(x, 2*m, tw, twp, p)
-	}
-}
-
-// ditStage: (a, b) → (a + b·w^-j, a − b·w^-j) with w^-j = −w_{2m}^{m−j}
-// = −tw[2m−j] for j ≥ 1.
-func ditStage(x []uint64, m int, tw, twp []uint64, p uint64) {
-	p2 := 2 * p
-	w, wp := tw[m:2*m], twp[m:2*m]
-	for s := 0; s+2*m <= len(x); s += 2 * m {
-		lo, hi := x[s:s+m], x[s+m:s+2*m]
-		a, b := lo[0], hi[0]
-		if a >= p2 {
-			a -= p2
-		}
-		if b >= p2 {
-			b -= p2
-		}
-		lo[0], hi[0] = a+b, a+p2-b
-		for j := 1; j < len(lo); j++ {
-			a := lo[j]
-			if a >= p2 {
-				a -= p2
-			}
-			t := shoup(hi[j], w[m-j], wp[m-j], p) // b·w^(m−j) = −b·w^−j
-			lo[j] = a + p2 - t
-			hi[j] = a + t
-		}
 	}
 }
 
