@@ -102,7 +102,7 @@ const digitMemory = 4 << 30
 // need more memory than limit, saying how much it would need.
 func checkDigitMemory(src expand.Source, n, base int, limit int64) error {
 	if need := src.MemoryEstimate(n, base); need > float64(limit) {
-		return usagef("%d digits of %s in base %d need about %s of memory, over the bound of %s; ask for fewer digits",
+		return usagef("%d digits of %s in base %d need about %s of memory, over the bound of %s (--memory); ask for fewer digits or raise --memory if the machine has it",
 			n, src.Name, base, mib(need), mib(float64(limit)))
 	}
 	return nil
