@@ -464,12 +464,8 @@ func (q *nttPrime) forwardAny(x []uint64) {
 		forward(x, tw, twp, q.p)
 		return
 	}
-	m := n / 3
-	p := q.p
-	w := powMod(q.g, (p-1)/uint64(n), p)
-	r := q.montR()
-	omR := mulMod(powMod(w, uint64(m), p), r, p)
-	w1R, w2R := mulMod(w, r, p), mulMod(mulMod(w, w, p), r, p)
+	m, p := n/3, q.p
+	r, omR, w1R, w2R := q.radix3(n, false)
 	c1, c2 := r, r // w^j·R, w^(2j)·R
 	x0, x1, x2 := x[:m], x[m:2*m], x[2*m:3*m]
 	x1, x2 = x1[:len(x0)], x2[:len(x0)]
@@ -512,18 +508,14 @@ func (q *nttPrime) inverseAny(x []uint64) {
 		inverse(x, tw, twp, q.p)
 		return
 	}
-	m := n / 3
-	p := q.p
+	m, p := n/3, q.p
 	tw, twp := q.tables(m)
 	x0, x1, x2 := x[:m], x[m:2*m], x[2*m:3*m]
 	x1, x2 = x1[:len(x0)], x2[:len(x0)]
 	inverse(x0, tw, twp, p)
 	inverse(x1, tw, twp, p)
 	inverse(x2, tw, twp, p)
-	wi := powMod(powMod(q.g, (p-1)/uint64(n), p), p-2, p) // w^-1
-	r := q.montR()
-	omR := mulMod(powMod(wi, uint64(m), p), r, p) // ω^-1·R
-	w1R, w2R := mulMod(wi, r, p), mulMod(mulMod(wi, wi, p), r, p)
+	r, omR, w1R, w2R := q.radix3(n, true)
 	c1, c2 := r, r
 	for j := range x0 {
 		y0 := x0[j] // [0, 4p) → [0, p)
@@ -543,10 +535,18 @@ func (q *nttPrime) inverseAny(x []uint64) {
 	}
 }
 
-// montR returns 2^64 mod p.
-func (q *nttPrime) montR() uint64 {
-	_, r := bits.Div64(1, 0, q.p)
-	return r
+// radix3 returns the constants of the radix-3 pass at length n = 3m, in
+// Montgomery form (times R = 2^64 mod p): R itself, ω·R, w·R and w²·R, for
+// w the primitive n-th root g^((p−1)/n), or for w^-1 when inverse.
+func (q *nttPrime) radix3(n int, inverse bool) (r, omR, w1R, w2R uint64) {
+	p := q.p
+	w := powMod(q.g, (p-1)/uint64(n), p)
+	if inverse {
+		w = powMod(w, p-2, p)
+	}
+	_, r = bits.Div64(1, 0, p)
+	omR = mulMod(powMod(w, uint64(n/3), p), r, p)
+	return r, omR, mulMod(w, r, p), mulMod(mulMod(w, w, p), r, p)
 }
 
 // newSpectrum transforms v at length n (the three primes in parallel).

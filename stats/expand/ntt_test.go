@@ -12,13 +12,7 @@ import (
 // the CRT bound) and squares.
 func TestNTTMul(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
-	random := func(words int) *big.Int {
-		w := make([]big.Word, words)
-		for i := range w {
-			w[i] = big.Word(rng.Uint64())
-		}
-		return new(big.Int).SetBits(w)
-	}
+	random := func(words int) *big.Int { return randomInt(rng, words) }
 	ones := func(words int) *big.Int {
 		v := new(big.Int).Lsh(one, uint(64*words))
 		return v.Sub(v, one)
@@ -48,11 +42,7 @@ func TestNTTMul(t *testing.T) {
 func TestSumOfProducts(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	random := func(words int) *big.Int {
-		w := make([]big.Word, words)
-		for i := range w {
-			w[i] = big.Word(rng.Uint64())
-		}
-		v := new(big.Int).SetBits(w)
+		v := randomInt(rng, words)
 		if rng.IntN(2) == 0 {
 			v.Neg(v)
 		}
@@ -73,4 +63,13 @@ func TestSumOfProducts(t *testing.T) {
 			t.Fatalf("trial %d (%d words): a·b + c·d differs from math/big", trial, w)
 		}
 	}
+}
+
+// randomInt returns a natural number of the given count of random words.
+func randomInt(rng *rand.Rand, words int) *big.Int {
+	w := make([]big.Word, words)
+	for i := range w {
+		w[i] = big.Word(rng.Uint64())
+	}
+	return new(big.Int).SetBits(w)
 }

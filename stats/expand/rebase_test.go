@@ -135,11 +135,7 @@ func TestFracDigits(t *testing.T) {
 		base := []int{2, 3, 7, 10, 16, 36}[trial%6]
 		n := 1 + rng.IntN(40000)
 		Q := fracBits(n, base) + uint(rng.IntN(100))
-		words := make([]big.Word, (Q+63)/64)
-		for i := range words {
-			words[i] = big.Word(rng.Uint64())
-		}
-		F := new(big.Int).SetBits(words)
+		F := randomInt(rng, int(Q+63)/64)
 		F.Mod(F, new(big.Int).Lsh(one, Q))
 		if trial%4 == 1 { // just below a boundary at digit n/3: ...d999...
 			k := n/3 + 1
@@ -216,6 +212,9 @@ func TestRebaseFastMatchesExact(t *testing.T) {
 		want := rebaseExact(M, n, c.from, c.to, j)
 		got, ok := rebaseFast(M, n, c.from, c.to, j)
 		if !ok {
+			if i < 12 { // random digits: declining has a probability near 2^-60
+				t.Fatalf("case %d (%d→%d, %d random digits): the fast path declined", i, c.from, c.to, n)
+			}
 			t.Logf("case %d (%d→%d, %d digits): fast path declined (exact path used)", i, c.from, c.to, n)
 			continue
 		}
@@ -249,15 +248,8 @@ func TestRebaseAllNines(t *testing.T) {
 // quotients longer than the divisor and divisors longer than the quotient.
 func TestQuoRemLarge(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
-	random := func(words int) *big.Int {
-		w := make([]big.Word, words)
-		for i := range w {
-			w[i] = big.Word(rng.Uint64())
-		}
-		return new(big.Int).SetBits(w)
-	}
 	for _, s := range [][2]int{{9000, 4000}, {12000, 3000}, {9000, 6000}, {20000, 5000}, {7000, 3500}} {
-		a, b := random(s[0]), random(s[1])
+		a, b := randomInt(rng, s[0]), randomInt(rng, s[1])
 		q, r := quoRem(a, b, nil, 0)
 		wq, wr := new(big.Int).QuoRem(a, b, new(big.Int))
 		if q.Cmp(wq) != 0 || r.Cmp(wr) != 0 {
