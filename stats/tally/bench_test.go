@@ -41,6 +41,7 @@ func BenchmarkKernels(b *testing.B) {
 			if err != nil {
 				b.Fatal(err)
 			}
+			t.prepare()
 			var run []func([]byte)
 			for _, k := range t.kernels() {
 				if k.name == name {

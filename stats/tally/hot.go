@@ -17,6 +17,15 @@ import "sync"
 // variable so that tests can send every table through the byte path).
 var hotMinCells = 1 << 16
 
+// prepare makes the slots of the block byte tables, before kernels run
+// (each kernel then writes only its own slot, so concurrent kernels never
+// grow the shared slice). Add and Runner.Add call it.
+func (t *Tally) prepare() {
+	if len(t.hotBlocks) <= t.MaxBlock {
+		t.hotBlocks = make([][]uint8, t.MaxBlock+1)
+	}
+}
+
 // hotTable returns the byte table at *p for a table of n cells, making it
 // on first use, or nil for small tables (counted directly).
 func (t *Tally) hotTable(p *[]uint8, n int) []uint8 {
@@ -31,13 +40,14 @@ func (t *Tally) hotTable(p *[]uint8, n int) []uint8 {
 
 // Settle folds the byte counters into the 64-bit tables and drops them (a
 // later Add makes new ones), then fills the records derived from the tables
-// (derive). It is idempotent, does nothing to a finished tally, and must not
-// run concurrently with Add.
+// (derive). It is idempotent (a tally with no digits added since is left
+// alone: Finish and CyclicInPlace both ask), does nothing to a finished
+// tally, and must not run concurrently with Add.
 func (t *Tally) Settle() {
-	if t.finished {
+	if t.finished || t.settled {
 		return
 	}
-	defer t.derive()
+	defer func() { t.derive(); t.settled = true }()
 	fold := func(cold []int64, hot []uint8) {
 		for w, v := range hot {
 			if v != 0 {
@@ -176,7 +186,8 @@ func (t *Tally) derive() {
 	})
 	if s.lagsDerived() {
 		tasks = append(tasks, func() {
-			heads := t.lagHeads()
+			// The window table summed down to its first H+1 digits.
+			heads := lowerOrders(t.Overlap, s.MaxBlock, s.Base)[s.Lags+1]
 			for h := 1; h <= s.Lags; h++ {
 				t.LagProd[h] = t.lagProduct(h, heads)
 			}
@@ -187,7 +198,7 @@ func (t *Tally) derive() {
 
 // lagProduct returns Σ x_i x_{i+h} over the pairs inside the stretch, from
 // the K-windows (first and (h+1)-th digit) and Tail. heads is the window
-// table summed over its digits after the (H+1)-th (lagHeads).
+// table summed over its digits after the (H+1)-th (lowerOrders).
 func (t *Tally) lagProduct(h int, heads []int64) int64 {
 	b, H := t.Base, t.Lags
 	n, L := t.N, int64(len(t.Tail))
@@ -211,25 +222,6 @@ func (t *Tally) lagProduct(h int, heads []int64) int64 {
 		sum += int64(t.Tail[i-(n-L)]) * int64(t.Tail[i+int64(h)-(n-L)])
 	}
 	return sum
-}
-
-// lagHeads sums the K-window table over the digits after the (H+1)-th, so
-// that each lag's pass runs over b^(H+1) cells instead of b^K.
-func (t *Tally) lagHeads() []int64 {
-	b, K, H := t.Base, t.MaxBlock, t.Lags
-	r := ipow(b, K-1-H)
-	if r == 1 {
-		return t.Overlap
-	}
-	heads := make([]int64, ipow(b, H+1))
-	for i := range heads {
-		var s int64
-		for _, v := range t.Overlap[i*r : i*r+r] {
-			s += v
-		}
-		heads[i] = s
-	}
-	return heads
 }
 
 // derivePoker fills the poker hands from the aligned h-blocks.

@@ -106,6 +106,7 @@ func (r *Runner) Add(d []byte) {
 		r.t.Add(d)
 		return
 	}
+	r.t.prepare()
 	if r.seen < calibrationDigits {
 		for i, k := range r.ks {
 			t0 := time.Now()

@@ -163,6 +163,7 @@ type Tally struct {
 	hotOverlap []uint8
 	hotBlocks  [][]uint8
 	udScratch  []byte // addUpDown's tail‖chunk buffer
+	settled    bool   // Settle has run since the last digits were added
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -214,6 +215,7 @@ func (t *Tally) Add(d []byte) {
 	if len(d) == 0 {
 		return
 	}
+	t.prepare()
 	for _, k := range t.kernels() {
 		k.run(d)
 	}
@@ -303,14 +305,7 @@ func (t *Tally) addBlocks(k int, d []byte) {
 			have, cur = 0, 0
 		}
 	}
-	if len(cnt) >= hotMinCells && len(t.hotBlocks) <= k {
-		t.hotBlocks = append(t.hotBlocks, make([][]uint8, k+1-len(t.hotBlocks))...)
-	}
-	var hot []uint8
-	if len(t.hotBlocks) > k {
-		hot = t.hotTable(&t.hotBlocks[k], len(cnt))
-	}
-	if hot != nil {
+	if hot := t.hotTable(&t.hotBlocks[k], len(cnt)); hot != nil {
 		for ; i+k <= len(d); i += k {
 			w := value(d[i:i+k], b)
 			v := hot[w] + 1
@@ -365,6 +360,7 @@ func (t *Tally) addGaps(d []byte) {
 
 // advance updates n, head and tail after d has been counted.
 func (t *Tally) advance(d []byte) {
+	t.settled = false
 	keep := t.span() - 1
 	if len(t.Head) < keep {
 		t.Head = append(t.Head, d[:min(len(d), keep-len(t.Head))]...)
