@@ -19,10 +19,7 @@ go build -o "$out/borel" ./cmd/borel
 "$out/borel" digits chacha8:2026 --count "$N" -q -o "$out/digits.nl"
 tr -d '\n' < "$out/digits.nl" > "$out/digits.txt"
 
-once() { local t0 t1; t0=$(date +%s.%N); "$@" > /dev/null; t1=$(date +%s.%N); echo "$t1 - $t0" | bc -l; }
-best() { printf '%s\n' "$@" | sort -g | head -1; }
-secs() { local ts=(); for _ in $(seq "$RUNS"); do ts+=("$(once "$@")"); done; best "${ts[@]}"; }
-ratio() { echo "scale=2; $1 / $2" | bc -l; }
+. bench/timing.sh
 
 one=$(secs "$out/borel" audit "$out/digits.txt" --workers 1 -q)
 two=$(secs "$out/borel" audit "$out/digits.txt" --workers 2 -q)

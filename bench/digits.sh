@@ -17,16 +17,7 @@ out=$(mktemp -d)
 trap 'rm -rf "$out"' EXIT
 go build -o "$out/borel" ./cmd/borel
 
-secs() { # run a command RUNS times, print its best wall-clock seconds
-  local t0 t1 t best=""
-  for _ in $(seq "$RUNS"); do
-    t0=$(date +%s.%N); "$@" > /dev/null; t1=$(date +%s.%N)
-    t=$(echo "$t1 - $t0" | bc -l)
-    if [ -z "$best" ] || [ "$(echo "$t < $best" | bc -l)" = 1 ]; then best=$t; fi
-  done
-  echo "$best"
-}
-ratio() { echo "scale=2; $1 / $2" | bc -l; }
+. bench/timing.sh
 
 b=$(secs "$out/borel" digits pi --count "$N" -q -o "$out/pi.txt")
 printf 'best of %d runs each\nborel digits pi, %d decimals: %.2f s\n' "$RUNS" "$N" "$b"
