@@ -261,13 +261,16 @@ func (t *Tally) addOverlap(d []byte) {
 	w := value(d[:K], b)
 	cnt[w]++
 	if hot := t.hotTable(&t.hotOverlap, len(cnt)); hot != nil {
-		for i := K; i < len(d); i++ {
-			w = (w-int(d[i-K])*pow)*b + int(d[i])
-			v := hot[w] + 1
-			hot[w] = v
-			if v == 0 {
-				cnt[w] += 256
+		// Window values first, then counted a batch at a time (count.go).
+		var buf [windowBatch]uint32
+		for i := K; i < len(d); {
+			idx := buf[:min(windowBatch, len(d)-i)]
+			for j := range idx {
+				w = (w-int(d[i+j-K])*pow)*b + int(d[i+j])
+				idx[j] = uint32(w)
 			}
+			countBytes(hot, cnt, idx)
+			i += len(idx)
 		}
 		return
 	}

@@ -439,11 +439,12 @@ func TestHotCountersExact(t *testing.T) {
 		got := mustNew(t, spec, 0)
 		r := NewRunner(got, 1+trial%3)
 		cut := rng.IntN(n)
-		for i := 0; i < n; i += 777 {
-			r.Add(d[i:min(n, i+777)])
+		step := []int{777, windowBatch + 5, 3*windowBatch + prefetchAhead}[trial%3] // one batch or several
+		for i := 0; i < n; i += step {
+			r.Add(d[i:min(n, i+step)])
 		}
 		if !same(got, want) {
-			t.Fatalf("trial %d (base %d, K %d): byte counters change the tally", trial, base, spec.MaxBlock)
+			t.Fatalf("trial %d (base %d, K %d, chunks of %d): byte counters change the tally", trial, base, spec.MaxBlock, step)
 		}
 		a, b := mustNew(t, spec, 0), mustNew(t, spec, int64(cut))
 		a.Add(d[:cut])
@@ -514,5 +515,56 @@ func TestDerived(t *testing.T) {
 				t.Fatalf("trial %d: merged halves differ from the whole (%v)", trial, err)
 			}
 		}
+	}
+}
+
+// TestCountBytes: the prefetching count (count_amd64.s on amd64) equals
+// the plain loop for index lists shorter and longer than the prefetch
+// distance, with cells that wrap their byte many times; an index outside
+// the table panics before anything is counted.
+func TestCountBytes(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	const cells = 50
+	for _, n := range []int{0, 1, prefetchAhead - 1, prefetchAhead, prefetchAhead + 1, 5000, 70000} {
+		idx := make([]uint32, n)
+		for i := range idx {
+			idx[i] = uint32(rng.IntN(cells))
+			if i%2 == 0 {
+				idx[i] = 7 // one cell wraps n/512 times
+			}
+		}
+		// Bytes start anywhere, many one short of wrapping, so wraps
+		// happen in the prefetching loop and in its last 64 indices.
+		hot1, cold1 := make([]uint8, cells), make([]int64, cells)
+		var start int64
+		for w := range hot1 {
+			hot1[w] = uint8(255 - rng.IntN(3)*rng.IntN(256))
+			start += int64(hot1[w])
+		}
+		hot2, cold2 := slices.Clone(hot1), make([]int64, cells)
+		countBytesGo(hot1, cold1, idx)
+		countBytes(hot2, cold2, idx)
+		if !slices.Equal(hot1, hot2) || !slices.Equal(cold1, cold2) {
+			t.Fatalf("%d indices: prefetching count differs from the plain loop", n)
+		}
+		var total int64
+		for w := range hot2 {
+			total += cold2[w] + int64(hot2[w])
+		}
+		if want := int64(n) + start; total != want {
+			t.Fatalf("%d indices: %d counted, want %d", n, total, want)
+		}
+	}
+	hot, cold := make([]uint8, 10), make([]int64, 10)
+	func() {
+		defer func() {
+			if recover() == nil {
+				t.Fatal("an index outside the table did not panic")
+			}
+		}()
+		countBytes(hot, cold, []uint32{1, 2, 10})
+	}()
+	if hot[1] != 0 || hot[2] != 0 {
+		t.Fatal("counted before refusing an index outside the table")
 	}
 }

@@ -1,0 +1,5 @@
+//go:build !amd64
+
+package tally
+
+func countBytesFast(hot []uint8, cold []int64, idx []uint32) { countBytesGo(hot, cold, idx) }
