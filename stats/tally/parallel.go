@@ -25,7 +25,7 @@ func (t *Tally) kernels() []kernel {
 		}
 		return 1
 	}
-	ks := []kernel{{"digits", 0.7, func(d []byte) { t.addTrace(d, t.Offset+t.N); t.addDigits(d) }}}
+	ks := []kernel{{"digits", 0.7, t.addDigits}}
 	if s.MaxBlock > 1 { // at K = 1 the windows are the digits: Cyclic reads Digits
 		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
 	}

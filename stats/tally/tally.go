@@ -222,9 +222,25 @@ func (t *Tally) Add(d []byte) {
 	t.advance(d)
 }
 
-// addDigits counts the digits into four interleaved tables, so that a
-// repeated digit does not make each increment wait for the previous one.
+// addDigits counts the digits of d, stopping at each trace checkpoint
+// inside d to record the counts so far (trace.go): every digit is counted
+// once.
 func (t *Tally) addDigits(d []byte) {
+	pos0 := t.Offset + t.N // global position of d[0]
+	end := pos0 + int64(len(d))
+	done := 0
+	for p := traceNext(pos0); p <= end; p = traceNext(p) {
+		cut := int(p - pos0)
+		t.countDigits(d[done:cut])
+		done = cut
+		t.Trace = append(t.Trace, TracePoint{Pos: p, Counts: slices.Clone(t.Digits)})
+	}
+	t.countDigits(d[done:])
+}
+
+// countDigits counts the digits into four interleaved tables, so that a
+// repeated digit does not make each increment wait for the previous one.
+func (t *Tally) countDigits(d []byte) {
 	var c [4][256]int64
 	i := 0
 	for ; i+4 <= len(d); i += 4 {

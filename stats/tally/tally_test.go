@@ -568,3 +568,43 @@ func TestCountBytes(t *testing.T) {
 		t.Fatal("counted before refusing an index outside the table")
 	}
 }
+
+// TestTraceDefinition: the trace holds, for every checkpoint ⌈2^(j/8)⌉
+// inside the stretch, the counts of the stretch's digits before it (its
+// definition in trace.go), whatever the chunking and the stretch's offset.
+func TestTraceDefinition(t *testing.T) {
+	rng := rand.New(rand.NewPCG(51, 52))
+	for trial := range 12 {
+		n := 1 + rng.IntN(40000)
+		offset := []int64{0, 1, int64(rng.IntN(5000))}[trial%3]
+		d := randomDigits(rng, n, 10)
+		tl := mustNew(t, Spec{Base: 10, MaxBlock: 2}, offset)
+		for i := 0; i < n; {
+			step := 1 + rng.IntN(3000)
+			tl.Add(d[i:min(n, i+step)])
+			i += step
+		}
+		var want []int64
+		for j := 0.0; ; j++ {
+			p := int64(math.Ceil(math.Pow(2, j/8)))
+			if p > offset+int64(n) {
+				break
+			}
+			if p > offset && (len(want) == 0 || p != want[len(want)-1]) {
+				want = append(want, p)
+			}
+		}
+		if len(tl.Trace) != len(want) {
+			t.Fatalf("trial %d: %d checkpoints, want %d", trial, len(tl.Trace), len(want))
+		}
+		for i, tp := range tl.Trace {
+			counts := make([]int64, 10)
+			for _, x := range d[:tp.Pos-offset] {
+				counts[x]++
+			}
+			if tp.Pos != want[i] || !slices.Equal(tp.Counts, counts) {
+				t.Fatalf("trial %d: checkpoint %d at %d (want %d) counts %v, want %v", trial, i, tp.Pos, want[i], tp.Counts, counts)
+			}
+		}
+	}
+}

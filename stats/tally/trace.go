@@ -29,20 +29,6 @@ func traceNext(pos int64) int64 {
 	}
 }
 
-// addTrace records the counts at every checkpoint inside d (d[0] is global
-// position pos0; a checkpoint P counts the first P digits). It runs before
-// addDigits, so t.Digits still holds the counts before d.
-func (t *Tally) addTrace(d []byte, pos0 int64) {
-	end := pos0 + int64(len(d))
-	for p := traceNext(pos0); p <= end; p = traceNext(p) {
-		counts := slices.Clone(t.Digits)
-		for _, x := range d[:p-pos0] {
-			counts[x]++
-		}
-		t.Trace = append(t.Trace, TracePoint{Pos: p, Counts: counts})
-	}
-}
-
 // mergeTrace appends b's checkpoints, shifted by a's counts.
 func (t *Tally) mergeTrace(a, b *Tally) {
 	for _, tp := range b.Trace {
