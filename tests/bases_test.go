@@ -109,7 +109,7 @@ func TestDigitsIntoAudit(t *testing.T) {
 func TestRawRegroupings(t *testing.T) {
 	data := make([]byte, 200_000)
 	for i := range data {
-		data[i] = byte(i*2654435761>>7) | 1 // low bit always 1
+		data[i] = byte(uint64(i)*2654435761>>7) | 1 // low bit always 1
 	}
 	r := across(t, data, "audit", "-", "--raw")
 	if len(r.Audits) != 4 {

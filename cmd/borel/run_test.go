@@ -243,7 +243,7 @@ func TestManualExamplesRun(t *testing.T) {
 	}
 	bin := make([]byte, 400_000)
 	for i := range bin {
-		bin[i] = byte(i*2654435761>>13) ^ byte(i>>5)
+		bin[i] = byte(uint64(i)*2654435761>>13) ^ byte(i>>5)
 	}
 	ran := 0
 	for _, line := range strings.Split(string(src), "\n") {

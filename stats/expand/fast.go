@@ -14,7 +14,7 @@ import (
 // 2-core reference machine: the NTT is 1.5–2.8× faster from 2000 words up.
 func mul(a, b *big.Int) *big.Int {
 	na, nb := len(a.Bits()), len(b.Bits())
-	if min(na, nb) >= nttMinWords && max(na, nb) <= 8*min(na, nb) {
+	if nttWords && min(na, nb) >= nttMinWords && max(na, nb) <= 8*min(na, nb) {
 		return nttMul(a, b)
 	}
 	return bigfft.Mul(a, b)
@@ -172,7 +172,7 @@ func (c *powerCache) pow(h int) *big.Int {
 func (c *powerCache) mulPow(v *big.Int, h int) *big.Int {
 	p := c.pow(h)
 	nv, np := len(v.Bits()), len(p.Bits())
-	if min(nv, np) < nttMinWords || max(nv, np) > 8*min(nv, np) {
+	if !nttWords || min(nv, np) < nttMinWords || max(nv, np) > 8*min(nv, np) {
 		return mul(v, p)
 	}
 	n := nttLen(nv + np)

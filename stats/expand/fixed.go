@@ -142,7 +142,7 @@ func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool) bsResult {
 		l = binarySplit(term, n1, m, depth+1, true)
 		r = binarySplit(term, m, n2, depth+1, needP)
 	}
-	if isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
+	if nttWords && isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
 		return fusedNode(l, r, needP)
 	}
 	if isOne(l.B) && isOne(r.B) {

@@ -136,6 +136,10 @@ func quarters(x []uint64, f func([]uint64)) {
 // nttParallel is the quarter length from which quarters run concurrently.
 const nttParallel = 1 << 16
 
+// nttWords reports whether the transforms can be used: they read and write
+// 64-bit words. On 32-bit platforms every product goes to bigfft.
+const nttWords = bits.UintSize == 64
+
 // nttBlock is the length below which a transform finishes in cache.
 const nttBlock = 1 << 14
 

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"math"
 	"math/big"
+	"math/bits"
 	"math/rand/v2"
 	"testing"
 )
@@ -135,7 +136,7 @@ func TestFracDigits(t *testing.T) {
 		base := []int{2, 3, 7, 10, 16, 36}[trial%6]
 		n := 1 + rng.IntN(40000)
 		Q := fracBits(n, base) + uint(rng.IntN(100))
-		F := randomInt(rng, int(Q+63)/64)
+		F := randomInt(rng, int(Q+bits.UintSize-1)/bits.UintSize)
 		F.Mod(F, new(big.Int).Lsh(one, Q))
 		if trial%4 == 1 { // just below a boundary at digit n/3: ...d999...
 			k := n/3 + 1

@@ -1,3 +1,5 @@
+//go:build !purego
+
 package tally
 
 // countBytesAsm is countBytesGo with software prefetch (count_amd64.s).

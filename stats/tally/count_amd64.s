@@ -1,3 +1,5 @@
+//go:build !purego
+
 #include "textflag.h"
 
 // func countBytes(hot []uint8, cold []int64, idx []uint32)

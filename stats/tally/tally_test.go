@@ -432,10 +432,10 @@ func TestHotCountersExact(t *testing.T) {
 				d[i] = 1
 			}
 		}
-		hotMinCells = 1 << 62
+		hotMinCells = math.MaxInt
 		want := mustNew(t, spec, 0)
 		want.Add(d)
-		hotMinCells, prefetchMinCells = 1, []int{1, 1 << 62}[trial%2] // blocks through the batches or not
+		hotMinCells, prefetchMinCells = 1, []int{1, math.MaxInt}[trial%2] // blocks through the batches or not
 		got := mustNew(t, spec, 0)
 		r := NewRunner(got, 1+trial%3)
 		cut := rng.IntN(n)
