@@ -112,3 +112,41 @@ func TestShardErrors(t *testing.T) {
 		t.Errorf("tally without --max-block: exit %d %s", code, errs)
 	}
 }
+
+// A shard is the same file whatever the number of workers (3·10^6 digits:
+// past the Runner's calibration, so two workers run concurrently); --quiet
+// silences standard error; a bad --workers is a usage error.
+func TestTallyWorkersAndQuiet(t *testing.T) {
+	digits := make([]byte, 3_000_000)
+	x := uint64(12345)
+	for i := range digits {
+		x = x*6364136223846793005 + 1442695040888963407 // Knuth's MMIX LCG; high bits as digits
+		digits[i] = '0' + byte((x>>33)%10)
+	}
+	dir := t.TempDir()
+	var shards [][]byte
+	for _, w := range []string{"1", "2"} {
+		name := filepath.Join(dir, "w"+w+".shard")
+		code, _, errs := runBorel(t, digits, "tally", "-", "--offset", "7", "--max-block", "6", "--workers", w, "-q", "-o", name)
+		if code != 0 || len(errs) != 0 {
+			t.Fatalf("--workers %s -q: exit %d, stderr %q", w, code, errs)
+		}
+		data, err := os.ReadFile(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		shards = append(shards, data)
+	}
+	if !bytes.Equal(shards[0], shards[1]) {
+		t.Error("the shards of 1 and 2 workers differ")
+	}
+	name := filepath.Join(dir, "loud.shard")
+	if code, _, errs := runBorel(t, digits[:1000], "tally", "-", "--offset", "0", "--max-block", "2", "-o", name); code != 0 ||
+		!strings.Contains(string(errs), "digits 0 to 999 of the sequence tallied into") {
+		t.Errorf("without -q: exit %d, stderr %q", code, errs)
+	}
+	if code, _, errs := runBorel(t, digits[:1000], "tally", "-", "--offset", "0", "--max-block", "2", "--workers", "0", "-o", name); code != 2 ||
+		!strings.Contains(string(errs), "--workers 0: give 1 or more") {
+		t.Errorf("--workers 0: exit %d, stderr %q", code, errs)
+	}
+}

@@ -12,43 +12,52 @@ import (
 )
 
 // SIGINT stops a long pass promptly (well under a second) with status 130,
-// leaves the earlier report as it was and no temporary file.
+// leaves the earlier output file as it was and no temporary file: an audit
+// and a tally.
 func TestInterruptStopsPromptly(t *testing.T) {
-	dir := t.TempDir()
-	in := filepath.Join(dir, "digits.txt")
-	os.WriteFile(in, bytes.Repeat([]byte("31415926535897932384626433832795"), 3_000_000), 0o644) // 96 MB
-	report := filepath.Join(dir, "report.txt")
-	earlier := []byte("an earlier report the user keeps\n")
-	os.WriteFile(report, earlier, 0o644)
-	cmd := exec.Command(borelBin, "audit", in, "-o", report)
-	var errb bytes.Buffer
-	cmd.Stderr = &errb
-	if err := cmd.Start(); err != nil {
-		t.Fatal(err)
-	}
-	time.Sleep(300 * time.Millisecond)
-	sent := time.Now()
-	cmd.Process.Signal(syscall.SIGINT)
-	err := cmd.Wait()
-	took := time.Since(sent)
-	ee, ok := err.(*exec.ExitError)
-	if !ok || ee.ExitCode() != 130 {
-		t.Fatalf("exit %v, want status 130 (%s)", err, errb.String())
-	}
-	if took > time.Second {
-		t.Errorf("stopped %v after SIGINT, want under a second", took)
-	}
-	entries, _ := os.ReadDir(dir)
-	for _, e := range entries {
-		if e.Name() != "digits.txt" && e.Name() != "report.txt" {
-			t.Errorf("left behind: %s", e.Name())
-		}
-	}
-	if now, _ := os.ReadFile(report); !bytes.Equal(now, earlier) {
-		t.Errorf("the earlier report changed: %q", now)
-	}
-	if !strings.Contains(errb.String(), "interrupted") {
-		t.Errorf("stderr %q", errb.String())
+	for _, c := range []struct{ name, out string }{{"audit", "report.txt"}, {"tally", "part.shard"}} {
+		t.Run(c.name, func(t *testing.T) {
+			dir := t.TempDir()
+			in := filepath.Join(dir, "digits.txt")
+			os.WriteFile(in, bytes.Repeat([]byte("31415926535897932384626433832795"), 3_000_000), 0o644) // 96 MB
+			out := filepath.Join(dir, c.out)
+			earlier := []byte("an earlier file the user keeps\n")
+			os.WriteFile(out, earlier, 0o644)
+			args := []string{"audit", in, "-o", out}
+			if c.name == "tally" {
+				args = []string{"tally", in, "--offset", "0", "--max-block", "5", "-o", out}
+			}
+			cmd := exec.Command(borelBin, args...)
+			var errb bytes.Buffer
+			cmd.Stderr = &errb
+			if err := cmd.Start(); err != nil {
+				t.Fatal(err)
+			}
+			time.Sleep(300 * time.Millisecond)
+			sent := time.Now()
+			cmd.Process.Signal(syscall.SIGINT)
+			err := cmd.Wait()
+			took := time.Since(sent)
+			ee, ok := err.(*exec.ExitError)
+			if !ok || ee.ExitCode() != 130 {
+				t.Fatalf("exit %v, want status 130 (%s)", err, errb.String())
+			}
+			if took > time.Second {
+				t.Errorf("stopped %v after SIGINT, want under a second", took)
+			}
+			entries, _ := os.ReadDir(dir)
+			for _, e := range entries {
+				if e.Name() != "digits.txt" && e.Name() != c.out {
+					t.Errorf("left behind: %s", e.Name())
+				}
+			}
+			if now, _ := os.ReadFile(out); !bytes.Equal(now, earlier) {
+				t.Errorf("the earlier file changed: %q", now)
+			}
+			if !strings.Contains(errb.String(), "interrupted") {
+				t.Errorf("stderr %q", errb.String())
+			}
+		})
 	}
 }
 

@@ -222,10 +222,10 @@ func checkUnchanged(input string, src audit.Source, read int64) error {
 	}
 	st, err := os.Stat(input)
 	if err != nil {
-		return fmt.Errorf("%s disappeared while being read; nothing was audited", input)
+		return fmt.Errorf("%s disappeared while being read; nothing was written", input)
 	}
 	if read < src.Bytes || st.Size() < src.Bytes {
-		return fmt.Errorf("%s shrank while being read (from %d to %d bytes); nothing was audited: audit a file that is not being written", input, src.Bytes, st.Size())
+		return fmt.Errorf("%s shrank while being read (from %d to %d bytes); nothing was written: give a file that is not being written", input, src.Bytes, st.Size())
 	}
 	return nil
 }

@@ -2,11 +2,11 @@ package main
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"io"
 	"os"
+	"runtime"
 	"sort"
 	"strings"
 
@@ -18,7 +18,7 @@ import (
 	"borel/stats/tally"
 )
 
-const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits] [--null ...] -o SHARD
+const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits] [--null ...] [--workers N] [--quiet] -o SHARD
 
 Tallies one stretch of a long sequence — the digits at global positions N, N+1, … — and
 writes its shard: the one-pass sufficient statistics of the stretch, which borel merge joins
@@ -36,6 +36,8 @@ func runTally(e env, args []string) (int, error) {
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
 	null := fs.String("null", "uniform", "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...")
 	maxBlock := fs.Int("max-block", 0, "block length (the same for every shard)")
+	workers := fs.Int("workers", runtime.GOMAXPROCS(0), "goroutines for the pass (the shard is the same for any number)")
+	quiet := fs.BoolP("quiet", "q", false, "no progress line and no closing line on standard error")
 	output := fs.StringP("output", "o", "", "the shard file to write")
 	if done, err := parseFlags(fs, args, tallyHelp, e.stdout); done || err != nil {
 		return exitOK, err
@@ -52,6 +54,9 @@ func runTally(e env, args []string) (int, error) {
 	if *output == "" {
 		return 0, usagef("tally needs -o SHARD, the file to write")
 	}
+	if *workers < 1 {
+		return 0, usagef("--workers %d: give 1 or more", *workers)
+	}
 	opt := seq.Options{Format: seq.Text}
 	var err error
 	if *bits {
@@ -61,6 +66,7 @@ func runTally(e env, args []string) (int, error) {
 	}
 	opts := audit.DefaultOptions()
 	opts.MaxBlock = *maxBlock
+	opts.Workers = *workers
 	if opts.Null, err = parseNull(*null, opt.Base); err != nil {
 		return 0, err
 	}
@@ -77,27 +83,33 @@ func runTally(e env, args []string) (int, error) {
 		return 0, err
 	}
 	defer closeIn()
-	hash := sha256.New()
+	hash := newAsyncHash()
 	opt.Source = src.Name
 	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
 	if err != nil {
+		hash.Sum()
 		return 0, err
 	}
 	if r.IntegerPart() != "" && *offset > 0 {
+		hash.Sum()
 		return 0, fmt.Errorf("%s: an integer part and radix point open this stretch, but only the stretch at offset 0 may have them", src.Name)
 	}
-	if err := plan.StartAt(*offset); err != nil {
+	prog := newProgress(e, *quiet, src.Bytes)
+	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
+	plan.Stop = interrupted.Load
+	t, err := plan.TallyAt(r, *offset)
+	prog.done()
+	sum := hash.Sum()
+	if err != nil {
 		return 0, err
 	}
-	for r.Scan() {
-		plan.Add(r.Digits())
-	}
-	if err := r.Err(); err != nil {
+	src.Compressed = r.Compressed()
+	if err := checkUnchanged(input, src, r.Offset()); err != nil {
 		return 0, err
 	}
 	sh := &tally.Shard{Null: tally.ShardNull{Kind: opts.Null.Kind.String(), P: opts.Null.P},
-		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: hex.EncodeToString(hash.Sum(nil))},
-		Tally:  plan.Tallied()}
+		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: hex.EncodeToString(sum)},
+		Tally:  t}
 	var buf bytes.Buffer
 	if err := tally.WriteShard(&buf, sh); err != nil {
 		return 0, err
@@ -105,7 +117,9 @@ func runTally(e env, args []string) (int, error) {
 	if err := writeAtomic(*output, buf.Bytes()); err != nil {
 		return 0, err
 	}
-	fmt.Fprintf(e.stderr, "borel: digits %d to %d of the sequence tallied into %s\n", *offset, *offset+sh.Tally.N-1, *output)
+	if !*quiet {
+		fmt.Fprintf(e.stderr, "borel: digits %d to %d of the sequence tallied into %s\n", *offset, *offset+sh.Tally.N-1, *output)
+	}
 	return exitOK, nil
 }
 

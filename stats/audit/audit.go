@@ -382,8 +382,12 @@ func (p *Plan) Done(src Source) (*Result, error) {
 var ErrStopped = fmt.Errorf("the pass was stopped")
 
 // Tally reads every digit of r into a new tally of the plan.
-func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) {
-	if err := p.Start(); err != nil {
+func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) { return p.TallyAt(r, 0) }
+
+// TallyAt reads every digit of r into a new tally of a stretch that begins
+// at global digit position offset (a shard; see StartAt).
+func (p *Plan) TallyAt(r *seq.Reader, offset int64) (*tally.Tally, error) {
+	if err := p.StartAt(offset); err != nil {
 		return nil, err
 	}
 	if p.opts.Workers > 1 {

@@ -308,7 +308,7 @@ func (r *Reader) fill() (int, error) {
 
 func (r *Reader) readError(err error) error {
 	if r.compressed && (errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader)) {
-		return fmt.Errorf("%s: the gzip stream is damaged or truncated after %d decompressed bytes (%v); nothing was audited", r.opt.Source, r.offset, err)
+		return fmt.Errorf("%s: the gzip stream is damaged or truncated after %d decompressed bytes (%v); nothing was written", r.opt.Source, r.offset, err)
 	}
 	return fmt.Errorf("%s: read failed after %d bytes: %v", r.opt.Source, r.offset, err)
 }
