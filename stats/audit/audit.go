@@ -282,8 +282,12 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 // minimum expected count are not counted (the blocks check would skip them;
 // at 10^8 decimal digits the 10^7-cell table of k = 7 is left out, which
 // is most of the pass's memory traffic after the overlapping windows).
-// 0 (count every k ≤ K) when the length is unknown.
+// 0 (count every k ≤ K) when the length is unknown; 1 (none) when the
+// blocks check is not among the selected checks (--checks).
 func countedBlocks(K, base int, sizeHint int64, opts Options) int {
+	if !opts.selected("blocks") {
+		return 1
+	}
 	if sizeHint < 0 {
 		return 0
 	}

@@ -3,6 +3,7 @@ package audit
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -189,6 +190,39 @@ func TestPlanMemoryBudget(t *testing.T) {
 	p, err := NewPlan(10, 1e6, opts)
 	if err != nil || p.Spec.MaxBlock != 5 {
 		t.Errorf("auto K for 1e6 decimal digits = %d (%v), want 5 (1e6·1e-5 = 10 ≥ 5)", p.Spec.MaxBlock, err)
+	}
+}
+
+// Which non-overlapping block lengths the pass counts: at 10^8 decimal
+// digits the blocks check can use k ≤ 6 (⌊10^8/7⌋·10^-7 < 5, the rule of
+// thumb), every k ≤ K when the length is unknown (standard input, shards),
+// and none when the blocks check is not selected.
+func TestCountedBlocks(t *testing.T) {
+	opts := DefaultOptions()
+	for _, c := range []struct {
+		n      int64
+		checks []string
+		want   []int // the counted (or derived) k in 2..K
+	}{
+		{1e8, nil, []int{2, 3, 4, 5, 6}},
+		{-1, nil, []int{2, 3, 4, 5, 6}}, // K = 6: about 2^20 cells for an unknown length
+		{1e8, []string{"serial", "freq"}, nil},
+		{1e8, []string{"blocks"}, []int{2, 3, 4, 5, 6}},
+	} {
+		opts.Checks = c.checks
+		p, err := NewPlan(10, c.n, opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []int
+		for k := 2; k <= p.Spec.MaxBlock; k++ {
+			if p.Spec.HasBlocks(k) {
+				got = append(got, k)
+			}
+		}
+		if !slices.Equal(got, c.want) {
+			t.Errorf("n=%d, checks %v: K=%d, blocks counted for %v, want %v", c.n, c.checks, p.Spec.MaxBlock, got, c.want)
+		}
 	}
 }
 
