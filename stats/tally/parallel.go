@@ -30,8 +30,8 @@ func (t *Tally) kernels() []kernel {
 		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
 	}
 	for k := 2; k <= s.blocksMax(); k++ {
-		if s.blocksSource(k) > 0 {
-			continue // derived from a longer block length at the end
+		if s.blocksSource(k) > 0 || t.windowBlocks() {
+			continue // derived from a longer block length at the end, or counted with the windows
 		}
 		k := k
 		ks = append(ks, kernel{"blocks", 1 + big(len(t.Blocks[k]))/float64(k), func(d []byte) { t.addBlocks(k, d) }})

@@ -257,10 +257,20 @@ func (t *Tally) countDigits(d []byte) {
 	}
 }
 
-// addOverlap counts the K-windows that end inside d.
+// addOverlap counts the K-windows that end inside d, and, when
+// windowBlocks, the counted non-overlapping blocks too (count.go): those
+// that end before the first batched window by addBlocks, the others from
+// the batches.
 func (t *Tally) addOverlap(d []byte) {
 	K, b := t.MaxBlock, t.Base
 	cnt := t.Overlap
+	var blocks []blockCounter
+	if t.windowBlocks() {
+		for _, k := range t.countedBlockLengths() {
+			t.addBlocks(k, d[:min(len(d), K)])
+			blocks = append(blocks, t.blockCounter(k))
+		}
+	}
 	// Windows that begin in the tail: at most K-1 of them.
 	lead := min(len(d), K-1)
 	y := append(slices.Clip(t.Tail), d[:lead]...)
@@ -286,6 +296,9 @@ func (t *Tally) addOverlap(d []byte) {
 				idx[j] = uint32(w)
 			}
 			countBytes(hot, cnt, idx)
+			for bc := range blocks {
+				blocks[bc].count(idx, t.Offset+t.N+int64(i))
+			}
 			i += len(idx)
 		}
 		return
