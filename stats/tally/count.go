@@ -32,11 +32,15 @@ func countBytes(hot []uint8, cold []int64, idx []uint32) {
 	if len(cold) < len(hot) {
 		panic("tally: byte table larger than its 64-bit table")
 	}
-	var top uint32
-	for _, w := range idx {
-		top = max(top, w)
+	var t0, t1, t2, t3 uint32 // four chains: one max a cycle each
+	i := 0
+	for ; i+4 <= len(idx); i += 4 {
+		t0, t1, t2, t3 = max(t0, idx[i]), max(t1, idx[i+1]), max(t2, idx[i+2]), max(t3, idx[i+3])
 	}
-	if len(idx) > 0 && int(top) >= len(hot) {
+	for _, w := range idx[i:] {
+		t0 = max(t0, w)
+	}
+	if top := max(t0, t1, t2, t3); len(idx) > 0 && int(top) >= len(hot) {
 		panic("tally: window value outside its table")
 	}
 	countBytesFast(hot, cold, idx)
