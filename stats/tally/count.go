@@ -17,10 +17,6 @@ import "math/bits"
 // constant 64 in count_amd64.s, 256 bytes of uint32 indices).
 const prefetchAhead = 64
 
-// prefetchMinCells is the block table size from which blocks are counted
-// this way too (smaller tables stay in the core's own caches).
-var prefetchMinCells = 1 << 19
-
 // windowBatch is the number of indices computed and counted at a time
 // (16 KiB of indices: they stay in the first-level cache).
 const windowBatch = 4096

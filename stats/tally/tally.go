@@ -337,20 +337,7 @@ func (t *Tally) addBlocks(k int, d []byte) {
 			have, cur = 0, 0
 		}
 	}
-	hot := t.hotTable(&t.hotBlocks[k], len(cnt))
-	switch {
-	case hot != nil && len(hot) >= prefetchMinCells:
-		var buf [windowBatch]uint32 // block values, then counted (count.go)
-		for i+k <= len(d) {
-			idx := buf[:min(windowBatch, (len(d)-i)/k)]
-			for j := range idx {
-				idx[j] = uint32(value(d[i:i+k], b))
-				i += k
-			}
-			countBytes(hot, cnt, idx)
-		}
-		return
-	case hot != nil:
+	if hot := t.hotTable(&t.hotBlocks[k], len(cnt)); hot != nil {
 		for ; i+k <= len(d); i += k {
 			w := value(d[i:i+k], b)
 			v := hot[w] + 1

@@ -418,7 +418,7 @@ func same(a, b *Tally) bool {
 // past 255: merges, worker counts and shards must give the same tallies as
 // with 64-bit counting only.
 func TestHotCountersExact(t *testing.T) {
-	defer func(v, p int) { hotMinCells, prefetchMinCells = v, p }(hotMinCells, prefetchMinCells)
+	defer func(v int) { hotMinCells = v }(hotMinCells)
 	defer func(w, c int) { warmupDigits, calibrationDigits = w, c }(warmupDigits, calibrationDigits)
 	warmupDigits, calibrationDigits = 777, 3*777
 	rng := rand.New(rand.NewPCG(31, 32))
@@ -436,7 +436,7 @@ func TestHotCountersExact(t *testing.T) {
 		hotMinCells = math.MaxInt
 		want := mustNew(t, spec, 0)
 		want.Add(d)
-		hotMinCells, prefetchMinCells = 1, []int{1, math.MaxInt}[trial%2] // blocks through the batches or not
+		hotMinCells = 1
 		got := mustNew(t, spec, 0)
 		r := NewRunner(got, 1+trial%3)
 		cut := rng.IntN(n)
