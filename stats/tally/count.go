@@ -61,7 +61,7 @@ func countBytesGo(hot []uint8, cold []int64, idx []uint32) {
 // k = 4, 5, 6 together). Only with batched windows, whose values stay below
 // 2^32.
 func (t *Tally) windowBlocks() bool {
-	return t.MaxBlock > 1 && len(t.Overlap) >= hotMinCells && len(t.Overlap) <= 1<<32
+	return t.MaxBlock > 1 && len(t.Overlap) >= hotMinCells && uint64(len(t.Overlap)) <= 1<<32
 }
 
 // countedBlockLengths returns the k whose non-overlapping blocks the pass

@@ -2,7 +2,7 @@
 
 #include "textflag.h"
 
-// func countBytes(hot []uint8, cold []int64, idx []uint32)
+// func countBytesAsm(hot []uint8, cold []int64, idx []uint32)
 //
 // For each w in idx: hot[w]++, and cold[w] += 256 when the byte wraps to
 // zero. The cache line of hot[idx[i+prefetchAhead]] is requested while
