@@ -31,7 +31,8 @@ Example: the digits of a long file cut into pieces of 500 000, two of them here:
 
 func runTally(e env, args []string) (int, error) {
 	fs := pflag.NewFlagSet("tally", pflag.ContinueOnError)
-	offset := fs.Int64("offset", -1, "global position (0-based digit index) of the stretch's first digit")
+	offset := fs.Int64("offset", -1, "global position (0-based digit index) of the stretch's first digit; required (0 for the first stretch)")
+	fs.Lookup("offset").DefValue = "0" // -1 marks "not given"; the help shows no default
 	base := fs.String("base", "10", "base of the text digits, 2..36")
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
 	null := fs.String("null", "uniform", "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...")
