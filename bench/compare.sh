@@ -35,15 +35,18 @@ printf 'frequency check alone %.2f s, bare byte histogram %.2f s: borel runs at 
 
 ref=../shared/bench/reference.py
 if [ -f "$ref" ] && /usr/bin/python3 -c 'import numpy, scipy' 2>/dev/null; then
-  refs=(); bors=()
+  refs=(); bors=(); same=()
   for _ in $(seq "$RUNS"); do
     refs+=("$(env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE /usr/bin/python3 "$ref" "$out/digits.txt" "$N" |
       /usr/bin/python3 -c 'import json,sys; print(json.load(sys.stdin)["whole_sec"])')")
     bors+=("$(once "$out/borel" audit "$out/digits.txt" --workers 2 -q)")
+    same+=("$(once "$out/borel" audit "$out/digits.txt" --workers 2 -q --checks freq,serial,gap --max-block 2)")
   done
-  r=$(best "${refs[@]}"); b=$(best "${bors[@]}")
+  r=$(best "${refs[@]}"); b=$(best "${bors[@]}"); s=$(best "${same[@]}")
   printf 'numpy + scipy reference: %.2f s, borel (2 workers, alternating with it) %.2f s: reference/borel = %s\n' \
     "$r" "$b" "$(ratio "$r" "$b")"
+  printf 'the reference'"'"'s statistics only (--checks freq,serial,gap --max-block 2: frequencies, pairs, gaps of\n'
+  printf '  every digit): borel %.2f s: reference/borel = %s\n' "$s" "$(ratio "$r" "$s")"
 else
   echo "numpy + scipy (or $ref) not available: reference skipped"
 fi
