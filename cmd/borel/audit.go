@@ -1,6 +1,7 @@
 package main
 
 import (
+	"borel/stats/tally"
 	"bufio"
 	"encoding/hex"
 	"fmt"
@@ -144,26 +145,8 @@ func runAudit(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, usageError{err.Error()}
 	}
-	opt.Source = src.Name
-	hash := newAsyncHash()
-	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
+	t, err := tallyInput(e, input, in, &src, opt, plan, 0, out.quiet, nil)
 	if err != nil {
-		hash.Sum()
-		return 0, err
-	}
-	prog := newProgress(e, out.quiet, src.Bytes)
-	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
-	plan.Stop = interrupted.Load
-	t, err := plan.Tally(r)
-	prog.done()
-	sum := hash.Sum()
-	if err != nil {
-		return 0, err
-	}
-	src.Compressed = r.Compressed()
-	src.IntegerPart = r.IntegerPart()
-	src.SHA256 = hex.EncodeToString(sum)
-	if err := checkUnchanged(input, src, r.Offset()); err != nil {
 		return 0, err
 	}
 	res, err := plan.Finish(t, src)
@@ -212,6 +195,39 @@ func unwrapPathError(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// tallyInput runs the plan's pass over in, opened by openInput as src, for
+// the stretch that begins at global digit position offset (0 for a whole
+// sequence): the SHA-256 of the bytes on its own goroutine beside it, a
+// progress line unless quiet, stopped within a chunk by SIGINT or SIGTERM.
+// accept, if not nil, sees the reader before the pass (its integer part is
+// known then) and may refuse it. It fills src's compression, integer part
+// and SHA-256, and refuses a file that shrank while it was read.
+func tallyInput(e env, input string, in io.Reader, src *audit.Source, opt seq.Options, plan *audit.Plan, offset int64, quiet bool, accept func(*seq.Reader) error) (*tally.Tally, error) {
+	opt.Source = src.Name
+	hash := newAsyncHash()
+	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
+	if err == nil && accept != nil {
+		err = accept(r)
+	}
+	if err != nil {
+		hash.Sum()
+		return nil, err
+	}
+	prog := newProgress(e, quiet, src.Bytes)
+	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
+	plan.Stop = interrupted.Load
+	t, err := plan.TallyAt(r, offset)
+	prog.done()
+	sum := hash.Sum()
+	if err != nil {
+		return nil, err
+	}
+	src.Compressed = r.Compressed()
+	src.IntegerPart = r.IntegerPart()
+	src.SHA256 = hex.EncodeToString(sum)
+	return t, checkUnchanged(input, *src, r.Offset())
 }
 
 // checkUnchanged refuses a report on a regular file that shrank while it

@@ -2,10 +2,7 @@ package main
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
-	"io"
 	"os"
 
 	"github.com/spf13/pflag"
@@ -62,7 +59,7 @@ func runCompare(e env, args []string) (int, error) {
 	}
 	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
 	for _, name := range fs.Args() {
-		res, err := compareOne(e, name, b, *count, *null, opts)
+		res, err := compareOne(e, name, b, *count, *null, opts, out.quiet)
 		if err != nil {
 			return 0, err
 		}
@@ -84,7 +81,7 @@ func runCompare(e env, args []string) (int, error) {
 }
 
 // compareOne audits one source: a file if it exists, else a built-in source.
-func compareOne(e env, name string, base, count int, nullArg string, opts audit.Options) (*audit.Result, error) {
+func compareOne(e env, name string, base, count int, nullArg string, opts audit.Options, quiet bool) (*audit.Result, error) {
 	if st, err := os.Stat(name); err == nil && !st.IsDir() {
 		ns, err := parseNull(nullArg, base)
 		if err != nil {
@@ -104,17 +101,10 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 		if err != nil {
 			return nil, usageError{err.Error()}
 		}
-		hash := sha256.New()
-		r, err := seq.NewReader(io.TeeReader(in, hash), seq.Options{Format: seq.Text, Base: base, Source: name})
+		t, err := tallyInput(e, name, in, &src, seq.Options{Format: seq.Text, Base: base}, plan, 0, quiet, nil)
 		if err != nil {
 			return nil, err
 		}
-		t, err := plan.Tally(r)
-		if err != nil {
-			return nil, err
-		}
-		src.Compressed, src.IntegerPart = r.Compressed(), r.IntegerPart()
-		src.SHA256 = hex.EncodeToString(hash.Sum(nil))
 		return plan.Finish(t, src)
 	}
 	src, err := expand.ParseSource(name)

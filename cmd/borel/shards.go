@@ -2,9 +2,7 @@ package main
 
 import (
 	"bytes"
-	"encoding/hex"
 	"fmt"
-	"io"
 	"os"
 	"runtime"
 	"sort"
@@ -84,32 +82,18 @@ func runTally(e env, args []string) (int, error) {
 		return 0, err
 	}
 	defer closeIn()
-	hash := newAsyncHash()
-	opt.Source = src.Name
-	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
+	onlyFirst := func(r *seq.Reader) error {
+		if r.IntegerPart() != "" && *offset > 0 {
+			return fmt.Errorf("%s: an integer part and radix point open this stretch, but only the stretch at offset 0 may have them", src.Name)
+		}
+		return nil
+	}
+	t, err := tallyInput(e, input, in, &src, opt, plan, *offset, *quiet, onlyFirst)
 	if err != nil {
-		hash.Sum()
-		return 0, err
-	}
-	if r.IntegerPart() != "" && *offset > 0 {
-		hash.Sum()
-		return 0, fmt.Errorf("%s: an integer part and radix point open this stretch, but only the stretch at offset 0 may have them", src.Name)
-	}
-	prog := newProgress(e, *quiet, src.Bytes)
-	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
-	plan.Stop = interrupted.Load
-	t, err := plan.TallyAt(r, *offset)
-	prog.done()
-	sum := hash.Sum()
-	if err != nil {
-		return 0, err
-	}
-	src.Compressed = r.Compressed()
-	if err := checkUnchanged(input, src, r.Offset()); err != nil {
 		return 0, err
 	}
 	sh := &tally.Shard{Null: tally.ShardNull{Kind: opts.Null.Kind.String(), P: opts.Null.P},
-		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: hex.EncodeToString(sum)},
+		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: src.SHA256},
 		Tally:  t}
 	var buf bytes.Buffer
 	if err := tally.WriteShard(&buf, sh); err != nil {
