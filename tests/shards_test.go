@@ -111,6 +111,14 @@ func TestShardErrors(t *testing.T) {
 	if code, _, errs := runBorel(t, digits, "tally", "-", "--offset", "0", "-o", bad); code != 2 || !strings.Contains(string(errs), "--max-block K, the same for every shard") {
 		t.Errorf("tally without --max-block: exit %d %s", code, errs)
 	}
+	later := filepath.Join(t.TempDir(), "later.shard")
+	if code, _, errs := runBorel(t, []byte("3.14159265358979"), "tally", "-", "--offset", "3", "--max-block", "2", "-o", later); code != 1 ||
+		!strings.Contains(string(errs), "only the stretch at offset 0 may have them") {
+		t.Errorf("integer part in a later stretch: exit %d %s", code, errs)
+	}
+	if _, err := os.Stat(later); err == nil {
+		t.Error("a refused stretch left a shard")
+	}
 }
 
 // A shard is the same file whatever the number of workers (3·10^6 digits:
