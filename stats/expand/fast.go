@@ -13,14 +13,20 @@ import (
 // Karatsuba below). The thresholds come from BenchmarkMul on this project's
 // 2-core reference machine: the NTT is 1.5–2.8× faster from 2000 words up.
 func mul(a, b *big.Int) *big.Int {
-	na, nb := len(a.Bits()), len(b.Bits())
-	if nttWords && min(na, nb) >= nttMinWords && max(na, nb) <= 8*min(na, nb) {
+	if nttFits(len(a.Bits()), len(b.Bits())) {
 		return nttMul(a, b)
 	}
 	return bigfft.Mul(a, b)
 }
 
 const nttMinWords = 1500
+
+// nttFits reports whether a product of operands of na and nb words goes to
+// the NTT: on a 64-bit platform (nttWords), both long enough and neither
+// more than 8 times the other.
+func nttFits(na, nb int) bool {
+	return nttWords && min(na, nb) >= nttMinWords && max(na, nb) <= 8*min(na, nb)
+}
 
 // directBits is the size below which math/big's own division is used.
 const directBits = 1 << 17
@@ -172,7 +178,7 @@ func (c *powerCache) pow(h int) *big.Int {
 func (c *powerCache) mulPow(v *big.Int, h int) *big.Int {
 	p := c.pow(h)
 	nv, np := len(v.Bits()), len(p.Bits())
-	if !nttWords || min(nv, np) < nttMinWords || max(nv, np) > 8*min(nv, np) {
+	if !nttFits(nv, np) {
 		return mul(v, p)
 	}
 	n := nttLen(nv + np)
