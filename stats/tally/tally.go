@@ -337,17 +337,10 @@ func (t *Tally) addBlocks(k int, d []byte) {
 			have, cur = 0, 0
 		}
 	}
-	if hot := t.hotTable(&t.hotBlocks[k], len(cnt)); hot != nil {
-		for ; i+k <= len(d); i += k {
-			w := value(d[i:i+k], b)
-			v := hot[w] + 1
-			hot[w] = v
-			if v == 0 {
-				cnt[w] += 256
-			}
-		}
-		return
-	}
+	// Straight into the 64-bit table, byte table or not (the count of a cell
+	// is the sum of both): with large tables the blocks come from the
+	// window batches (count.go) and only the few at a chunk's start come
+	// here.
 	for ; i+k <= len(d); i += k {
 		cnt[value(d[i:i+k], b)]++
 	}

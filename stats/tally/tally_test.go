@@ -406,6 +406,16 @@ func TestCyclicInPlace(t *testing.T) {
 	tl.Add([]byte{1})
 }
 
+// mergedHalves tallies d[:cut] and d[cut:] as two stretches, the first at
+// global position offset, and merges them.
+func mergedHalves(t *testing.T, spec Spec, offset int64, d []byte, cut int) (*Tally, error) {
+	t.Helper()
+	a, b := mustNew(t, spec, offset), mustNew(t, spec, offset+int64(cut))
+	a.Add(d[:cut])
+	b.Add(d[cut:])
+	return Merge(a, b)
+}
+
 // same reports whether two tallies hold the same counts (byte counters
 // folded in first).
 func same(a, b *Tally) bool {
@@ -447,11 +457,7 @@ func TestHotCountersExact(t *testing.T) {
 		if !same(got, want) {
 			t.Fatalf("trial %d (base %d, K %d, chunks of %d): byte counters change the tally", trial, base, spec.MaxBlock, step)
 		}
-		a, b := mustNew(t, spec, 0), mustNew(t, spec, int64(cut))
-		a.Add(d[:cut])
-		b.Add(d[cut:])
-		m, err := Merge(a, b)
-		if err != nil || !same(m, want) {
+		if m, err := mergedHalves(t, spec, 0, d, cut); err != nil || !same(m, want) {
 			t.Fatalf("trial %d: merge of byte-counted halves differs (%v)", trial, err)
 		}
 	}
@@ -508,11 +514,7 @@ func TestDerived(t *testing.T) {
 		}
 		if n > 2 {
 			cut := 1 + rng.IntN(n-1)
-			a, b := mustNew(t, spec, offset), mustNew(t, spec, offset+int64(cut))
-			a.Add(d[:cut])
-			b.Add(d[cut:])
-			m, err := Merge(a, b)
-			if err != nil || !same(m, tl) {
+			if m, err := mergedHalves(t, spec, offset, d, cut); err != nil || !same(m, tl) {
 				t.Fatalf("trial %d: merged halves differ from the whole (%v)", trial, err)
 			}
 		}
