@@ -15,61 +15,29 @@ import (
 func texEscape(s string) string {
 	var b strings.Builder
 	for _, r := range s {
-		switch r {
-		case '\\':
-			b.WriteString(`\textbackslash{}`)
-		case '&', '%', '$', '#', '_', '{', '}':
+		switch t, ok := texRunes[r]; {
+		case ok:
+			b.WriteString(t)
+		case strings.ContainsRune(`&%$#_{}`, r):
 			b.WriteByte('\\')
 			b.WriteRune(r)
-		case '~':
-			b.WriteString(`\textasciitilde{}`)
-		case '^':
-			b.WriteString(`\textasciicircum{}`)
-		case '<':
-			b.WriteString(`\textless{}`)
-		case '>':
-			b.WriteString(`\textgreater{}`)
-		case '|':
-			b.WriteString(`\textbar{}`)
-		case '–':
-			b.WriteString("--")
-		case '—':
-			b.WriteString("---")
-		case '’', '‘':
-			b.WriteByte('\'')
-		case '“', '”':
-			b.WriteByte('"')
-		case '×':
-			b.WriteString(`$\times$`)
-		case '≤':
-			b.WriteString(`$\le$`)
-		case '≥':
-			b.WriteString(`$\ge$`)
-		case '√':
-			b.WriteString(`$\surd$`)
-		case '·':
-			b.WriteString(`$\cdot$`)
-		case '²':
-			b.WriteString(`$^2$`)
-		case 'ψ':
-			b.WriteString(`$\psi$`)
-		case '∇':
-			b.WriteString(`$\nabla$`)
-		case 'π':
-			b.WriteString(`$\pi$`)
-		case 'χ':
-			b.WriteString(`$\chi$`)
-		case 'α':
-			b.WriteString(`$\alpha$`)
+		case r < 128:
+			b.WriteRune(r)
 		default:
-			if r < 128 {
-				b.WriteRune(r)
-			} else {
-				b.WriteString(fmt.Sprintf(`\textsuperscript{[U+%04X]}`, r))
-			}
+			b.WriteString(fmt.Sprintf(`\textsuperscript{[U+%04X]}`, r))
 		}
 	}
 	return b.String()
+}
+
+// texRunes is what texEscape writes for characters that LaTeX reserves or
+// that its default fonts lack.
+var texRunes = map[rune]string{
+	'\\': `\textbackslash{}`, '~': `\textasciitilde{}`, '^': `\textasciicircum{}`,
+	'<': `\textless{}`, '>': `\textgreater{}`, '|': `\textbar{}`,
+	'–': "--", '—': "---", '’': "'", '‘': "'", '“': `"`, '”': `"`,
+	'×': `$\times$`, '≤': `$\le$`, '≥': `$\ge$`, '√': `$\surd$`, '·': `$\cdot$`, '²': `$^2$`,
+	'ψ': `$\psi$`, '∇': `$\nabla$`, 'π': `$\pi$`, 'χ': `$\chi$`, 'α': `$\alpha$`,
 }
 
 // texStatistic writes a statistic's name in math mode.
