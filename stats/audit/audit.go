@@ -362,9 +362,6 @@ func (p *Plan) Add(d []byte) {
 	}
 }
 
-// Tallied returns the tally of the digits added since Start.
-func (p *Plan) Tallied() *tally.Tally { return p.t }
-
 // PlanForSpec returns the plan of a tally made elsewhere (merged shards),
 // for Finish.
 func PlanForSpec(spec tally.Spec, opts Options) (*Plan, error) {
@@ -385,11 +382,9 @@ func (p *Plan) Done(src Source) (*Result, error) {
 // ErrStopped ends a pass that Plan.Stop asked to stop.
 var ErrStopped = fmt.Errorf("the pass was stopped")
 
-// Tally reads every digit of r into a new tally of the plan.
-func (p *Plan) Tally(r *seq.Reader) (*tally.Tally, error) { return p.TallyAt(r, 0) }
-
-// TallyAt reads every digit of r into a new tally of a stretch that begins
-// at global digit position offset (a shard; see StartAt).
+// TallyAt reads every digit of r into a new tally of the plan, for a
+// stretch that begins at global digit position offset (0 for a whole
+// sequence; see StartAt).
 func (p *Plan) TallyAt(r *seq.Reader, offset int64) (*tally.Tally, error) {
 	if err := p.StartAt(offset); err != nil {
 		return nil, err
@@ -416,11 +411,11 @@ func (p *Plan) TallyAt(r *seq.Reader, offset int64) (*tally.Tally, error) {
 // tallyPipelined.
 const pipelineChunk = 1 << 18
 
-// tallyPipelined is Tally with the reading (decoding, hashing by the
+// tallyPipelined is TallyAt with the reading (decoding, hashing by the
 // caller's tee, decompression) on its own goroutine, one chunk ahead of the
 // kernels, so that it overlaps with them instead of stopping every worker
 // while the next chunk is read. The chunks and their order are the same as
-// in Tally, so the tally is too.
+// in TallyAt, so the tally is too.
 func (p *Plan) tallyPipelined(r *seq.Reader) (*tally.Tally, error) {
 	type chunk struct {
 		d             []byte
