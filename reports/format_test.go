@@ -4,6 +4,9 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"borel/stats/audit"
+	"borel/stats/checks"
 )
 
 // Printing rules (methods.md §15): 4 significant digits; below 1e-10 the
@@ -58,6 +61,28 @@ func TestFormatStat(t *testing.T) {
 	for v, want := range cases {
 		if got := formatStat(v); got != want {
 			t.Errorf("formatStat(%g) = %q, want %q", v, got, want)
+		}
+	}
+}
+
+// The summary's "from" names the finding with the smallest adjusted p:
+// check, statistic, parameters when it has any, and the tail — one space
+// between the parts (a drift finding has no parameters).
+func TestSummaryFrom(t *testing.T) {
+	f := func(check, stat string, params map[string]int, adjUp, adjLow float64) audit.Finding {
+		return audit.Finding{Finding: checks.Finding{Check: check, Statistic: stat, Params: params, LogPUpper: adjUp, LogPLower: adjLow},
+			LogAdjUpper: adjUp, LogAdjLower: adjLow}
+	}
+	for _, c := range []struct {
+		findings []audit.Finding
+		want     string
+	}{
+		{[]audit.Finding{f("freq", "X2", map[string]int{"k": 1}, -1, -2), f("drift", "M", nil, -0.5, -3)}, "drift max|S|/√n (lower)"},
+		{[]audit.Finding{f("serial", "dpsi2", map[string]int{"k": 3}, -4, -1), f("drift", "M", nil, -0.5, -3)}, "serial ∇ψ² k=3 (upper)"},
+	} {
+		_, rows := summaryRows(Document{Results: []*audit.Result{{Source: audit.Source{Name: "x"}, Findings: c.findings}}})
+		if got := rows[0][5]; got != c.want {
+			t.Errorf("from = %q, want %q", got, c.want)
 		}
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -25,7 +26,8 @@ func summaryRows(doc Document) (header []string, rows [][]string) {
 			}
 			if label == "–" || lp < worst || (lp == worst && raw < worstRaw) {
 				worst, worstRaw = lp, raw
-				label = fmt.Sprintf("%s %s %s (%s)", f.Check, statisticName(f.Statistic), findingParams(f.Finding), tail)
+				label = strings.Join(slices.DeleteFunc([]string{f.Check, statisticName(f.Statistic), findingParams(f.Finding), "(" + tail + ")"},
+					func(s string) bool { return s == "" }), " ") // maxrun and drift have no parameters
 			}
 		}
 		deficit, dim, interval := "–", "–", "–"
