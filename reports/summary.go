@@ -5,10 +5,11 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"slices"
 	"strconv"
 	"strings"
 	"time"
+
+	"borel/stats/checks"
 )
 
 // summaryRows returns one row per sequence and base: the verdict, the
@@ -26,8 +27,7 @@ func summaryRows(doc Document) (header []string, rows [][]string) {
 			}
 			if label == "–" || lp < worst || (lp == worst && raw < worstRaw) {
 				worst, worstRaw = lp, raw
-				label = strings.Join(slices.DeleteFunc([]string{f.Check, statisticName(f.Statistic), findingParams(f.Finding), "(" + tail + ")"},
-					func(s string) bool { return s == "" }), " ") // maxrun and drift have no parameters
+				label = findingLabel(f.Finding) + " (" + tail + ")"
 			}
 		}
 		deficit, dim, interval := "–", "–", "–"
@@ -95,4 +95,13 @@ func Comparison(w io.Writer, doc Document, format string) error {
 		fmt.Fprintln(w, wrap(Caution, 100))
 	}
 	return nil
+}
+
+// findingLabel names a finding: check, statistic and its parameters when it
+// has any (maxrun's and drift's whole-sequence findings have none).
+func findingLabel(f checks.Finding) string {
+	if p := findingParams(f); p != "" {
+		return f.Check + " " + statisticName(f.Statistic) + " " + p
+	}
+	return f.Check + " " + statisticName(f.Statistic)
 }

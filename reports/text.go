@@ -145,7 +145,7 @@ func formatDeficit(v float64) string {
 func verdictReason(r *audit.Result) string {
 	var dev, uni []string
 	for _, f := range r.Findings {
-		label := fmt.Sprintf("%s %s %s", f.Check, statisticName(f.Statistic), findingParams(f.Finding))
+		label := findingLabel(f.Finding)
 		switch f.Mark {
 		case audit.MarkDeviates:
 			dev = append(dev, label)
