@@ -7,10 +7,18 @@ import (
 	"sync"
 )
 
-// A fixedFunc returns floor(x·2^prec) for a constant x in [0, 1) up to an
-// error of at most errUnits units of 2^-prec: the true value lies in
-// [v - errUnits, v + errUnits] · 2^-prec.
-type fixedFunc func(prec uint) (v *big.Int, errUnits int64)
+// A fixedValue is a constant x in [0, 1) in binary fixed point: the true
+// value lies in [V - Err, V + Err] · 2^-prec. Check says, for reports, how
+// the value was confirmed by a method independent of its computation.
+type fixedValue struct {
+	V     *big.Int
+	Err   int64
+	Check string
+}
+
+// A fixedFunc computes a constant at a binary precision and checks it; an
+// error means the check failed and the value must not be used.
+type fixedFunc func(prec uint) (fixedValue, error)
 
 // guardBits are added to the precision a request needs; a result too close
 // to a digit boundary doubles them and tries again.
@@ -22,36 +30,47 @@ func bitsFor(n int, base int) uint {
 }
 
 // digitsFrom returns the first n base-b digits after the point of the
-// constant computed by f. It evaluates floor(x·b^n) at both ends of f's
-// error interval; when they differ (the value is within the error bound of
-// a digit boundary) it retries with more precision, so every digit it
-// returns is correct.
-func digitsFrom(f fixedFunc, n, base int) ([]byte, error) {
+// constant computed by f, and the checks they passed. It evaluates
+// floor(x·b^n) at both ends of f's error interval; when they differ (the
+// value is within the error bound of a digit boundary) it retries with more
+// precision. The value itself is checked by f; the digits are then
+// confirmed against the value by checkDigits, so every digit it returns is
+// correct, and a defect in any step is an error instead of a wrong digit.
+func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, error) {
 	if n < 0 {
-		return nil, fmt.Errorf("digit count %d is negative", n)
+		return nil, nil, fmt.Errorf("digit count %d is negative", n)
 	}
 	if n == 0 {
-		return []byte{}, nil
+		return []byte{}, nil, nil
 	}
 	var scale *big.Int
 	for extra := uint(0); extra <= 4096; extra = 2*extra + guardBits {
 		prec := bitsFor(n, base) + extra
-		v, e := f(prec)
-		if d, ok := fastDigits(v, e, prec, n, base); ok {
-			return d, nil
+		fv, err := f(prec)
+		if err != nil {
+			return nil, nil, err
 		}
-		if scale == nil {
-			scale = pow(int64(base), n)
+		v, e := fv.V, fv.Err
+		d, ok := fastDigits(v, e, prec, n, base)
+		if !ok {
+			if scale == nil {
+				scale = pow(int64(base), n)
+			}
+			lo := mul(new(big.Int).Sub(v, big.NewInt(e)), scale)
+			lo.Rsh(lo, prec)
+			hi := mul(new(big.Int).Add(v, big.NewInt(e+1)), scale) // floor truncates: true value < v + e + 1
+			hi.Sub(hi, big.NewInt(1)).Rsh(hi, prec)                // the upper end is excluded
+			if lo.Cmp(hi) != 0 {
+				continue
+			}
+			d = toDigits(lo, n, base)
 		}
-		lo := mul(new(big.Int).Sub(v, big.NewInt(e)), scale)
-		lo.Rsh(lo, prec)
-		hi := mul(new(big.Int).Add(v, big.NewInt(e+1)), scale) // floor truncates: true value < v + e + 1
-		hi.Sub(hi, big.NewInt(1)).Rsh(hi, prec)                // the upper end is excluded
-		if lo.Cmp(hi) == 0 {
-			return toDigits(lo, n, base), nil
+		if err := checkDigits(constant, fv, prec, d, base); err != nil {
+			return nil, nil, err
 		}
+		return d, []string{fv.Check, digitCheck}, nil
 	}
-	return nil, fmt.Errorf("could not decide the digits of the constant to %d places", n)
+	return nil, nil, fmt.Errorf("could not decide the digits of %s to %d places", constant, n)
 }
 
 // fastDigits is digitsFrom's usual path: the digits of the lower end
@@ -188,22 +207,6 @@ func fusedNode(l, r bsResult, needP bool) bsResult {
 	}
 	wg.Wait()
 	return res
-}
-
-// seriesFixed returns S·2^prec for the series summed over [0, n), within
-// two units (the caller bounds the tail by one more): floor, and the
-// truncation of T and B·Q — which have several times the bits the
-// precision needs, and only their ratio matters — to prec+64 bits of the
-// denominator, a relative error below 2^-(prec+58) for the positive series
-// here (0 < S < 4).
-func seriesFixed(term bsTerm, n int64, prec uint) *big.Int {
-	r := binarySplit(term, 0, n, 0, false)
-	num, den := new(big.Int).Set(r.T), mul(r.B, r.Q)
-	if sh := den.BitLen() - int(prec+64); sh > 0 {
-		num.Rsh(num, uint(sh))
-		den.Rsh(den, uint(sh))
-	}
-	return quo(num.Lsh(num, prec), den)
 }
 
 var one = big.NewInt(1)

@@ -15,6 +15,7 @@ type Source struct {
 	Name   string // as given: "pi", "sqrt2", "stoneham:2,3", "pcg:7", …
 	Detail string // how the digits are made, for a report's provenance
 	fixed  fixedFunc
+	symbol string                            // the constant's name in messages: "π", "√2", …
 	direct func(n, base int) ([]byte, error) // sequences defined digit by digit
 	base   int                               // a source with a base of its own (iid), else 0
 }
@@ -28,13 +29,13 @@ func ParseSource(name string) (Source, error) {
 	s := Source{Name: name}
 	switch {
 	case kind == "pi" && !hasArg:
-		s.fixed, s.Detail = piFixed, "π by Chudnovsky's series (binary splitting), digits verified against the error bound"
+		s.fixed, s.symbol, s.Detail = piFixed, "π", "π by Chudnovsky's series (binary splitting)"
 	case kind == "e" && !hasArg:
-		s.fixed, s.Detail = eFixed, "e by Σ 1/k! (binary splitting), digits verified against the error bound"
+		s.fixed, s.symbol, s.Detail = eFixed, "e", "e by Σ 1/k! (binary splitting)"
 	case kind == "ln2" && !hasArg:
-		s.fixed, s.Detail = ln2Fixed, "ln 2 = 18 atanh(1/26) - 2 atanh(1/4801) + 8 atanh(1/8749), digits verified against the error bound"
+		s.fixed, s.symbol, s.Detail = ln2Fixed, "ln 2", "ln 2 = 18 atanh(1/26) - 2 atanh(1/4801) + 8 atanh(1/8749) (binary splitting)"
 	case kind == "phi" && !hasArg:
-		s.fixed, s.Detail = phiFixed, "golden ratio (1+√5)/2, exact integer square root"
+		s.fixed, s.symbol, s.Detail = phiFixed, "φ", "golden ratio (1+√5)/2, exact integer square root"
 	case strings.HasPrefix(kind, "sqrt") && !hasArg:
 		n, err := strconv.ParseInt(strings.TrimPrefix(kind, "sqrt"), 10, 64)
 		if err != nil || n <= 0 || n > 1<<40 {
@@ -43,7 +44,7 @@ func ParseSource(name string) (Source, error) {
 		if r := int64(math.Sqrt(float64(n))); r*r == n || (r+1)*(r+1) == n {
 			return s, fmt.Errorf("source %q: %d is a perfect square, its root has no fractional digits", name, n)
 		}
-		s.fixed, s.Detail = sqrtFixed(n), fmt.Sprintf("√%d, exact integer square root", n)
+		s.fixed, s.symbol, s.Detail = sqrtFixed(n), fmt.Sprintf("√%d", n), fmt.Sprintf("√%d, exact integer square root", n)
 	case kind == "stoneham":
 		bs, cs, ok := strings.Cut(arg, ",")
 		b, err1 := strconv.ParseInt(bs, 10, 64)
@@ -51,7 +52,7 @@ func ParseSource(name string) (Source, error) {
 		if !ok || err1 != nil || err2 != nil || b < 2 || c < 2 || b > 1<<20 || c > 1<<20 || gcd(b, c) != 1 {
 			return s, fmt.Errorf("source %q: write stoneham:B,C with coprime integers B, C ≥ 2 (e.g. stoneham:2,3)", name)
 		}
-		s.fixed = stonehamFixed(b, c)
+		s.fixed, s.symbol = stonehamFixed(b, c), fmt.Sprintf("α_{%d,%d}", b, c)
 		s.Detail = fmt.Sprintf("Stoneham constant α_{%d,%d} = Σ_{k≥1} 1/(%d^k %d^(%d^k)), exact terms", b, c, c, b, c)
 	case kind == "rational":
 		ps, qs, ok := strings.Cut(arg, "/")
@@ -104,20 +105,30 @@ func (s Source) Base() int { return s.base }
 // Digits returns digits offset+1 .. offset+n after the point, in base b
 // (2..36, or 256).
 func (s Source) Digits(n, offset, base int) ([]byte, error) {
+	d, _, err := s.CheckedDigits(n, offset, base)
+	return d, err
+}
+
+// CheckedDigits is Digits, and says how the digits of a constant were
+// checked: the value by a method independent of its computation, and the
+// digits against the value (none for sources defined digit by digit). A
+// failed check is an error, and no digits are returned.
+func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 	if s.base != 0 && base != s.base {
-		return nil, fmt.Errorf("source %s has %d digits; --base %d does not match", s.Name, s.base, base)
+		return nil, nil, fmt.Errorf("source %s has %d digits; --base %d does not match", s.Name, s.base, base)
 	}
 	var d []byte
+	var checks []string
 	var err error
 	if s.fixed != nil {
-		d, err = digitsFrom(s.fixed, n+offset, base)
+		d, checks, err = digitsFrom(s.symbol, s.fixed, n+offset, base)
 	} else {
 		d, err = s.direct(n+offset, base)
 	}
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	return d[offset:], nil
+	return d[offset:], checks, nil
 }
 
 // MemoryEstimate returns roughly how many bytes computing n digits in base
