@@ -50,14 +50,15 @@ type JSONAudit struct {
 
 // JSONSource says where the digits came from.
 type JSONSource struct {
-	Name        string `json:"name"`
-	Kind        string `json:"kind"`
-	Format      string `json:"format,omitempty"`
-	Bytes       *int64 `json:"bytes,omitempty"`
-	Compressed  bool   `json:"compressed"`
-	IntegerPart string `json:"integer_part_dropped,omitempty"`
-	SHA256      string `json:"sha256,omitempty"`
-	Parameters  string `json:"parameters,omitempty"`
+	Name        string   `json:"name"`
+	Kind        string   `json:"kind"`
+	Format      string   `json:"format,omitempty"`
+	Bytes       *int64   `json:"bytes,omitempty"`
+	Compressed  bool     `json:"compressed"`
+	IntegerPart string   `json:"integer_part_dropped,omitempty"`
+	SHA256      string   `json:"sha256,omitempty"`
+	Parameters  string   `json:"parameters,omitempty"`
+	Checks      []string `json:"checks,omitempty"`
 }
 
 // JSONNull is the null hypothesis with its digit probabilities.
@@ -151,7 +152,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 	a := JSONAudit{
 		Source: JSONSource{Name: r.Source.Name, Kind: r.Source.Kind, Format: r.Source.Format,
 			Compressed: r.Source.Compressed, IntegerPart: r.Source.IntegerPart,
-			SHA256: r.Source.SHA256, Parameters: r.Source.Parameters},
+			SHA256: r.Source.SHA256, Parameters: r.Source.Parameters, Checks: slices.Clone(r.Source.Checks)},
 		Segments: r.Segments, Seed: r.Seed,
 		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
 		Alpha: r.Alpha, Adjustment: r.Adjustment, MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,

@@ -26,9 +26,14 @@ func provenance(doc Document, r *audit.Result) [][2]string {
 		{"date", doc.Created.UTC().Format(time.RFC3339)},
 		{"command", strings.Join(doc.Command, " ")},
 		{"source", src},
+	}
+	if len(r.Source.Checks) > 0 {
+		rows = append(rows, [2]string{"checked", strings.Join(r.Source.Checks, "; ")})
+	}
+	rows = append(rows, [][2]string{
 		{"base", strconv.Itoa(r.Base)},
 		{"digits", strconv.FormatInt(r.Digits, 10)},
-	}
+	}...)
 	if r.Source.IntegerPart != "" {
 		rows = append(rows, [2]string{"integer part", fmt.Sprintf("%q dropped", r.Source.IntegerPart)})
 	}

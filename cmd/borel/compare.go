@@ -118,7 +118,7 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 	if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
 		return nil, err
 	}
-	d, err := src.Digits(count, 0, b)
+	d, checks, err := src.CheckedDigits(count, 0, b)
 	if err != nil {
 		return nil, err
 	}
@@ -128,5 +128,5 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 	}
 	opts.Null = ns
 	return audit.Digits(d, b, audit.Source{Name: name, Kind: "built-in", Bytes: -1,
-		Parameters: fmt.Sprintf("%d digits in base %d; %s", count, b, src.Detail)}, opts)
+		Parameters: fmt.Sprintf("%d digits in base %d; %s", count, b, src.Detail), Checks: checks}, opts)
 }

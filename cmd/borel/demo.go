@@ -39,37 +39,38 @@ the uniform null: i.i.d. digits, each k-block with probability 10^-k.
 
 type demoSequence struct {
 	name, params string
-	digits       func() ([]byte, error)
+	digits       func() ([]byte, []string, error) // the digits, and how a computed constant was checked
 }
 
 func demoSequences() []demoSequence {
 	const constDigits, unitDigits = 30_000, 200_000
 	return []demoSequence{
 		{"pi (30 000 decimals, computed)", "exact decimals by Chudnovsky's series (borel stats/expand)",
-			func() ([]byte, error) { return constantDigits("pi", constDigits) }},
+			func() ([]byte, []string, error) { return constantDigits("pi", constDigits) }},
 		{"sqrt 2 (30 000 decimals, computed)", "exact decimals by integer square root (borel stats/expand)",
-			func() ([]byte, error) { return constantDigits("sqrt2", constDigits) }},
-		{"generator unit 1", "simulated: ChaCha8 keyed \"wrenfield unit 1\", uniform decimal digits", func() ([]byte, error) {
+			func() ([]byte, []string, error) { return constantDigits("sqrt2", constDigits) }},
+		{"generator unit 1", "simulated: ChaCha8 keyed \"wrenfield unit 1\", uniform decimal digits", func() ([]byte, []string, error) {
 			var seed [32]byte
 			copy(seed[:], "wrenfield unit 1")
-			return expand.IID(unitDigits, uniform(10), rand.New(rand.NewChaCha8(seed))), nil
+			return expand.IID(unitDigits, uniform(10), rand.New(rand.NewChaCha8(seed))), nil, nil
 		}},
-		{"generator unit 2 (sticky output)", "simulated: PCG(2, 2026), repeats the previous digit with probability 0.02, else uniform", func() ([]byte, error) {
-			return expand.Sticky(unitDigits, 10, 0.02, rand.New(rand.NewPCG(2, 2026))), nil
+		{"generator unit 2 (sticky output)", "simulated: PCG(2, 2026), repeats the previous digit with probability 0.02, else uniform", func() ([]byte, []string, error) {
+			return expand.Sticky(unitDigits, 10, 0.02, rand.New(rand.NewPCG(2, 2026))), nil, nil
 		}},
-		{"vendor's certified sample", "simulated: random de Bruijn sequence B(10, 4), PCG(7, 7)", func() ([]byte, error) {
-			return expand.RandomDeBruijn(10, 4, rand.New(rand.NewPCG(7, 7))), nil
+		{"vendor's certified sample", "simulated: random de Bruijn sequence B(10, 4), PCG(7, 7)", func() ([]byte, []string, error) {
+			return expand.RandomDeBruijn(10, 4, rand.New(rand.NewPCG(7, 7))), nil, nil
 		}},
 	}
 }
 
-// constantDigits returns n decimals of a built-in constant.
-func constantDigits(name string, n int) ([]byte, error) {
+// constantDigits returns n decimals of a built-in constant and how they
+// were checked.
+func constantDigits(name string, n int) ([]byte, []string, error) {
 	src, err := expand.ParseSource(name)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	return src.Digits(n, 0, 10)
+	return src.CheckedDigits(n, 0, 10)
 }
 
 func uniform(b int) []float64 {
@@ -95,11 +96,11 @@ func runDemo(e env, args []string) (int, error) {
 	}
 	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
 	for _, s := range demoSequences() {
-		d, err := s.digits()
+		d, checks, err := s.digits()
 		if err != nil {
 			return 0, fmt.Errorf("demo sequence %s: %v", s.name, err)
 		}
-		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1, Parameters: s.params}, audit.DefaultOptions())
+		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1, Parameters: s.params, Checks: checks}, audit.DefaultOptions())
 		if err != nil {
 			return 0, err
 		}

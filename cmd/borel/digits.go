@@ -19,8 +19,12 @@ const digitsHelp = `Usage: borel digits SOURCE --count N [--base B] [--offset K]
 
 Writes the fractional digits of a constant, or the output of a reference generator, to standard
 output (what it did goes to standard error). Constants are computed exactly in any base 2..36
-(and 256, written as raw bytes): every printed digit is checked against the computation's error
-bound, and recomputed with more precision when it is too close to a digit boundary.
+(and 256, written as raw bytes), with a bound on the error, and checked before any digit is
+printed: the value by a method that shares nothing with its computation (pi and ln2 by digit
+extraction at the end of the computed bits, e by re-evaluating its series modulo a prime, square
+roots by squaring back, Stoneham terms by multiplying back), and the digits against the value by
+one exact product. A digit too close to a boundary is recomputed with more precision; a failed
+check is an error, and nothing is printed. Standard error says what was checked.
 
 Sources: pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, stoneham:B,C
 (coprime B, C ≥ 2), rational:P/Q, liouville; generators iid:p0,p1,..., pcg:SEED, chacha8:SEED and
@@ -74,7 +78,7 @@ func runDigits(e env, args []string) (int, error) {
 		return 0, err
 	}
 	start := time.Now()
-	d, err := src.Digits(*count, *offset, b)
+	d, checks, err := src.CheckedDigits(*count, *offset, b)
 	if err != nil {
 		return 0, err
 	}
@@ -90,6 +94,9 @@ func runDigits(e env, args []string) (int, error) {
 	if !*quiet {
 		fmt.Fprintf(e.stderr, "borel: %d digits of %s in base %d (digits %d to %d after the point) in %.2f s; %s\n",
 			len(d), src.Name, b, *offset+1, *offset+len(d), time.Since(start).Seconds(), src.Detail)
+		for _, c := range checks {
+			fmt.Fprintf(e.stderr, "borel: checked: %s\n", c)
+		}
 	}
 	return exitOK, nil
 }

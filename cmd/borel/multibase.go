@@ -89,12 +89,12 @@ func auditSource(name string, bases []int, count int, opts audit.Options) ([]*au
 		if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
 			return nil, err
 		}
-		d, err := src.Digits(count, 0, b)
+		d, checks, err := src.CheckedDigits(count, 0, b)
 		if err != nil {
 			return nil, err
 		}
 		res, err := audit.Digits(d, b, audit.Source{Name: name, Kind: "built-in", Bytes: -1,
-			Parameters: fmt.Sprintf("%d digits in base %d; %s", count, b, src.Detail)}, opts)
+			Parameters: fmt.Sprintf("%d digits in base %d; %s", count, b, src.Detail), Checks: checks}, opts)
 		if err != nil {
 			return nil, err
 		}

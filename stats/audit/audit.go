@@ -86,9 +86,10 @@ type Source struct {
 	Format      string // "text", "raw" or "bits"
 	Bytes       int64  // input size in bytes when known, else -1
 	Compressed  bool
-	IntegerPart string // dropped integer part, "" when none
-	SHA256      string // hex SHA-256 of the input bytes as read, "" for built-in sources
-	Parameters  string // for a built-in source: how it was made
+	IntegerPart string   // dropped integer part, "" when none
+	SHA256      string   // hex SHA-256 of the input bytes as read, "" for built-in sources
+	Parameters  string   // for a built-in source: how it was made
+	Checks      []string // for a computed constant: how its value and digits were checked
 }
 
 // SegmentSeries is the p-values one statistic took in the segments.

@@ -90,7 +90,9 @@ func checkRoot(constant string, r, N *big.Int) error {
 }
 
 // digitCheck says what checkDigits confirmed, for reports.
-const digitCheck = "every digit confirmed as the floor of x·b^n for every x within the error bound, by one exact product checked modulo the prime " + checkPrimeName
+func digitCheck(n, base int) string {
+	return fmt.Sprintf("the %d digits equal floor(x·%d^%d) at both ends of the error bound: one exact product, checked modulo the prime %s", n, base, n, checkPrimeName)
+}
 
 // checkDigits confirms that the n base-b digits d are floor(x·b^n) for every
 // x in the value's error interval [V, V + W)·2^-prec, V = v − errUnits,

@@ -55,7 +55,7 @@ func checkExtraction(constant, method string, v *big.Int, errUnits int64, prec u
 	if dist > tol {
 		return "", checkError(constant, fmt.Sprintf("binary digits %d to %d after the point differ from %s by %d units of 2^-%d, beyond its bound of %d", pos+1, pos+64, method, dist, pos+64, tol))
 	}
-	return fmt.Sprintf("binary digits %d to %d after the point agree with %s", pos+1, pos+uint64(agree), method), nil
+	return fmt.Sprintf("%s agrees at binary digits %d–%d, the end of the computation", method, pos+1, pos+uint64(agree)), nil
 }
 
 func bitLen64(x uint64) int {
@@ -138,7 +138,7 @@ func eFixed(prec uint) (fixedValue, error) {
 		return fixedValue{}, err
 	}
 	v.Sub(v, new(big.Int).Lsh(big.NewInt(2), prec))
-	check := fmt.Sprintf("the binary-splitting sums (N−1)! and Σ_{k<N} (N−1)!/k! at N = %d agree with a term-by-term evaluation modulo the prime %s, and the quotient multiplied back lies within one divisor of the dividend", n, checkPrimeName)
+	check := fmt.Sprintf("Σ_{k<%d} 1/k! re-evaluated term by term modulo the prime %s agrees with the binary splitting, and the quotient multiplied back lies within one divisor", n, checkPrimeName)
 	return fixedValue{V: v, Err: 3, Check: check}, nil // seriesQuo's two units and the tail's one
 }
 
@@ -205,7 +205,7 @@ func sqrtFixed(n int64) fixedFunc {
 }
 
 func rootCheck(n int64) string {
-	return fmt.Sprintf("the root r = floor(√%d·2^p) squared back satisfies r² ≤ %d·4^p < (r+1)², with r² checked modulo the prime %s", n, n, checkPrimeName)
+	return fmt.Sprintf("squared back: r² ≤ %d·4^p < (r+1)² for r = floor(√%d·2^p), r² checked modulo the prime %s", n, n, checkPrimeName)
 }
 
 // phiFixed: frac(φ) = (√5 - 1)/2, from the exact floor(√5·2^prec), checked
@@ -273,7 +273,7 @@ func stonehamFixed(b, c int64) fixedFunc {
 			terms++
 			ck.Mul(ck, big.NewInt(c))
 		}
-		check := fmt.Sprintf("each of the %d terms 1/(%d^k·%d^(%d^k)) truncated to 2^-p multiplied back lies within one denominator of 2^p, the denominators checked modulo the prime %s", terms, c, b, c, checkPrimeName)
+		check := fmt.Sprintf("each of the %d terms 1/(%d^k·%d^(%d^k)), truncated, multiplied back to within one denominator, the denominators checked modulo the prime %s", terms, c, b, c, checkPrimeName)
 		return fixedValue{V: sum, Err: terms + 1, Check: check}, nil // truncations, plus the tail (< 1 unit)
 	}
 }

@@ -68,7 +68,7 @@ func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, er
 		if err := checkDigits(constant, fv, prec, d, base); err != nil {
 			return nil, nil, err
 		}
-		return d, []string{fv.Check, digitCheck}, nil
+		return d, []string{fv.Check, digitCheck(n, base)}, nil
 	}
 	return nil, nil, fmt.Errorf("could not decide the digits of %s to %d places", constant, n)
 }
