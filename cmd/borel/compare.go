@@ -115,10 +115,10 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 	if src.Base() != 0 {
 		b = src.Base()
 	}
-	if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
+	if err := checkDigitMemory(src, count, b, digitMemory()); err != nil {
 		return nil, err
 	}
-	d, checks, err := src.CheckedDigits(count, 0, b)
+	d, checks, err := checkedDigits(src, count, 0, b)
 	if err != nil {
 		return nil, err
 	}

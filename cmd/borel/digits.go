@@ -42,7 +42,7 @@ func runDigits(e env, args []string) (int, error) {
 	count := fs.Int("count", 0, "number of digits")
 	offset := fs.Int("offset", 0, "skip this many digits after the point first")
 	wrap := fs.Int("wrap", 0, "break lines after this many digits (0: one line)")
-	memory := fs.String("memory", "4GiB", "refuse requests that would need more memory than this")
+	memory := fs.String("memory", sizeString(digitMemory()), "refuse requests that would need more memory than this; the default is three quarters of this machine's memory")
 	output := fs.StringP("output", "o", "", "write the digits to this file (atomically) instead of standard output")
 	quiet := fs.BoolP("quiet", "q", false, "say nothing on standard error")
 	if done, err := parseFlags(fs, args, digitsHelp, e.stdout); done || err != nil {
@@ -78,7 +78,7 @@ func runDigits(e env, args []string) (int, error) {
 		return 0, err
 	}
 	start := time.Now()
-	d, checks, err := src.CheckedDigits(*count, *offset, b)
+	d, checks, err := checkedDigits(src, *count, *offset, b)
 	if err != nil {
 		return 0, err
 	}
@@ -100,10 +100,6 @@ func runDigits(e env, args []string) (int, error) {
 	}
 	return exitOK, nil
 }
-
-// digitMemory bounds the memory a built-in source may take to make its
-// digits (borel digits --memory; fixed for audit --source and compare).
-const digitMemory = 4 << 30
 
 // checkDigitMemory refuses, before any work, a request whose digits would
 // need more memory than limit, saying how much it would need.

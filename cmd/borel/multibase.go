@@ -86,10 +86,10 @@ func auditSource(name string, bases []int, count int, opts audit.Options) ([]*au
 		if src.Base() != 0 && b != src.Base() {
 			return nil, usagef("source %s makes base-%d digits; --bases %d does not fit", name, src.Base(), b)
 		}
-		if err := checkDigitMemory(src, count, b, digitMemory); err != nil {
+		if err := checkDigitMemory(src, count, b, digitMemory()); err != nil {
 			return nil, err
 		}
-		d, checks, err := src.CheckedDigits(count, 0, b)
+		d, checks, err := checkedDigits(src, count, 0, b)
 		if err != nil {
 			return nil, err
 		}
