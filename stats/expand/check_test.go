@@ -226,3 +226,35 @@ func TestChecksRefuseWrongValues(t *testing.T) {
 		t.Error("π wrong in bit", pos+30, "passed the extraction check")
 	}
 }
+
+// Stoneham constants with B a power of two take the shift path; their
+// digits against the exact rational partial sum Σ_{k≤K} 1/(C^k B^(C^k)) in
+// math/big (the tail beyond K is below 10^-n·2^-64), at lengths where the
+// last term sits right at the working precision.
+func TestStonehamAgainstRationalSum(t *testing.T) {
+	for _, bc := range [][2]int64{{2, 3}, {4, 3}, {8, 5}, {3, 2}, {16, 7}} {
+		b, c := bc[0], bc[1]
+		src, err := ParseSource("stoneham:" + big.NewInt(b).String() + "," + big.NewInt(c).String())
+		if err != nil {
+			t.Fatal(err)
+		}
+		for n := 1; n <= 400; n += 1 + n/8 {
+			sum := new(big.Rat)
+			ck := big.NewInt(c)
+			for k := int64(1); float64(ck.Int64())*math.Log2(float64(b)) < float64(n)*math.Log2(10)+128; k++ {
+				den := new(big.Int).Exp(big.NewInt(b), ck, nil)
+				den.Mul(den, ck)
+				sum.Add(sum, new(big.Rat).SetFrac(one, den))
+				ck.Mul(ck, big.NewInt(c))
+			}
+			scaled := new(big.Int).Mul(sum.Num(), new(big.Int).Exp(big.NewInt(10), big.NewInt(int64(n)), nil))
+			scaled.Quo(scaled, sum.Denom())
+			want := scaled.Text(10)
+			want = strings.Repeat("0", n-len(want)) + want
+			d, err := src.Digits(n, 0, 10)
+			if err != nil || text(d) != want {
+				t.Fatalf("α_{%d,%d} to %d decimals: %s (%v), want %s", b, c, n, text(d), err, want)
+			}
+		}
+	}
+}

@@ -250,6 +250,9 @@ func stonehamFixed(b, c int64) fixedFunc {
 			var t *big.Int
 			if j > 0 {
 				// floor(2^prec/(c^k·2^(j·c^k))) = floor(2^(prec−j·c^k)/c^k).
+				if uint64(j)*ck.Uint64() > uint64(prec) {
+					break // the term is below 2^-prec
+				}
 				num := new(big.Int).Lsh(one, prec-uint(j)*uint(ck.Uint64()))
 				var err error
 				if t, err = checkedQuo(num, ck, name); err != nil {

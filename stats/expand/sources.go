@@ -136,14 +136,16 @@ func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 // products and the transforms of up to six operands modulo three primes
 // (24 bytes per 64-bit word each): peak resident memory measured with
 // /usr/bin/time -v was 13–16 bytes per bit of precision for π, e, √2 and
-// ln 2 at 10^6–10^7 decimals, so 16 per bit is taken, plus the digits.
-// Digit-native sources need about the digits themselves.
+// ln 2 at 10^6–10^8 decimals (with the estimate as the garbage collector's
+// soft limit, see cmd/borel), so 16 per bit is taken, plus the digits and
+// 32 MiB for the program itself. Digit-native sources need about the digits
+// themselves.
 func (s Source) MemoryEstimate(n, base int) float64 {
 	if s.fixed == nil {
 		return 2 * float64(n)
 	}
 	bits := float64(bitsFor(n, base))
-	return 16*bits + 2*float64(n)
+	return 16*bits + 2*float64(n) + 32<<20
 }
 
 func gcd(a, b int64) int64 {
