@@ -164,6 +164,18 @@ func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool) bsResult {
 	if nttWords && isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
 		return fusedNode(l, r, needP)
 	}
+	if isOne(l.B) && isOne(r.B) && min(len(r.Q.Bits()), len(l.T.Bits()), len(l.Q.Bits())) >= nttMinWords {
+		// Large nodes whose P stays small (e: P = 1), which the fused
+		// node does not take: the transforms for the large products,
+		// where math/big's Karatsuba would take O(n^1.58).
+		t1 := mul(r.Q, l.T)
+		t2 := mul(l.P, r.T)
+		res := bsResult{Q: mul(l.Q, r.Q), B: l.B, T: t1.Add(t1, t2)}
+		if needP {
+			res.P = mul(l.P, r.P)
+		}
+		return res
+	}
 	if isOne(l.B) && isOne(r.B) {
 		// Small nodes of b = 1 series: math/big's products, in place where
 		// an operand is not needed again (the leaves are most of the nodes,
