@@ -124,36 +124,3 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	}
 	return &s, nil
 }
-
-// wellFormed checks the sizes of a decoded tally against its spec, so a
-// damaged file is an error rather than a crash.
-func (t *Tally) wellFormed() error {
-	if err := t.Spec.Validate(); err != nil {
-		return err
-	}
-	b, K := t.Base, t.MaxBlock
-	if K > 64 || ipow(b, min(K, 8)) <= 0 {
-		return fmt.Errorf("tally: block length %d is out of range", K)
-	}
-	bad := len(t.Digits) != b || len(t.Overlap) != ipow(b, K) || len(t.Blocks) != K+1 ||
-		len(t.Gaps) != t.Spec.classes() || t.N < 0 || t.Offset < 0
-	for k := 2; k <= K && !bad; k++ {
-		want := 0
-		if t.HasBlocks(k) {
-			want = ipow(b, k)
-		}
-		bad = len(t.Blocks[k]) != want
-	}
-	for _, g := range t.Gaps {
-		bad = bad || len(g.Hist) != t.gapCap()+1
-	}
-	keep := int64(t.span() - 1)
-	bad = bad || int64(len(t.Head)) != min(t.N, keep) || int64(len(t.Tail)) != min(t.N, keep)
-	if (t.PokerHand > 0) != (t.Poker != nil) || (t.Lags > 0) != (t.LagProd != nil) {
-		bad = true
-	}
-	if bad {
-		return fmt.Errorf("tally: the tables do not match the spec (damaged shard)")
-	}
-	return nil
-}
