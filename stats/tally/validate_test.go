@@ -75,7 +75,7 @@ func TestDamagedShardsRefused(t *testing.T) {
 		return tl
 	}
 	damages := map[string]func(*Tally){
-		"coupon histogram one cell longer": func(x *Tally) { x.Coupon.Hist = append(x.Coupon.Hist, 0) },
+		"coupon histogram one cell longer":  func(x *Tally) { x.Coupon.Hist = append(x.Coupon.Hist, 0) },
 		"coupon histogram one cell shorter": func(x *Tally) { x.Coupon.Hist = x.Coupon.Hist[:len(x.Coupon.Hist)-1] },
 		"poker table one cell longer":       func(x *Tally) { x.Poker = append(x.Poker, 1) },
 		"lag table one cell shorter":        func(x *Tally) { x.LagProd = x.LagProd[:1] },
