@@ -34,7 +34,7 @@ func BrownianMaxLogSF(x float64) float64 {
 }
 
 // BrownianMaxLogCDF returns ln P(sup_{0≤t≤1} |W_t| < x), from the theta
-// series (methods.md §10)
+// series of Erdős & Kac, Bull. AMS 52 (1946) 292–302
 //
 //	P(sup|W| < x) = (4/π) Σ_{k≥0} (-1)^k/(2k+1) · exp(-(2k+1)²π²/(8x²)),
 //

@@ -66,7 +66,9 @@ func NoncentralChiSquareCDF(x, df, lambda float64) float64 {
 // even λ = 0 gives a smaller CDF) and hi solves CDF(stat; df, hi) = (1-conf)/2.
 // The inversion is exact because the noncentral chi-square law is
 // stochastically increasing in λ. borel uses it to put an interval on the
-// entropy deficit through G = 2n·(deficit in nats) (methods.md §12).
+// entropy deficit through G = 2n·(deficit in nats) (the G statistic is
+// twice n times the Kullback–Leibler divergence of the observed frequencies
+// from the null's: Kullback, Information Theory and Statistics, 1959, ch. 6).
 func NoncentralityInterval(stat, df, conf float64) (lo, hi float64) {
 	if !(conf > 0 && conf < 1) {
 		panic("stats: NoncentralityInterval needs 0 < conf < 1")

@@ -17,8 +17,8 @@ const maxRunStates = 256
 // P(L ≥ m) and the rest P(L < m), both sums of positive terms, so neither
 // tail is formed as 1 minus the other. T^n is taken by repeated squaring
 // (O(S³ log n) for S states). Under the uniform law the digit is irrelevant
-// and the chain has m states. References: methods.md §9; Schilling, College
-// Math. J. 21 (1990) 196–207.
+// and the chain has m states. References: Schilling, College Math. J. 21
+// (1990) 196–207.
 //
 // When a tail underflows, or the chain would exceed maxRunStates, it falls
 // back on the Poisson approximation (Erdős & Rényi 1970; Gordon, Schilling &
@@ -52,7 +52,8 @@ func LongestRunLogTails(n int64, p []float64, class int, l int64) (upper, lower 
 }
 
 // runPoissonLogLambda returns ln λ, λ = n Σ_j (1-p_j) p_j^m: the Poisson
-// mean number of runs of length m (methods.md §9), by log-sum-exp.
+// mean number of runs of length m (Erdős & Rényi 1970; Gordon, Schilling &
+// Waterman 1986), by log-sum-exp.
 func runPoissonLogLambda(n int64, p []float64, class int, m int64) float64 {
 	top := math.Inf(-1)
 	var terms []float64

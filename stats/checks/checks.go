@@ -59,7 +59,8 @@ func ParamNames(p map[string]int) []string {
 
 // RandomizedP returns the randomized upper-tail p-value
 // P(T > t) + u·P(T = t) of a finding, u uniform on [0, 1): uniform under the
-// null even for a discrete statistic (methods.md §13). Both tails give
+// null even for a discrete statistic (the randomized test of Tocher,
+// Biometrika 37 (1950) 130–144, citation from memory). Both tails give
 // P(T = t) = P(T ≥ t) + P(T ≤ t) - 1; for a continuous statistic it is the
 // upper-tail p-value. The pair carries ln p and ln(1 - p).
 func RandomizedP(f Finding, u float64) stats.LogPPair {

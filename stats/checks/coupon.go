@@ -20,7 +20,8 @@ import (
 // global multiples of 65 536 digits so that shards tally independently (one
 // partial segment lost per restart, like the trailing one). Under a fitted
 // null the df are not reduced (Chernoff–Lehmann bounds, as for poker).
-// References: Knuth, TAOCP vol. 2 §3.3.2 E; methods.md §6.
+// References: Knuth, TAOCP vol. 2 §3.3.2 E; Flajolet, Gardy & Thimonier,
+// Discrete Appl. Math. 39 (1992) 207–229 (unequal probabilities).
 type couponCheck struct{}
 
 var _ Check = couponCheck{}

@@ -19,7 +19,8 @@ import (
 // from the walk's convex hulls otherwise. A small M (a walk held too close
 // to its mean) is a fit that is too good. The iterated-logarithm envelope
 // √(2n ln ln n) is shown in the detail as a description only: at a fixed n
-// it is not a test (methods.md §10). Validity: n ≥ 100 (common practice).
+// it is not a test: the iterated logarithm is an almost-sure limit
+// (Khinchin, Fund. Math. 6 (1924) 9–20). Validity: n ≥ 100 (common practice).
 type driftCheck struct{}
 
 var _ Check = driftCheck{}

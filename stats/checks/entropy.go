@@ -51,8 +51,9 @@ type EntropyProfile struct {
 //   - H_1: Miller–Madow Ĥ_1; its interval is the union of the delta-method
 //     interval Ĥ_1 ± z·√((Σ f ln² f - Ĥ_1²)/n) (Basharin 1959; right away from
 //     uniform frequencies, where it collapses) and the inversion of
-//     G = 2n(ln b - Ĥ_1) ~ χ'²(b-1, 2n(ln b - H_1)) (right near them;
-//     methods.md §12), capped at ln b.
+//     G = 2n(ln b - Ĥ_1) ~ χ'²(b-1, 2n(ln b - H_1)) (right near them: the
+//     usual noncentral approximation of a likelihood-ratio statistic under
+//     local alternatives, common practice), capped at ln b.
 //   - I_{k-1}: the fitted Markov likelihood ratio G = 2n(Ĥ_1 - ĥ_{k-1}), with
 //     (S^(k-1) - 1)(S - 1) df (Anderson & Goodman 1957; S = digits seen),
 //     divided by the Williams-type factor q = 1 + Σ_c (Σ_j 1/f_j - 1)/(6 N_c df)

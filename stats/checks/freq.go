@@ -15,7 +15,7 @@ import (
 // both χ² with S-1 df under the null (S = digits of positive probability).
 // G's p-value uses Williams' correction G/q with
 // q = 1 + (Σ_j 1/p_j - 1)/(6n(S-1)) (Williams, Biometrika 63 (1976) 33–37;
-// general-p form from methods.md §1). Under the uniform null X² is formed from
+// general-p form derived in docs/derivations.md). Under the uniform null X² is formed from
 // the exact integers b·N_j - n. Order is ignored: a sorted sequence passes;
 // the block and serial checks see order. Under a fitted null the frequencies
 // are the estimate, so there is nothing to test. Validity: every E_j ≥ 5
@@ -73,7 +73,8 @@ func (freqCheck) Run(in Input, out *Result) {
 
 // uniformX2 returns Σ_w (b^k N_w - m)² / (b^k m) for counts over cells = b^k
 // cells, forming each difference exactly in integers when it cannot overflow
-// (methods.md §15: avoids cancellation at n ~ 10^12).
+// (common practice: the difference of two large floats loses the digits
+// that matter at n ~ 10^12).
 func uniformX2(counts []int64, m int64) float64 {
 	cells := int64(len(counts))
 	exact := m < math.MaxInt64/4/cells

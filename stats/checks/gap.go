@@ -20,7 +20,7 @@ import (
 // number of gaps, stricter than Knuth's tail-only rule. The b tests are
 // dependent (they share the digits) and the sample size is G, not n.
 // References: Knuth, TAOCP vol. 2 §3.3.2 C; Kendall & Babington Smith,
-// JRSS 101 (1938) 147–166; methods.md §4.
+// JRSS 101 (1938) 147–166.
 type gapCheck struct{}
 
 var _ Check = gapCheck{}

@@ -17,7 +17,8 @@ import (
 // values (relabelling the digits changes it); the serial check is label-free.
 // Under a fitted null μ and σ come from the data. Validity: n - h ≥ 100
 // (common practice). References: Knuth, TAOCP vol. 2 §3.3.2 K (the
-// unknown-moment form); methods.md §8.
+// unknown-moment form); Box & Pierce, JASA 65 (1970) 1509–1526 (the sum of
+// squared lag statistics).
 type lagcorrCheck struct{}
 
 var _ Check = lagcorrCheck{}

@@ -14,8 +14,10 @@ import (
 // run shorter than chance allows is a fit that is too good (constructed
 // sequences avoid long runs). The second level uses randomized p-values.
 // Checks: π's first 10^6 decimals have a longest run of 7 ("3333333" at
-// decimal 710 100; P(L ≥ 7) ≈ 0.59). References: methods.md §9; Schilling,
-// College Math. J. 21 (1990) 196–207.
+// decimal 710 100, also stated in M. E. Lines, A Number for Your Thoughts,
+// 1986, ch. 18; P(L ≥ 7) ≈ 0.59). References: Erdős & Rényi, J. Analyse
+// Math. 23 (1970) 103–111; Gordon, Schilling & Waterman, Probab. Theory Rel.
+// Fields 72 (1986) 279–287; Schilling, College Math. J. 21 (1990) 196–207.
 type maxrunCheck struct{}
 
 var _ Check = maxrunCheck{}

@@ -18,7 +18,8 @@ import (
 // null p̂ comes from the same digits and the law lies between χ² with
 // classes - 1 - (b-1) and classes - 1 df (Chernoff & Lehmann 1954); borel
 // reports classes - 1 and says so.
-// References: Knuth, TAOCP vol. 2 §3.3.2 D; methods.md §5.
+// References: Knuth, TAOCP vol. 2 §3.3.2 D (and its exercises for the
+// Stirling-number law).
 type pokerCheck struct{}
 
 var _ Check = pokerCheck{}

@@ -20,11 +20,14 @@ import (
 // reported for k = 2..K. (∇ψ²_1 = ψ²_1 is the freq check's X² on the same
 // counts and is not reported twice.) Under a fitted null ψ²_1 = 0 and
 // ∇ψ²_k has (S^(k-1) - 1)(S - 1) df (the Markov-order likelihood-ratio
-// parameter count, methods.md §11); ∇²ψ²_2 then equals ∇ψ²_2 and is skipped.
+// parameter count of Anderson & Goodman, Ann. Math. Statist. 28 (1957)
+// 89–110); ∇²ψ²_2 then equals ∇ψ²_2 and is skipped.
 // ∇ψ²_k is asymptotically the likelihood ratio of an order-(k-1) Markov chain
 // against i.i.d. digits (Anderson & Goodman 1957). Validity: n·min_w p(w) ≥ 5
-// at the top order (working rule, methods.md §3).
-// References: Good, Proc. Camb. Phil. Soc. 49 (1953) 276–284; methods.md §3.
+// at the top order (a working rule by analogy with the chi-square test,
+// common practice).
+// References: Good, Proc. Camb. Phil. Soc. 49 (1953) 276–284; Good, Ann.
+// Math. Statist. 28 (1957) 262–264.
 type serialCheck struct{}
 
 var _ Check = serialCheck{}

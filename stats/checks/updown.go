@@ -16,10 +16,11 @@ import (
 // Both tails deviate: too few runs (long monotone stretches) and too many
 // (alternation). The test is rank-based, so the same law holds under every
 // null provided ties are negligible: the expected number of ties,
-// (m-1)(Σ_j p_j²)^L, must be ≪ 1 (methods.md §7); L is chosen as large as a
+// (m-1)(Σ_j p_j²)^L, must be ≪ 1 (Knuth, TAOCP vol. 2 §3.3.2 G, on ties in
+// runs tests); L is chosen as large as a
 // 64-bit value allows, and any tie seen is reported.
 // References: Levene & Wolfowitz, Ann. Math. Statist. 15 (1944) 58–69;
-// methods.md §7.
+// Knuth, TAOCP vol. 2 §3.3.2 G.
 type updownCheck struct{}
 
 var _ Check = updownCheck{}

@@ -182,7 +182,7 @@ func lowerOrders(top []int64, K, b int) [][]int64 {
 
 // Cyclic returns the overlapping k-block counts of the cyclic sequence
 // (d_1..d_n followed by d_1..d_{k-1}), for 1 ≤ k ≤ K: exactly n windows,
-// with consistent marginals Σ_a N_{wa} = Σ_a N_{aw} = N_w (methods.md §0).
+// with consistent marginals Σ_a N_{wa} = Σ_a N_{aw} = N_w (docs/derivations.md).
 // The order-K table adds the K-1 wrap-around windows to the inside counts;
 // lower orders follow by summing out the last digit. It needs N ≥ K-1, and
 // the stretch must be the whole sequence (a shard has no wrap-around).
