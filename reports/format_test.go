@@ -9,7 +9,7 @@ import (
 	"borel/stats/checks"
 )
 
-// Printing rules (methods.md §15): 4 significant digits; below 1e-10 the
+// Printing rules (ours): 4 significant digits; below 1e-10 the
 // log10; never 0 for a probability that is only small.
 func TestFormatP(t *testing.T) {
 	cases := []struct {
@@ -19,7 +19,7 @@ func TestFormatP(t *testing.T) {
 		{math.Log(0.78790123), "0.7879"},
 		{math.Log(1.2345678e-5), "1.235e-05"},
 		{math.Log(2e-10), "2e-10"},
-		{-36225.509012653212, "10^-15732.54"}, // Champernowne, methods.md §16
+		{-36225.509012653212, "10^-15732.54"}, // Champernowne
 		{-1e5, "10^-43429.45"},
 		{0, "1"},
 		{math.Inf(-1), "0 (exact)"},

@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-// Benjamini & Hochberg (1995) §4 example, p-values as given in methods.md §14
+// Benjamini & Hochberg (1995) §4 example, p-values as printed there
 // [values from memory of the paper]; adjusted values as printed there and
 // cross-checked with R's p.adjust conventions.
 var bhExample = []float64{.0001, .0004, .0019, .0095, .0201, .0278, .0298, .0344, .0459, .3240, .4262, .5719, .6528, .7590, 1.000}
@@ -33,7 +33,7 @@ func TestHolmExample(t *testing.T) {
 		}
 	}
 	if rejected != 3 {
-		t.Errorf("Holm rejects %d at 0.05, want 3 (methods.md §14)", rejected)
+		t.Errorf("Holm rejects %d at 0.05, want 3 (Benjamini & Hochberg 1995, §4)", rejected)
 	}
 }
 
@@ -52,7 +52,7 @@ func TestBHExample(t *testing.T) {
 		}
 	}
 	if rejected != 4 {
-		t.Errorf("BH rejects %d at 0.05, want 4 (methods.md §14)", rejected)
+		t.Errorf("BH rejects %d at 0.05, want 4 (Benjamini & Hochberg 1995, §4)", rejected)
 	}
 }
 

