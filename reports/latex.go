@@ -40,31 +40,10 @@ var texRunes = map[rune]string{
 	'ψ': `$\psi$`, '∇': `$\nabla$`, 'π': `$\pi$`, 'χ': `$\chi$`, 'α': `$\alpha$`,
 }
 
-// texStatistic writes a statistic's name in math mode.
+// texStatistic writes a statistic's name in math mode (statisticNames).
 func texStatistic(id string) string {
-	switch id {
-	case "X2":
-		return `$X^2$`
-	case "G":
-		return `$G$`
-	case "dpsi2":
-		return `$\nabla\psi^2$`
-	case "d2psi2":
-		return `$\nabla^2\psi^2$`
-	case "z":
-		return `$z$`
-	case "Q":
-		return `$Q$`
-	case "run_any":
-		return `$L$ (any digit)`
-	case "run_digit":
-		return `$L$`
-	case "M":
-		return `$\max|S|/\sqrt{n}$`
-	case "KS":
-		return `$D$ (KS)`
-	case "AD":
-		return `$A^2$ (AD)`
+	if n, ok := statisticNames[id]; ok {
+		return n.tex
 	}
 	return texEscape(id)
 }
