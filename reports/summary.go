@@ -13,22 +13,19 @@ import (
 )
 
 // summaryRows returns one row per sequence and base: the verdict, the
-// smallest adjusted p-value and the finding that gave it (ties, as adjusted
-// p-values cap at 1, go to the smallest raw p), the entropy deficit and the
+// smallest adjusted p-value and the finding that gave it (audit's Decisive),
+// the entropy deficit and the
 // dimension estimate with its interval.
 func summaryRows(doc Document) (header []string, rows [][]string) {
 	header = []string{"sequence", "base", "digits", "verdict", "smallest adjusted p", "from", "deficit", "dimension", "interval"}
 	for _, r := range doc.Results {
-		worst, worstRaw, label := 0.0, 0.0, "–"
-		for _, f := range r.Findings {
-			lp, raw, tail := f.LogAdjUpper, f.LogPUpper, "upper"
-			if f.LogAdjLower < lp || (f.LogAdjLower == lp && f.LogPLower < raw) {
-				lp, raw, tail = f.LogAdjLower, f.LogPLower, "lower"
+		worst, label := 0.0, "–"
+		if d := r.Decisive(); d.Index >= 0 {
+			tail := "upper"
+			if d.Lower {
+				tail = "lower"
 			}
-			if label == "–" || lp < worst || (lp == worst && raw < worstRaw) {
-				worst, worstRaw = lp, raw
-				label = findingLabel(f.Finding) + " (" + tail + ")"
-			}
+			worst, label = d.LogAdj, findingLabel(r.Findings[d.Index].Finding)+" ("+tail+")"
 		}
 		deficit, dim, interval := "–", "–", "–"
 		if e := r.Entropy; e != nil && len(e.Rows) > 0 {

@@ -674,3 +674,30 @@ func (p *Plan) startSegments() error {
 	p.seg = seg
 	return err
 }
+
+// Decisive is the finding a result's verdict rests on: the one with the
+// smallest adjusted p-value in either tail. Ties (adjusted p-values cap at
+// 1, and Holm's step-down makes neighbours equal) go to the smaller raw
+// p-value, then to the earlier finding; within a finding the lower tail
+// wins a tie only with a smaller raw p.
+type Decisive struct {
+	Index  int     // into Result.Findings; −1 when there are none
+	Lower  bool    // the lower tail ("too uniform" side)
+	LogAdj float64 // ln of its adjusted p-value
+}
+
+// Decisive returns the finding the verdict rests on.
+func (r *Result) Decisive() Decisive {
+	d := Decisive{Index: -1}
+	var worstRaw float64
+	for i, f := range r.Findings {
+		lp, raw, lower := f.LogAdjUpper, f.LogPUpper, false
+		if f.LogAdjLower < lp || (f.LogAdjLower == lp && f.LogPLower < raw) {
+			lp, raw, lower = f.LogAdjLower, f.LogPLower, true
+		}
+		if d.Index < 0 || lp < d.LogAdj || (lp == d.LogAdj && raw < worstRaw) {
+			d, worstRaw = Decisive{Index: i, Lower: lower, LogAdj: lp}, raw
+		}
+	}
+	return d
+}

@@ -337,3 +337,32 @@ func TestConstantSequence(t *testing.T) {
 		t.Errorf("fitted: %d findings, skips %+v", len(r.Findings), r.Skips)
 	}
 }
+
+// The decisive finding: smallest adjusted p in either tail; a tie of
+// adjusted values (both capped at 1, or equal after Holm's step-down) goes
+// to the smaller raw p; the lower tail wins within a finding only when it
+// is smaller, or equal with a smaller raw p.
+func TestDecisive(t *testing.T) {
+	f := func(adjUp, rawUp, adjLo, rawLo float64) Finding {
+		var x Finding
+		x.LogAdjUpper, x.LogPUpper, x.LogAdjLower, x.LogPLower = adjUp, rawUp, adjLo, rawLo
+		return x
+	}
+	cases := []struct {
+		fs    []Finding
+		index int
+		lower bool
+	}{
+		{nil, -1, false},
+		{[]Finding{f(0, -0.1, 0, -0.5), f(0, -0.2, 0, -0.3)}, 0, true},
+		{[]Finding{f(-3, -4, 0, -0.1), f(-3, -5, 0, -0.1)}, 1, false},
+		{[]Finding{f(-2, -3, -2, -3), f(-1, -9, 0, 0)}, 0, false},
+		{[]Finding{f(0, -1, -4, -6)}, 0, true},
+	}
+	for i, c := range cases {
+		d := (&Result{Findings: c.fs}).Decisive()
+		if d.Index != c.index || (d.Index >= 0 && d.Lower != c.lower) {
+			t.Errorf("case %d: %+v, want index %d lower %v", i, d, c.index, c.lower)
+		}
+	}
+}
