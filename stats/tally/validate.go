@@ -12,7 +12,7 @@ const (
 	maxLags       = 1 << 10
 	maxCouponCap  = 1 << 20
 	maxUpDown     = 64
-	maxCouponStep = 1 << 40
+	maxCouponStep = 1<<31 - 1
 	maxPosition   = 1 << 62
 )
 
