@@ -104,9 +104,17 @@ func TestShardErrors(t *testing.T) {
 	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "truncated") {
 		t.Errorf("truncated: exit %d %s", code, errs)
 	}
-	os.WriteFile(bad, bytes.Replace(data, []byte("borel-tally 1 "), []byte("borel-tally 9 "), 1), 0o644)
+	os.WriteFile(bad, bytes.Replace(data, []byte("borel-tally 2 "), []byte("borel-tally 9 "), 1), 0o644)
 	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "newer borel") {
 		t.Errorf("future version: exit %d %s", code, errs)
+	}
+	// A shard of format 1, written by borel 0.1.0 before the records (the
+	// first 2000 digits of a test input, --max-block 2), is refused with
+	// what wrote it and what to do.
+	if code, _, errs := runBorel(t, nil, "merge", "tests/testdata/format1.shard"); code != 1 ||
+		!strings.Contains(string(errs), "format 1 was written by borel 0.1.0 before its tallies were split into records") ||
+		!strings.Contains(string(errs), "tally that stretch again") || strings.Count(string(errs), "\n") != 1 {
+		t.Errorf("format 1 shard: exit %d %s", code, errs)
 	}
 	if code, _, errs := runBorel(t, digits, "tally", "-", "--offset", "0", "-o", bad); code != 2 || !strings.Contains(string(errs), "--max-block K, the same for every shard") {
 		t.Errorf("tally without --max-block: exit %d %s", code, errs)

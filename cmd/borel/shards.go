@@ -92,7 +92,7 @@ func runTally(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	sh := &tally.Shard{Null: tally.ShardNull{Kind: opts.Null.Kind.String(), P: opts.Null.P},
+	sh := &tally.Shard{Writer: "borel " + version, Null: tally.ShardNull{Kind: opts.Null.Kind.String(), P: opts.Null.P},
 		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: src.SHA256},
 		Tally:  t}
 	var buf bytes.Buffer

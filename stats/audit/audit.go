@@ -161,66 +161,34 @@ func validBlock(n float64, minP, minExpected float64) int {
 	return k
 }
 
-// batterySpec fixes the parameters of every check but the block length:
-// poker hands of 5 digits (4 below base 5); up/down values of as many digits
-// as a 63-bit integer holds, so ties are negligible; serial correlation at
-// lags 1..5; longest runs of identical digits and of digit b-1; the walk's
-// hulls unless the null is uniform; coupon classes (the digits up to base 16,
-// else 16 classes of consecutive digits) with lengths pooled from 8 times
-// the expected segment length.
+// batterySpec collects what the selected checks need (checks.Check.Needs):
+// their records with their parameters, in the checks' order; the block
+// length is planned afterwards.
 func batterySpec(base int, opts Options) tally.Spec {
-	null := opts.Null
-	s := tally.Spec{Base: base, GapClass: gapClasses(base), PokerHand: 5, Lags: 5, RunDigit: base - 1,
-		UpDownDigits: int(63 / math.Log2(float64(base))), WalkHull: null.Kind != checks.Uniform}
-	if base < 5 {
-		s.PokerHand = 4
-	}
-	d := min(base, 16)
-	s.CouponClasses = d
-	s.CouponClass = make([]int, base)
-	q := make([]float64, d)
-	for j := range s.CouponClass {
-		s.CouponClass[j] = j * d / base
-		if null.Kind == checks.Vector {
-			q[s.CouponClass[j]] += null.P[j]
-		} else {
-			q[s.CouponClass[j]] += 1 / float64(base)
+	set := checks.Setting{Base: base, Null: opts.Null.Kind, P: opts.Null.P}
+	s := tally.Spec{Base: base}
+	for _, c := range checks.All() {
+		if opts.selected(c.Name()) {
+			for _, r := range c.Needs(set).Records {
+				s = s.With(r)
+			}
 		}
 	}
-	minQ, harmonic := 1.0, 0.0
-	for i, v := range q {
-		minQ = math.Min(minQ, v)
-		harmonic += 1 / float64(i+1)
-	}
-	s.CouponCap = min(4096, max(d+1, int(math.Ceil(8*harmonic/minQ))))
-	// Switch off the loops of checks that are not run.
-	if !opts.selected("poker") {
-		s.PokerHand = 0
-	}
-	if !opts.selected("updown") {
-		s.UpDownDigits = 0
-	}
-	if !opts.selected("lagcorr") {
-		s.Lags = 0
-	}
-	if !opts.selected("coupon") {
-		s.CouponClasses, s.CouponClass, s.CouponCap = 0, nil, 0
-	}
-	s.SkipGaps = !opts.selected("gap")
-	s.SkipRuns = !opts.selected("maxrun")
-	s.SkipWalk = !opts.selected("drift") && !opts.selected("lagcorr")
 	return s
 }
 
-func gapClasses(base int) []int {
-	if base <= seq.MaxTextBase {
-		return nil
+// needs reports whether a selected check reads the windows, and whether
+// one reads the aligned blocks.
+func needs(base int, opts Options) (windows, blocks bool) {
+	set := checks.Setting{Base: base, Null: opts.Null.Kind, P: opts.Null.P}
+	for _, c := range checks.All() {
+		if opts.selected(c.Name()) {
+			n := c.Needs(set)
+			windows = windows || n.Windows
+			blocks = blocks || n.Blocks
+		}
 	}
-	classes := make([]int, base)
-	for d := range classes {
-		classes[d] = d * 16 / base
-	}
-	return classes
+	return windows, blocks
 }
 
 func mib(bytes float64) string { return fmt.Sprintf("%.0f MiB", math.Ceil(bytes/(1<<20))) }
@@ -270,7 +238,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 		}
 	}
 	k = max(1, min(k, budgetK))
-	if !opts.selected("blocks") && !opts.selected("serial") && !opts.selected("entropy") {
+	if windows, _ := needs(base, opts); !windows {
 		k = 1 // no selected check looks at blocks
 	}
 	p.Spec.MaxBlock = k
@@ -286,7 +254,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 // 0 (count every k ≤ K) when the length is unknown; 1 (none) when the
 // blocks check is not among the selected checks (--checks).
 func countedBlocks(K, base int, sizeHint int64, opts Options) int {
-	if !opts.selected("blocks") {
+	if _, blocks := needs(base, opts); !blocks {
 		return 1
 	}
 	if sizeHint < 0 {
@@ -509,10 +477,9 @@ func runChecks(in checks.Input, opts Options) checks.Result {
 // Finish runs the checks on a finished tally of the whole sequence and
 // returns the audit result.
 func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
-	t.Settle()
 	opts := p.opts
 	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment,
-		Segments: opts.Segments, Seed: opts.Seed, DigitCounts: t.Digits, Trace: t.Trace}
+		Segments: opts.Segments, Seed: opts.Seed, DigitCounts: t.DigitCounts(), Trace: t.Trace()}
 	switch opts.Null.Kind {
 	case checks.Vector:
 		null, err := checks.VectorNull(opts.Null.P, t.Base)
@@ -521,7 +488,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		}
 		res.Null = null
 	case checks.Fitted:
-		res.Null = checks.FittedNull(t.Digits)
+		res.Null = checks.FittedNull(t.DigitCounts())
 	default:
 		res.Null = checks.UniformNull(t.Base)
 	}

@@ -87,16 +87,14 @@ func (s *segmenter) Segments() ([]*tally.Tally, error) {
 }
 
 // segmentSpec is the tally of one segment: the battery's parameters with
-// blocks up to 2 (1 above base 36), minimal gap tables and no coupon
-// segments, which the second level does not use.
+// blocks up to 2 (1 above base 36), and no gap or coupon records, whose
+// checks the second level does not run.
 func segmentSpec(full tally.Spec) tally.Spec {
-	s := full
+	s := full.Without("gaps").Without("coupon")
 	s.MaxBlock = 2
 	if s.Base > 36 {
 		s.MaxBlock = 1
 	}
-	s.GapCap = 1
-	s.CouponClasses, s.CouponClass, s.CouponCap = 0, nil, 0
 	return s
 }
 

@@ -136,7 +136,8 @@ func TestRunsUpDownMoments(t *testing.T) {
 // well known).
 func TestBatteryOnPi(t *testing.T) {
 	d := readPi(t)
-	spec := tally.Spec{Base: 10, MaxBlock: 2, PokerHand: 5, UpDownDigits: 18, Lags: 3, RunDigit: 9}
+	spec := tally.Spec{Base: 10, MaxBlock: 2, Records: []tally.RecordSpec{&tally.HandSpec{Size: 5},
+		&tally.UpDownSpec{Digits: 18}, &tally.LagSpec{Max: 3}, &tally.RunSpec{Digit: 9}}}
 	tl, err := tally.New(spec, 0)
 	if err != nil {
 		t.Fatal(err)

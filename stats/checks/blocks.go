@@ -23,6 +23,9 @@ var _ Check = blocksCheck{}
 
 func (blocksCheck) Name() string { return "blocks" }
 
+// Needs: the aligned non-overlapping blocks.
+func (blocksCheck) Needs(Setting) Needs { return Needs{Windows: true, Blocks: true} }
+
 func (blocksCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	S := float64(in.Null.Symbols())
@@ -34,7 +37,7 @@ func (blocksCheck) Run(in Input, out *Result) {
 	}
 	for k := 2; k <= in.MaxBlock(); k++ {
 		params := map[string]int{"k": k}
-		counts := t.Blocks[k]
+		counts := t.BlockCounts(k)
 		var m int64
 		for _, c := range counts {
 			m += c

@@ -113,10 +113,32 @@ type Options struct {
 // DefaultOptions returns MinExpected 5 and Confidence 0.99.
 func DefaultOptions() Options { return Options{MinExpected: 5, Confidence: 0.99} }
 
-// Check is one statistical test.
+// Check is one statistical test: it names itself, declares what it reads
+// from the tally, and runs on a finished tally.
 type Check interface {
 	Name() string
+	Needs(s Setting) Needs
 	Run(in Input, out *Result)
+}
+
+// Setting is what a check's records may depend on before the data are
+// seen: the base and the null as the user gave it (P only for a stated
+// vector).
+type Setting struct {
+	Base int
+	Null NullKind
+	P    []float64
+}
+
+// Needs is what a check reads from the tally besides the digit counts,
+// which every tally has: the overlapping windows up to the planned block
+// length (and their cyclic tables), the aligned blocks, and optional
+// records with their parameters. The audit's plan collects the needs of
+// the checks it runs; a record no check needs is not tallied.
+type Needs struct {
+	Windows bool
+	Blocks  bool
+	Records []tally.RecordSpec
 }
 
 // All returns the checks of the audit, in report order.

@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 	"math/bits"
@@ -27,6 +28,30 @@ type couponCheck struct{}
 var _ Check = couponCheck{}
 
 func (couponCheck) Name() string { return "coupon" }
+
+// Needs: coupon classes — the digits up to base 16, else 16 classes of
+// consecutive digits — with segment lengths pooled from 8 times the
+// expected segment length (at most 4096).
+func (couponCheck) Needs(s Setting) Needs {
+	d := min(s.Base, 16)
+	c := &tally.CouponSpec{Classes: d, Class: make([]int, s.Base)}
+	q := make([]float64, d)
+	for j := range c.Class {
+		c.Class[j] = j * d / s.Base
+		if s.Null == Vector {
+			q[c.Class[j]] += s.P[j]
+		} else {
+			q[c.Class[j]] += 1 / float64(s.Base)
+		}
+	}
+	minQ, harmonic := 1.0, 0.0
+	for i, v := range q {
+		minQ = math.Min(minQ, v)
+		harmonic += 1 / float64(i+1)
+	}
+	c.Cap = min(4096, max(d+1, int(math.Ceil(8*harmonic/minQ))))
+	return Needs{Records: []tally.RecordSpec{c}}
+}
 
 // CouponCDF returns P(T ≤ r) for r = 0..maxR, for classes with
 // probabilities q (d ≤ 20).
@@ -87,12 +112,12 @@ func CouponCDF(q []float64, maxR int) []float64 {
 }
 
 func (couponCheck) Run(in Input, out *Result) {
-	t := in.Tally
-	d := t.CouponClasses
+	rec := in.Tally.Coupons()
+	d := rec.Classes
 	params := map[string]int{"classes": d}
 	q := make([]float64, d)
 	for j, p := range in.Null.P {
-		q[t.CouponClass[j]] += p
+		q[rec.Class[j]] += p
 	}
 	for _, v := range q {
 		if v <= 0 { // a class the data never showed (fitted null): segments never end
@@ -101,7 +126,7 @@ func (couponCheck) Run(in Input, out *Result) {
 			return
 		}
 	}
-	hist := t.Coupon.Hist
+	hist := rec.Hist
 	capIdx := len(hist) - 1
 	var segs int64
 	for _, c := range hist {

@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 
@@ -27,6 +28,12 @@ var _ Check = driftCheck{}
 
 func (driftCheck) Name() string { return "drift" }
 
+// Needs: the walk, with its hulls unless the null is uniform (the drift
+// against an estimated or stated mean needs them).
+func (driftCheck) Needs(s Setting) Needs {
+	return Needs{Records: []tally.RecordSpec{&tally.WalkSpec{Hull: s.Null != Uniform}}}
+}
+
 func (driftCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	n := float64(t.N)
@@ -41,14 +48,15 @@ func (driftCheck) Run(in Input, out *Result) {
 	}
 	sigma := math.Sqrt(m2 - mu*mu)
 	var excursion float64 // max_k |T_k - kμ|
-	if !t.WalkHull {
-		excursion = float64(max(t.Walk.UMax, -t.Walk.UMin)) / 2
+	w := t.Walk()
+	if !w.Hull {
+		excursion = float64(max(w.UMax, -w.UMin)) / 2
 	} else {
 		hi, lo := math.Inf(-1), math.Inf(1)
-		for _, p := range t.Walk.Upper {
+		for _, p := range w.Upper {
 			hi = math.Max(hi, float64(p.T)-float64(p.K)*mu)
 		}
-		for _, p := range t.Walk.Lower {
+		for _, p := range w.Lower {
 			lo = math.Min(lo, float64(p.T)-float64(p.K)*mu)
 		}
 		excursion = math.Max(hi, -lo)

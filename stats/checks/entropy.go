@@ -74,6 +74,9 @@ var _ Check = entropyCheck{}
 
 func (entropyCheck) Name() string { return "entropy" }
 
+// Needs: the overlapping windows (their cyclic tables).
+func (entropyCheck) Needs(Setting) Needs { return Needs{Windows: true} }
+
 func (entropyCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	n := float64(t.N)
@@ -84,16 +87,16 @@ func (entropyCheck) Run(in Input, out *Result) {
 	prof := &EntropyProfile{Confidence: conf,
 		NullDimension: stats.BesicovitchEgglestonDimension(in.Null.P, b)}
 
-	h1, h1Lo, h1Hi := digitEntropyInterval(t.Digits, b, partConf)
+	h1, h1Lo, h1Hi := digitEntropyInterval(t.DigitCounts(), b, partConf)
 	freq := make([]float64, b)
 	seen := 0
-	for j, c := range t.Digits {
+	for j, c := range t.DigitCounts() {
 		freq[j] = float64(c) / n
 		if c > 0 {
 			seen++
 		}
 	}
-	plugIn1, _, _ := stats.PlugInEntropy(t.Digits)
+	plugIn1, _, _ := stats.PlugInEntropy(t.DigitCounts())
 	prev := 0.0
 	for k := 1; k <= in.MaxBlock(); k++ {
 		hk, total, occupied := stats.PlugInEntropy(in.Cyclic[k])

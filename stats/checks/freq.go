@@ -28,6 +28,9 @@ var _ Check = freqCheck{}
 
 func (freqCheck) Name() string { return "freq" }
 
+// Needs: the digit counts only, which every tally has.
+func (freqCheck) Needs(Setting) Needs { return Needs{} }
+
 func (freqCheck) Run(in Input, out *Result) {
 	params := map[string]int{"k": 1}
 	if in.Null.Kind == Fitted {
@@ -38,11 +41,11 @@ func (freqCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	n := float64(t.N)
 	cs := newCellStat()
-	for j, c := range t.Digits {
+	for j, c := range t.DigitCounts() {
 		cs.add(c, n*in.Null.P[j])
 	}
 	if in.Null.IsUniform() {
-		cs.x2 = uniformX2(t.Digits, t.N)
+		cs.x2 = uniformX2(t.DigitCounts(), t.N)
 	}
 	df := float64(in.Null.Symbols() - 1)
 	x2 := chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp)

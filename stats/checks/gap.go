@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 )
@@ -27,19 +28,33 @@ var _ Check = gapCheck{}
 
 func (gapCheck) Name() string { return "gap" }
 
+// Needs: the gap histograms, one class per digit in the text bases; above
+// them (raw bytes) 16 classes of consecutive digits, so that each class
+// keeps enough gaps.
+func (gapCheck) Needs(s Setting) Needs {
+	g := &tally.GapSpec{}
+	if s.Base > 36 {
+		g.Class = make([]int, s.Base)
+		for d := range g.Class {
+			g.Class[d] = d * 16 / s.Base
+		}
+	}
+	return Needs{Records: []tally.RecordSpec{g}}
+}
+
 func (gapCheck) Run(in Input, out *Result) {
-	t := in.Tally
-	classes := len(t.Gaps)
+	rec := in.Tally.Gaps()
+	classes := len(rec.Classes)
 	q := make([]float64, classes)
 	for d, p := range in.Null.P {
 		c := d
-		if t.GapClass != nil {
-			c = t.GapClass[d]
+		if rec.Class != nil {
+			c = rec.Class[d]
 		}
 		q[c] += p
 	}
 	paramName := "digit"
-	if t.GapClass != nil {
+	if rec.Class != nil {
 		paramName = "class"
 	}
 	minDF := 1
@@ -48,7 +63,7 @@ func (gapCheck) Run(in Input, out *Result) {
 	}
 	for c := range classes {
 		params := map[string]int{paramName: c}
-		hist := t.Gaps[c].Hist
+		hist := rec.Classes[c].Hist
 		capIdx := len(hist) - 1
 		var gaps int64
 		for _, h := range hist {

@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 )
@@ -25,9 +26,16 @@ var _ Check = lagcorrCheck{}
 
 func (lagcorrCheck) Name() string { return "lagcorr" }
 
+// Needs: the lag products at lags 1..5 (the digit sum comes from the
+// digit counts).
+func (lagcorrCheck) Needs(Setting) Needs {
+	return Needs{Records: []tally.RecordSpec{&tally.LagSpec{Max: 5}}}
+}
+
 func (lagcorrCheck) Run(in Input, out *Result) {
 	t := in.Tally
-	H := t.Lags
+	lags := t.Lags()
+	H := lags.Max
 	n := t.N
 	if n-int64(H) < 100 {
 		out.Skips = append(out.Skips, Skip{Check: "lagcorr", Params: map[string]int{"lags": H},
@@ -40,7 +48,10 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 		m2 += float64(j*j) * p
 	}
 	sigma2 := m2 - mu*mu
-	sum := t.Walk.Sum
+	var sum int64 // Σ x_i
+	for j, c := range t.DigitCounts() {
+		sum += int64(j) * c
+	}
 	uniform := in.Null.IsUniform()
 	b1 := int64(t.Base - 1)
 	Q := 0.0
@@ -54,9 +65,9 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 		pairs := float64(n - int64(h))
 		var num float64
 		if uniform { // 4Σ(x_i-μ)(x_{i+h}-μ) with 2μ = b-1, exactly
-			num = float64(4*t.LagProd[h]-2*b1*(a+c)+(n-int64(h))*b1*b1) / 4
+			num = float64(4*lags.Products[h]-2*b1*(a+c)+(n-int64(h))*b1*b1) / 4
 		} else {
-			num = float64(t.LagProd[h]) - mu*float64(a+c) + pairs*mu*mu
+			num = float64(lags.Products[h]) - mu*float64(a+c) + pairs*mu*mu
 		}
 		r := num / (pairs * sigma2)
 		z := r * math.Sqrt(pairs)

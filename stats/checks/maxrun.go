@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 
 	"borel/stats"
@@ -24,6 +25,11 @@ var _ Check = maxrunCheck{}
 
 func (maxrunCheck) Name() string { return "maxrun" }
 
+// Needs: the longest runs of identical digits and of digit b−1.
+func (maxrunCheck) Needs(s Setting) Needs {
+	return Needs{Records: []tally.RecordSpec{&tally.RunSpec{Digit: s.Base - 1}}}
+}
+
 func (maxrunCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	add := func(stat string, params map[string]int, class int, l int64) {
@@ -35,11 +41,12 @@ func (maxrunCheck) Run(in Input, out *Result) {
 		}
 		out.Findings = append(out.Findings, f)
 	}
-	add("run_any", nil, -1, t.RunAny.Max)
-	if in.Null.P[t.RunDigit] > 0 {
-		add("run_digit", map[string]int{"digit": t.RunDigit}, t.RunDigit, t.RunDig.Max)
+	runs := t.Runs()
+	add("run_any", nil, -1, runs.Any.Max)
+	if in.Null.P[runs.Digit] > 0 {
+		add("run_digit", map[string]int{"digit": runs.Digit}, runs.Digit, runs.Dig.Max)
 	} else {
-		out.Skips = append(out.Skips, Skip{Check: "maxrun", Params: map[string]int{"digit": t.RunDigit},
-			Reason: fmt.Sprintf("digit %d has probability 0 under the null", t.RunDigit)})
+		out.Skips = append(out.Skips, Skip{Check: "maxrun", Params: map[string]int{"digit": runs.Digit},
+			Reason: fmt.Sprintf("digit %d has probability 0 under the null", runs.Digit)})
 	}
 }

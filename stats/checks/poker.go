@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 )
@@ -25,6 +26,15 @@ type pokerCheck struct{}
 var _ Check = pokerCheck{}
 
 func (pokerCheck) Name() string { return "poker" }
+
+// Needs: hands of 5 digits (4 below base 5).
+func (pokerCheck) Needs(s Setting) Needs {
+	h := 5
+	if s.Base < 5 {
+		h = 4
+	}
+	return Needs{Records: []tally.RecordSpec{&tally.HandSpec{Size: h}}}
+}
 
 // PokerProbs returns P(R = r), r = 0..h, for hands of h digits drawn from p.
 func PokerProbs(p []float64, h int) []float64 {
@@ -65,10 +75,11 @@ func PokerProbs(p []float64, h int) []float64 {
 
 func (pokerCheck) Run(in Input, out *Result) {
 	t := in.Tally
-	h := t.PokerHand
+	rec := t.Hands()
+	h := rec.Size
 	params := map[string]int{"hand": h}
 	var hands int64
-	for _, c := range t.Poker {
+	for _, c := range rec.Counts {
 		hands += c
 	}
 	probs := PokerProbs(in.Null.P, h)
@@ -76,7 +87,7 @@ func (pokerCheck) Run(in Input, out *Result) {
 	for r, pr := range probs {
 		exp[r] = float64(hands) * pr
 	}
-	x2, classes, smallest := pooledChiSquare(t.Poker[1:], exp[1:], in.Opts.MinExpected)
+	x2, classes, smallest := pooledChiSquare(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
 	if classes < 2 {
 		out.Skips = append(out.Skips, Skip{Check: "poker", Params: params,
 			Reason: fmt.Sprintf("%d hands of %d digits leave fewer than 2 classes with expected count %g or more; needs roughly %d digits",

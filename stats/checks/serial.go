@@ -34,6 +34,9 @@ var _ Check = serialCheck{}
 
 func (serialCheck) Name() string { return "serial" }
 
+// Needs: the overlapping windows (their cyclic tables).
+func (serialCheck) Needs(Setting) Needs { return Needs{Windows: true} }
+
 // Psi2 returns ψ²_k for k = 0..K from cyclic counts (index 0 is 0).
 func Psi2(cyclic [][]int64, null Null, n int64) []float64 {
 	psi := make([]float64, len(cyclic))

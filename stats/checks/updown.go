@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"borel/stats/tally"
 	"fmt"
 	"math"
 )
@@ -27,10 +28,17 @@ var _ Check = updownCheck{}
 
 func (updownCheck) Name() string { return "updown" }
 
+// Needs: values of as many digits as a 63-bit integer holds, so that ties
+// are negligible.
+func (updownCheck) Needs(s Setting) Needs {
+	return Needs{Records: []tally.RecordSpec{&tally.UpDownSpec{Digits: int(63 / math.Log2(float64(s.Base)))}}}
+}
+
 func (updownCheck) Run(in Input, out *Result) {
 	t := in.Tally
-	L := t.UpDownDigits
-	m := t.UDValues
+	ud := t.UpDown()
+	L := ud.Digits
+	m := ud.Values
 	params := map[string]int{"digits": L}
 	if m < 100 {
 		out.Skips = append(out.Skips, Skip{Check: "updown", Params: params,
@@ -38,16 +46,16 @@ func (updownCheck) Run(in Input, out *Result) {
 		return
 	}
 	mf := float64(m)
-	runs := float64(t.UDTurns + 1)
+	runs := float64(ud.Turns + 1)
 	z := (runs - (2*mf-1)/3) / math.Sqrt((16*mf-29)/90)
 	f := normalFinding("updown", "z", params, z)
-	f.Detail = fmt.Sprintf("%d runs up and down in %d values of %d digits (expected %.1f)", t.UDTurns+1, m, L, (2*mf-1)/3)
+	f.Detail = fmt.Sprintf("%d runs up and down in %d values of %d digits (expected %.1f)", ud.Turns+1, m, L, (2*mf-1)/3)
 	sq := 0.0
 	for _, p := range in.Null.P {
 		sq += p * p
 	}
-	if expTies := (mf - 1) * math.Pow(sq, float64(L)); t.UDTies > 0 || expTies > 0.01 {
-		f.Notes = append(f.Notes, fmt.Sprintf("%d ties between consecutive values (%.3g expected under the null); the run law assumes none", t.UDTies, expTies))
+	if expTies := (mf - 1) * math.Pow(sq, float64(L)); ud.Ties > 0 || expTies > 0.01 {
+		f.Notes = append(f.Notes, fmt.Sprintf("%d ties between consecutive values (%.3g expected under the null); the run law assumes none", ud.Ties, expTies))
 	}
 	out.Findings = append(out.Findings, f)
 }

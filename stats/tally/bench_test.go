@@ -15,8 +15,9 @@ import (
 // reference.
 
 func auditSpec() Spec {
-	return Spec{Base: 10, MaxBlock: 7, BlocksMax: 6, PokerHand: 5, UpDownDigits: 18, Lags: 5, RunDigit: 9,
-		CouponClasses: 10, CouponClass: []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, CouponCap: 235}
+	return Spec{Base: 10, MaxBlock: 7, BlocksMax: 6, Records: []RecordSpec{&GapSpec{}, &HandSpec{Size: 5},
+		&CouponSpec{Classes: 10, Class: []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, Cap: 235}, &UpDownSpec{Digits: 18},
+		&LagSpec{Max: 5}, &RunSpec{Digit: 9}, &WalkSpec{}}}
 }
 
 func benchChunks() [][]byte {
@@ -41,7 +42,6 @@ func BenchmarkKernels(b *testing.B) {
 			if err != nil {
 				b.Fatal(err)
 			}
-			t.prepare()
 			var run []func([]byte)
 			for _, k := range t.kernels() {
 				if k.name == name {
@@ -97,7 +97,8 @@ func BenchmarkSettle(b *testing.B) {
 	}
 	b.ResetTimer()
 	for range b.N {
-		t.Settle()
-		t.hotOverlap = make([]uint8, len(t.Overlap)) // as if the pass went on
+		t.settled = false
+		t.settle()
+		t.win.hot = make([]uint8, len(t.win.Counts)) // as if the pass went on
 	}
 }

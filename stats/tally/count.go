@@ -1,7 +1,5 @@
 package tally
 
-import "math/bits"
-
 // Counting into a byte table that is larger than the core's own caches.
 // An increment of a random cell of a 10 MB table waits on the shared
 // last-level cache or, when other programs crowd it out, on memory; the
@@ -51,62 +49,4 @@ func countBytesGo(hot []uint8, cold []int64, idx []uint32) {
 			cold[w] += 256
 		}
 	}
-}
-
-// windowBlocks reports whether the counted non-overlapping blocks are taken
-// from the overlap kernel's batches of window values instead of their own
-// kernels: the k-block (k ≤ K) that ends where a K-window ends is the
-// window's value mod b^k, which costs two multiplications instead of k
-// multiply-adds over the digits (measured 1.3 against 3.0–3.3 ns a digit for
-// k = 4, 5, 6 together). Only with batched windows, whose values stay below
-// 2^32.
-func (t *Tally) windowBlocks() bool {
-	return t.MaxBlock > 1 && len(t.Overlap) >= hotMinCells && uint64(len(t.Overlap)) <= 1<<32
-}
-
-// countedBlockLengths returns the k whose non-overlapping blocks the pass
-// counts (the others are derived at the end, hot.go).
-func (s Spec) countedBlockLengths() []int {
-	var ks []int
-	for k := 2; k <= s.blocksMax(); k++ {
-		if s.blocksSource(k) == 0 {
-			ks = append(ks, k)
-		}
-	}
-	return ks
-}
-
-// blockCounter counts the aligned k-blocks among a batch of window values.
-type blockCounter struct {
-	k    int
-	m, M uint64 // b^k and ⌊(2^64 − 1)/b^k⌋ + 1: x mod m = ⌊(M·x mod 2^64)·m / 2^64⌋ for x, m < 2^32 (Lemire, Kaser & Kurz 2019, "Faster remainder by direct computation")
-	hot  []uint8
-	cnt  []int64
-}
-
-func (t *Tally) blockCounter(k int) blockCounter {
-	m := uint64(ipow(t.Base, k))
-	return blockCounter{k: k, m: m, M: ^uint64(0)/m + 1, hot: t.hotTable(&t.hotBlocks[k], len(t.Blocks[k])), cnt: t.Blocks[k]}
-}
-
-// count counts the k-blocks that end where the windows of idx end: idx[j]
-// ends at global position g0+j, and a block ends there when g0+j+1 is a
-// multiple of k.
-func (c *blockCounter) count(idx []uint32, g0 int64) {
-	j := int((int64(c.k) - (g0+1)%int64(c.k)) % int64(c.k))
-	if c.hot == nil {
-		for ; j < len(idx); j += c.k {
-			v, _ := bits.Mul64(c.M*uint64(idx[j]), c.m)
-			c.cnt[v]++
-		}
-		return
-	}
-	var vals [windowBatch/2 + 1]uint32
-	n := 0
-	for ; j < len(idx); j += c.k {
-		v, _ := bits.Mul64(c.M*uint64(idx[j]), c.m)
-		vals[n] = uint32(v)
-		n++
-	}
-	countBytes(c.hot, c.cnt, vals[:n])
 }

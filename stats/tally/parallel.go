@@ -16,51 +16,6 @@ type kernel struct {
 	run  func(d []byte)
 }
 
-// kernels lists the pass's loops in their sequential order.
-func (t *Tally) kernels() []kernel {
-	s := t.Spec
-	big := func(cells int) float64 { // random access into a table beyond the caches
-		if cells > 1<<18 {
-			return 15
-		}
-		return 1
-	}
-	ks := []kernel{{"digits", 0.7, t.addDigits}}
-	if s.MaxBlock > 1 { // at K = 1 the windows are the digits: Cyclic reads Digits
-		ks = append(ks, kernel{"overlap", 1 + big(len(t.Overlap)), t.addOverlap})
-	}
-	for k := 2; k <= s.blocksMax(); k++ {
-		if s.blocksSource(k) > 0 || t.windowBlocks() {
-			continue // derived from a longer block length at the end, or counted with the windows
-		}
-		k := k
-		ks = append(ks, kernel{"blocks", 1 + big(len(t.Blocks[k]))/float64(k), func(d []byte) { t.addBlocks(k, d) }})
-	}
-	if !s.SkipGaps {
-		ks = append(ks, kernel{"gaps", 2, t.addGaps})
-	}
-	pos := func() int64 { return t.Offset + t.N }
-	if h := s.PokerHand; h > 0 && !s.pokerDerived() {
-		ks = append(ks, kernel{"poker", 3, func(d []byte) { forWindows(t.Tail, d, pos(), h, h, t.countHand) }})
-	}
-	if s.UpDownDigits > 0 {
-		ks = append(ks, kernel{"updown", 5, t.addUpDown})
-	}
-	if s.Lags > 0 && !s.lagsDerived() {
-		ks = append(ks, kernel{"lags", 3, t.addLags})
-	}
-	if !s.SkipRuns {
-		ks = append(ks, kernel{"runs", 2.5, t.addRuns})
-	}
-	if !s.SkipWalk {
-		ks = append(ks, kernel{"walk", 1.2, t.addWalk})
-	}
-	if s.CouponClasses > 0 {
-		ks = append(ks, kernel{"coupon", 4.5, func(d []byte) { t.addCoupon(d, pos()) }})
-	}
-	return ks
-}
-
 // The Runner runs the kernels one after another on the first
 // calibrationDigits digits and times them on all but the first warmupDigits
 // (whose first touches of the large tables cost page faults, not work),
@@ -106,7 +61,6 @@ func (r *Runner) Add(d []byte) {
 		r.t.Add(d)
 		return
 	}
-	r.t.prepare()
 	if r.seen < calibrationDigits {
 		for i, k := range r.ks {
 			t0 := time.Now()
@@ -163,4 +117,19 @@ func (r *Runner) sortByCost() {
 		r.order = append(r.order, i)
 	}
 	sort.SliceStable(r.order, func(a, b int) bool { return r.spent[r.order[a]] > r.spent[r.order[b]] })
+}
+
+// parallel runs fns on their own goroutines and waits for all of them
+// (each must write only its own data).
+func parallel(fns ...func()) {
+	if len(fns) == 1 {
+		fns[0]()
+		return
+	}
+	var wg sync.WaitGroup
+	for _, f := range fns {
+		wg.Add(1)
+		go func() { defer wg.Done(); f() }()
+	}
+	wg.Wait()
 }

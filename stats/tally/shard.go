@@ -14,18 +14,30 @@ import (
 )
 
 // ShardVersion is the version of the shard format this borel writes and
-// reads. It goes up when a field changes meaning or disappears.
-const ShardVersion = 1
+// reads. It goes up when an entry changes meaning or disappears.
+//
+// Format 2: the header line
+//
+//	borel-tally 2 sha256:<hex> bytes:<n>
+//
+// then n bytes of gzip-compressed JSON whose SHA-256 the header states: a
+// stream of JSON values, first the shard header (format, version, writer,
+// null, source, the tally's spec with its record list, offset, length,
+// head and tail), then one entry per record in the spec's order, each
+// {"record": kind, "data": …} in the record's own encoding (count tables
+// as base64 varints, table.go). Format 1 (one JSON object that was the Go
+// Tally field by field) was written by borel 0.1.0 before the records; it
+// is refused with that said.
+const ShardVersion = 2
 
 // Shard is one stretch's tally as written by `borel tally`: the tally, the
 // null it was planned for (which fixes part of its spec), and where its
 // digits came from.
 type Shard struct {
-	Format  string     `json:"format"` // "borel-tally"
-	Version int        `json:"version"`
-	Null    ShardNull  `json:"null"`
-	Source  ShardInput `json:"source"`
-	Tally   *Tally     `json:"tally"`
+	Writer string // the program that wrote it, e.g. "borel 0.1.0"
+	Null   ShardNull
+	Source ShardInput
+	Tally  *Tally
 }
 
 // ShardNull is the null hypothesis of the audit the shard is for.
@@ -41,20 +53,49 @@ type ShardInput struct {
 	SHA256 string `json:"sha256"`
 }
 
-// WriteShard writes a shard: the header line
-//
-//	borel-tally <version> sha256:<hex> bytes:<n>
-//
-// then n bytes of gzip-compressed JSON whose SHA-256 the header states.
+// shardHeader is the first JSON value of a shard's payload.
+type shardHeader struct {
+	Format  string     `json:"format"` // "borel-tally"
+	Version int        `json:"version"`
+	Writer  string     `json:"writer"`
+	Null    ShardNull  `json:"null"`
+	Source  ShardInput `json:"source"`
+	Spec    Spec       `json:"spec"`
+	Offset  int64      `json:"offset"`
+	Length  int64      `json:"length"`
+	Head    []byte     `json:"head"`
+	Tail    []byte     `json:"tail"`
+}
+
+// shardEntry is one record's entry.
+type shardEntry struct {
+	Record string          `json:"record"`
+	Data   json.RawMessage `json:"data"`
+}
+
+// WriteShard writes a shard in format ShardVersion.
 func WriteShard(w io.Writer, s *Shard) error {
-	s.Format, s.Version = "borel-tally", ShardVersion
-	if s.Tally != nil {
-		s.Tally.Settle()
+	t := s.Tally
+	if t == nil {
+		return fmt.Errorf("tally: a shard needs a tally")
 	}
+	t.settle()
 	var payload bytes.Buffer
 	zw, _ := gzip.NewWriterLevel(&payload, gzip.BestSpeed)
-	if err := json.NewEncoder(zw).Encode(s); err != nil {
+	enc := json.NewEncoder(zw)
+	h := shardHeader{Format: "borel-tally", Version: ShardVersion, Writer: s.Writer, Null: s.Null, Source: s.Source,
+		Spec: t.Spec, Offset: t.Offset, Length: t.N, Head: t.Head, Tail: t.Tail}
+	if err := enc.Encode(h); err != nil {
 		return err
+	}
+	for _, r := range t.recs {
+		data, err := json.Marshal(r.entry())
+		if err != nil {
+			return err
+		}
+		if err := enc.Encode(shardEntry{Record: r.kind(), Data: data}); err != nil {
+			return err
+		}
 	}
 	if err := zw.Close(); err != nil {
 		return err
@@ -68,7 +109,8 @@ func WriteShard(w io.Writer, s *Shard) error {
 }
 
 // ReadShard reads a shard, checking its version, length and checksum, and
-// that the tally inside is well formed. name is used in errors.
+// that the tally inside is well formed, record by record. name is used in
+// errors.
 func ReadShard(r io.Reader, name string) (*Shard, error) {
 	br := bufio.NewReader(r)
 	line, err := br.ReadString('\n')
@@ -83,10 +125,12 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: shard header has no version", name)
 	}
-	if version > ShardVersion {
+	switch {
+	case version > ShardVersion:
 		return nil, fmt.Errorf("%s: shard format %d was written by a newer borel; this borel reads format %d: upgrade borel", name, version, ShardVersion)
-	}
-	if version < 1 {
+	case version == 1:
+		return nil, fmt.Errorf("%s: shard format 1 was written by borel 0.1.0 before its tallies were split into records; this borel reads format %d: tally that stretch again with this borel", name, ShardVersion)
+	case version < 1:
 		return nil, fmt.Errorf("%s: unknown shard format %d", name, version)
 	}
 	wantSum, ok1 := strings.CutPrefix(fields[2], "sha256:")
@@ -111,16 +155,75 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
 	}
-	var s Shard
-	dec := json.NewDecoder(zr)
-	if err := dec.Decode(&s); err != nil {
+	plain, err := io.ReadAll(zr)
+	if err != nil {
 		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
 	}
-	if s.Format != "borel-tally" || s.Tally == nil {
-		return nil, fmt.Errorf("%s: shard payload holds no tally", name)
-	}
-	if err := s.Tally.wellFormed(); err != nil {
+	s, err := decodeShard(plain)
+	if err != nil {
 		return nil, fmt.Errorf("%s: %v", name, err)
 	}
-	return &s, nil
+	return s, nil
+}
+
+// decodeShard decodes and validates a shard's uncompressed payload.
+func decodeShard(plain []byte) (*Shard, error) {
+	dec := json.NewDecoder(bytes.NewReader(plain))
+	var h shardHeader
+	if err := dec.Decode(&h); err != nil {
+		return nil, fmt.Errorf("shard header cannot be read: %v", err)
+	}
+	if h.Format != "borel-tally" || h.Version != ShardVersion {
+		return nil, fmt.Errorf("shard payload holds no tally of format %d", ShardVersion)
+	}
+	t, err := h.Spec.shell(h.Offset, int64(len(plain)))
+	if err != nil {
+		return nil, fmt.Errorf("%v (damaged shard)", err)
+	}
+	t.N, t.Head, t.Tail = h.Length, h.Head, h.Tail
+	if t.Head == nil {
+		t.Head = []byte{}
+	}
+	if t.Tail == nil {
+		t.Tail = []byte{}
+	}
+	for _, r := range t.recs {
+		var e shardEntry
+		if err := dec.Decode(&e); err != nil {
+			return nil, fmt.Errorf("shard entry of the %s record cannot be read: %v", r.kind(), err)
+		}
+		if e.Record != r.kind() {
+			return nil, fmt.Errorf("shard holds a %q entry where its record list has %s (damaged shard)", e.Record, r.kind())
+		}
+		if err := r.decode(e.Data); err != nil {
+			return nil, fmt.Errorf("shard entry of the %s record cannot be read: %v (damaged shard)", r.kind(), err)
+		}
+	}
+	if dec.More() {
+		return nil, fmt.Errorf("shard holds more entries than its record list (damaged shard)")
+	}
+	t.bind()
+	if err := t.wellFormed(); err != nil {
+		return nil, err
+	}
+	return &Shard{Writer: h.Writer, Null: h.Null, Source: h.Source, Tally: t}, nil
+}
+
+// shell returns a tally of the spec whose records are to be decoded: the
+// spec is checked first, and its tables must be no larger than the payload
+// could hold (every cell takes at least one byte), so a damaged header
+// cannot make the decoder allocate more than the shard's size.
+func (s Spec) shell(offset, payload int64) (*Tally, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
+	if s.MaxBlock > 64 || pow(float64(s.Base), s.MaxBlock) > float64(payload) {
+		return nil, fmt.Errorf("tally: block length %d in base %d needs tables larger than the shard", s.MaxBlock, s.Base)
+	}
+	for _, r := range s.Records {
+		if r.cells(s.Base) > float64(payload)+float64(CouponRestart) {
+			return nil, fmt.Errorf("tally: the %s record needs tables larger than the shard", r.Kind())
+		}
+	}
+	return New(s, offset)
 }

@@ -3,167 +3,88 @@
 // tally of their concatenation, exactly. Every check in borel reads a
 // finished Tally; nothing reads the digits twice.
 //
-// A Tally holds: n; the digit counts; overlapping K-block counts of the
-// windows that lie inside the stretch; non-overlapping k-block counts for
-// k = 2..K aligned to global digit positions (blocks start at multiples of k
-// counted from the start of the whole sequence, so a shard cut anywhere gives
-// the same blocks); gap-length histograms per digit class; and the first and
-// last K-1 digits, from which the blocks crossing a cut and the cyclic
-// wrap-around windows are recovered.
+// A Tally is a stretch — its global offset, its length n, its first and last
+// span−1 digits (the seams from which everything crossing a cut is
+// recovered) — and an ordered set of records, each one small mergeable
+// statistic in its own file:
+//
+//	digits.go   digit counts and their trace at fixed checkpoints
+//	windows.go  overlapping K-windows (and the cyclic tables derived from them)
+//	blocks.go   non-overlapping k-blocks aligned to global positions
+//	gaps.go     gap-length histograms per digit class
+//	hands.go    poker hands (distinct digits per aligned hand)
+//	updown.go   aligned L-digit values: ties and turning points
+//	lags.go     lag products Σ x_i x_{i+h}
+//	runs.go     longest runs
+//	walk.go     the digit-sum walk
+//	coupon.go   coupon-collector segments
+//
+// Each record owns its kernels over a digit buffer, its exact merge with
+// the next stretch given the seam digits, its cell count for the memory
+// budget, its shard entry and its validation. Values a record exposes are
+// exact whenever they can be read: the accessors (DigitCounts, Windows,
+// Hands, …) finish any pending work first.
 package tally
 
 import (
+	"encoding/json"
 	"fmt"
 	"slices"
+	"sync"
 )
 
-// DefaultGapCap is the gap length from which gaps are tallied together in
-// one tail cell. A gap check never needs classes beyond it: at q = 1/36 and
-// 10^9 digits the validity rule G(1-q)^t ≥ 5 stops at t ≈ 550.
-const DefaultGapCap = 2048
-
-// Spec fixes what a Tally records. Tallies merge only when their Specs are equal.
-type Spec struct {
-	Base     int // 2..256
-	MaxBlock int // K ≥ 1: overlapping counts at order K, blocks k = 2..K
-	// BlocksMax, when in 1..K−1, is the largest k whose non-overlapping
-	// blocks are counted (the plan leaves out lengths too long for the
-	// blocks check at the known input length); 0 means K.
-	BlocksMax int
-	// GapClass maps each digit to its gap class (len Base); nil means one
-	// class per digit.
-	GapClass []int
-	GapCap   int // 0 means DefaultGapCap
-
-	PokerHand     int   // hand size h of the poker check; 0: off
-	UpDownDigits  int   // digits L per value of the up/down runs check; 0: off
-	Lags          int   // largest lag H of the serial-correlation check; 0: off
-	RunDigit      int   // the digit whose longest run is tallied
-	WalkHull      bool  // keep the walk's convex hulls (non-uniform or fitted null)
-	CouponClasses int   // number d ≤ 32 of coupon classes; 0: off
-	CouponClass   []int // class of each digit (len Base) when CouponClasses > 0
-	CouponCap     int   // coupon segment length from which lengths are pooled
-	CouponEvery   int   // restart spacing of coupon segments; 0: CouponRestart
-	SkipGaps      bool  // no gap histograms (their check is not run)
-	SkipRuns      bool  // no longest-run records
-	SkipWalk      bool  // no digit-sum walk
+// record is one mergeable statistic of a stretch.
+type record interface {
+	kind() string
+	// kernels returns the record's loops of the pass. Each reads the new
+	// digits and the stretch (t.Offset, t.N, t.Tail: unchanged until the
+	// tally advances) and writes only the record's own fields, so kernels
+	// run concurrently on the same chunk. None when the record is derived
+	// from another record's tables when it settles.
+	kernels(t *Tally) []kernel
+	// merge folds next, the same record of the stretch that follows, into
+	// the record, which holds the earlier stretch's values.
+	merge(next record, sm *seam)
+	clone() record
+	// settle makes the record's values exact: folds private counters and
+	// derives values from records settled before it (records settle in
+	// the tally's order).
+	settle(t *Tally)
+	// entry returns the shard entry (a value json can encode); decode
+	// reads one back into the empty record.
+	entry() any
+	decode(data json.RawMessage) error
+	// check validates a decoded record against its stretch completely, so
+	// a record that passes merges and is audited without a panic.
+	check(t *Tally) error
 }
 
-// Cells returns the number of int64 counters a Tally of this Spec holds,
-// including the cyclic tables a check derives at the end (k = 1..K): the
-// measure the memory budget is checked against.
-func (s Spec) Cells() float64 {
-	b := float64(s.Base)
-	cells := 0.0
-	pow := 1.0
-	for k := 1; k <= s.MaxBlock; k++ {
-		pow *= b
-		cells += pow // cyclic table of order k
-		if s.HasBlocks(k) {
-			cells += pow // non-overlapping blocks
-		}
-	}
-	cells += pow // overlapping linear counts at K
-	return cells + float64(s.classes()*(s.gapCap()+1)) + float64(s.PokerHand+s.Lags+s.CouponCap+CouponRestart/8)
-}
-
-// blocksMax returns the largest k of the non-overlapping block counts.
-func (s Spec) blocksMax() int {
-	if s.BlocksMax > 0 && s.BlocksMax < s.MaxBlock {
-		return s.BlocksMax
-	}
-	return s.MaxBlock
-}
-
-// HasBlocks reports whether the non-overlapping k-blocks are counted.
-func (s Spec) HasBlocks(k int) bool { return k >= 2 && k <= s.blocksMax() }
-
-func (s Spec) gapCap() int {
-	if s.GapCap <= 0 {
-		return DefaultGapCap
-	}
-	return s.GapCap
-}
-
-func (s Spec) classes() int {
-	if s.GapClass == nil {
-		return s.Base
-	}
-	return slices.Max(s.GapClass) + 1
-}
-
-// Validate reports whether the Spec is usable.
-func (s Spec) Validate() error {
-	if s.Base < 2 || s.Base > 256 {
-		return fmt.Errorf("tally: base %d outside 2..256", s.Base)
-	}
-	if s.BlocksMax < 0 {
-		return fmt.Errorf("tally: largest counted block length %d is negative", s.BlocksMax)
-	}
-	if s.MaxBlock < 1 {
-		return fmt.Errorf("tally: block length %d, need at least 1", s.MaxBlock)
-	}
-	if s.CouponClasses > 32 || (s.CouponClasses > 0 && (len(s.CouponClass) != s.Base || s.CouponCap < s.CouponClasses)) {
-		return fmt.Errorf("tally: coupon classes need ≤ 32 classes, one per digit, and a cap of at least the class count")
-	}
-	if s.RunDigit < 0 || s.RunDigit >= s.Base {
-		return fmt.Errorf("tally: run digit %d is not a digit of base %d", s.RunDigit, s.Base)
-	}
-	if s.GapClass != nil {
-		if len(s.GapClass) != s.Base {
-			return fmt.Errorf("tally: %d gap classes given for base %d", len(s.GapClass), s.Base)
-		}
-		for _, c := range s.GapClass {
-			if c < 0 {
-				return fmt.Errorf("tally: negative gap class")
-			}
-		}
-	}
-	return nil
-}
-
-// GapTally is the gap record of one digit class: Hist[r] counts complete gaps
-// of r other digits between consecutive occurrences (r < cap) and Hist[cap]
-// the gaps of cap or more. First and Last are the local positions of the
-// first and last occurrence (valid when Seen).
-type GapTally struct {
-	Hist        []int64
-	Seen        bool
-	First, Last int64
+// seam is what a merge of a‖b sees across the cut: x = a.Tail‖b.Head,
+// with b's first digit at x[cut] and x[0] at global position xs.
+type seam struct {
+	a, b *Tally
+	x    []byte
+	xs   int64
+	cut  int
 }
 
 // Tally is the one-pass summary of a stretch of a sequence that starts at
 // global digit position Offset. The zero value is not usable: call New.
 type Tally struct {
 	Spec
-	Offset  int64
-	N       int64
-	Digits  []int64   // Digits[d]: occurrences of digit d
-	Overlap []int64   // K-windows lying inside the stretch, indexed by block value (unused at K = 1: the digits)
-	Blocks  [][]int64 // Blocks[k], k = 2..K: aligned non-overlapping k-blocks
-	Gaps    []GapTally
-	Head    []byte // first min(N, span-1) digits (span: the longest window any record needs)
-	Tail    []byte // last min(N, span-1) digits
+	Offset int64
+	N      int64
+	Head   []byte // first min(N, span−1) digits
+	Tail   []byte // last min(N, span−1) digits
 
-	Poker    []int64 // Poker[r]: aligned hands with r distinct digits
-	UDValues int64   // aligned L-digit values
-	UDTurns  int64   // turning points among consecutive values
-	UDTies   int64   // consecutive equal values
-	LagProd  []int64 // LagProd[h]: Σ x_i x_{i+h} over pairs inside the stretch
-	RunAny   RunTally
-	RunDig   RunTally // runs of the digit RunDigit
-	Walk     WalkTally
-	Coupon   CouponTally
-	Trace    []TracePoint // digit counts at fixed global checkpoints, for plots
+	recs []record // digits, windows, blocks, then Spec.Records in order
+	dig  *DigitCounts
+	win  *Windows
+	blk  *Blocks
 
-	finished bool // set by CyclicInPlace
-
-	// Hot byte counters of the large tables (see hot.go): the true count
-	// of cell w is Overlap[w] + hotOverlap[w] until Settle folds them in.
-	hotOverlap []uint8
-	hotBlocks  [][]uint8
-	udScratch  []byte // addUpDown's tail‖chunk buffer
-	settled    bool   // Settle has run since the last digits were added
+	mu       sync.Mutex // guards settled: accessors may run concurrently
+	settled  bool       // every record is exact since the last Add
+	finished bool       // set by CyclicInPlace
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.
@@ -171,22 +92,27 @@ func New(spec Spec, offset int64) (*Tally, error) {
 	if err := spec.Validate(); err != nil {
 		return nil, err
 	}
-	t := &Tally{Spec: spec, Offset: offset}
-	b := spec.Base
-	t.Digits = make([]int64, b)
-	t.Overlap = make([]int64, ipow(b, spec.MaxBlock))
-	t.Blocks = make([][]int64, spec.MaxBlock+1)
-	for k := 2; k <= spec.blocksMax(); k++ {
-		t.Blocks[k] = make([]int64, ipow(b, k))
+	spec.Records = slices.Clone(spec.Records)
+	t := &Tally{Spec: spec, Offset: offset, Head: []byte{}, Tail: []byte{}}
+	t.dig = newDigitCounts(spec.Base)
+	t.win = newWindows(spec.Base, spec.MaxBlock)
+	t.blk = newBlocks(&t.Spec)
+	t.recs = []record{t.dig, t.win, t.blk}
+	for _, r := range spec.Records {
+		t.recs = append(t.recs, r.newRecord(&t.Spec, offset))
 	}
-	t.Gaps = make([]GapTally, spec.classes())
-	for i := range t.Gaps {
-		t.Gaps[i].Hist = make([]int64, spec.gapCap()+1)
-	}
-	t.Head = []byte{}
-	t.Tail = []byte{}
-	newExtras(t)
+	t.settled = true
 	return t, nil
+}
+
+// find returns the record of the given kind, or nil.
+func (t *Tally) find(kind string) record {
+	for _, r := range t.recs {
+		if r.kind() == kind {
+			return r
+		}
+	}
+	return nil
 }
 
 func ipow(b, k int) int {
@@ -215,172 +141,19 @@ func (t *Tally) Add(d []byte) {
 	if len(d) == 0 {
 		return
 	}
-	t.prepare()
 	for _, k := range t.kernels() {
 		k.run(d)
 	}
 	t.advance(d)
 }
 
-// addDigits counts the digits of d, stopping at each trace checkpoint
-// inside d to record the counts so far (trace.go): every digit is counted
-// once.
-func (t *Tally) addDigits(d []byte) {
-	pos0 := t.Offset + t.N // global position of d[0]
-	end := pos0 + int64(len(d))
-	done := 0
-	for p := traceNext(pos0); p <= end; p = traceNext(p) {
-		cut := int(p - pos0)
-		t.countDigits(d[done:cut])
-		done = cut
-		t.Trace = append(t.Trace, TracePoint{Pos: p, Counts: slices.Clone(t.Digits)})
+// kernels lists the pass's loops, record by record.
+func (t *Tally) kernels() []kernel {
+	var ks []kernel
+	for _, r := range t.recs {
+		ks = append(ks, r.kernels(t)...)
 	}
-	t.countDigits(d[done:])
-}
-
-// countDigits counts the digits into four interleaved tables, so that a
-// repeated digit does not make each increment wait for the previous one.
-func (t *Tally) countDigits(d []byte) {
-	var c [4][256]int64
-	i := 0
-	for ; i+4 <= len(d); i += 4 {
-		c[0][d[i]]++
-		c[1][d[i+1]]++
-		c[2][d[i+2]]++
-		c[3][d[i+3]]++
-	}
-	for ; i < len(d); i++ {
-		c[0][d[i]]++
-	}
-	for x := range t.Digits {
-		t.Digits[x] += c[0][x] + c[1][x] + c[2][x] + c[3][x]
-	}
-}
-
-// addOverlap counts the K-windows that end inside d, and, when
-// windowBlocks, the counted non-overlapping blocks too (count.go): those
-// that end before the first batched window by addBlocks, the others from
-// the batches.
-func (t *Tally) addOverlap(d []byte) {
-	K, b := t.MaxBlock, t.Base
-	cnt := t.Overlap
-	var blocks []blockCounter
-	if t.windowBlocks() {
-		for _, k := range t.countedBlockLengths() {
-			t.addBlocks(k, d[:min(len(d), K)])
-			blocks = append(blocks, t.blockCounter(k))
-		}
-	}
-	// Windows that begin in the tail: at most K-1 of them.
-	lead := min(len(d), K-1)
-	y := append(slices.Clip(t.Tail), d[:lead]...)
-	for end := len(t.Tail); end < len(y); end++ {
-		if end+1 >= K {
-			cnt[value(y[end+1-K:end+1], b)]++
-		}
-	}
-	if len(d) < K {
-		return
-	}
-	// Windows inside d, rolling: w' = (w - d[i-K]·b^(K-1))·b + d[i].
-	pow := ipow(b, K-1)
-	w := value(d[:K], b)
-	cnt[w]++
-	if hot := t.hotTable(&t.hotOverlap, len(cnt)); hot != nil {
-		// Window values first, then counted a batch at a time (count.go).
-		var buf [windowBatch]uint32
-		for i := K; i < len(d); {
-			idx := buf[:min(windowBatch, len(d)-i)]
-			for j := range idx {
-				w = (w-int(d[i+j-K])*pow)*b + int(d[i+j])
-				idx[j] = uint32(w)
-			}
-			countBytes(hot, cnt, idx)
-			for bc := range blocks {
-				blocks[bc].count(idx, t.Offset+t.N+int64(i))
-			}
-			i += len(idx)
-		}
-		return
-	}
-	for i := K; i < len(d); i++ {
-		w = (w-int(d[i-K])*pow)*b + int(d[i])
-		cnt[w]++
-	}
-}
-
-// addBlocks counts the non-overlapping k-blocks, aligned to global positions
-// that are multiples of k, that end inside d.
-func (t *Tally) addBlocks(k int, d []byte) {
-	b := t.Base
-	cnt := t.Blocks[k]
-	pos := t.Offset + t.N // global position of d[0]
-	have := int(pos % int64(k))
-	cur, skip := 0, 0
-	if have > 0 {
-		if int64(have) <= t.N {
-			cur = value(t.Tail[len(t.Tail)-have:], b)
-		} else { // the block began before this stretch: not ours to count
-			skip = k - have
-			have = 0
-		}
-	}
-	i := 0
-	for ; i < len(d) && skip > 0; i++ {
-		skip--
-	}
-	for ; i < len(d) && have > 0; i++ {
-		cur = cur*b + int(d[i])
-		have++
-		if have == k {
-			cnt[cur]++
-			have, cur = 0, 0
-		}
-	}
-	// Straight into the 64-bit table, byte table or not (the count of a cell
-	// is the sum of both): with large tables the blocks come from the
-	// window batches (count.go) and only the few at a chunk's start come
-	// here.
-	for ; i+k <= len(d); i += k {
-		cnt[value(d[i:i+k], b)]++
-	}
-}
-
-// addGaps extends each digit class's gap record over d, with the
-// positions of the last occurrences in a local array (−1: not seen yet).
-func (t *Tally) addGaps(d []byte) {
-	cap64 := int64(t.gapCap())
-	var last [256]int64
-	for c := range t.Gaps {
-		last[c] = -1
-		if t.Gaps[c].Seen {
-			last[c] = t.Gaps[c].Last
-		}
-	}
-	hists := make([][]int64, len(t.Gaps))
-	for c := range t.Gaps {
-		hists[c] = t.Gaps[c].Hist
-	}
-	class := t.GapClass
-	n := t.N
-	for i, x := range d {
-		c := int(x)
-		if class != nil {
-			c = class[x]
-		}
-		pos := n + int64(i)
-		if l := last[c]; l >= 0 {
-			hists[c][min(pos-l-1, cap64)]++
-		} else {
-			t.Gaps[c].Seen, t.Gaps[c].First = true, pos
-		}
-		last[c] = pos
-	}
-	for c := range t.Gaps {
-		if last[c] >= 0 {
-			t.Gaps[c].Last = last[c]
-		}
-	}
+	return ks
 }
 
 // advance updates n, head and tail after d has been counted.
@@ -399,4 +172,128 @@ func (t *Tally) advance(d []byte) {
 		}
 	}
 	t.N += int64(len(d))
+}
+
+// settle makes every record exact (folding the byte counters of the large
+// tables, deriving the records that come from others). It is idempotent
+// and safe to call from several goroutines at once, but not while digits
+// are being added.
+func (t *Tally) settle() {
+	t.mu.Lock()
+	defer t.mu.Unlock()
+	if t.settled || t.finished {
+		return
+	}
+	for _, r := range t.recs {
+		r.settle(t)
+	}
+	t.settled = true
+}
+
+// Clone returns a deep copy.
+func (t *Tally) Clone() *Tally {
+	if t.finished {
+		panic("tally: Clone of a finished tally (after CyclicInPlace)")
+	}
+	t.settle()
+	u := &Tally{Spec: t.Spec, Offset: t.Offset, N: t.N, Head: slices.Clone(t.Head), Tail: slices.Clone(t.Tail), settled: true}
+	u.Spec.Records = slices.Clone(t.Spec.Records)
+	for _, r := range t.recs {
+		u.recs = append(u.recs, r.clone())
+	}
+	u.bind()
+	return u
+}
+
+// bind sets the handles of the records every tally has.
+func (t *Tally) bind() {
+	t.dig = t.recs[0].(*DigitCounts)
+	t.win = t.recs[1].(*Windows)
+	t.blk = t.recs[2].(*Blocks)
+	t.blk.spec = &t.Spec
+	for _, r := range t.recs[3:] {
+		if s, ok := r.(interface{ setSpec(*Spec) }); ok {
+			s.setSpec(&t.Spec)
+		}
+	}
+}
+
+// Merge returns the tally of the concatenation a‖b, where b's stretch starts
+// right where a's ends. The result equals, record by record, the tally of
+// one pass over a‖b; a and b are not changed.
+//
+// Windows and aligned blocks that cross the cut are counted from a's tail
+// followed by b's head (each span−1 digits): a window that crosses the cut
+// has at most span−1 digits on either side. One that reaches beyond a short
+// piece is not complete yet and is counted by the merge that completes it.
+func Merge(a, b *Tally) (*Tally, error) {
+	if a.finished || b.finished {
+		panic("tally: Merge of a finished tally (after CyclicInPlace)")
+	}
+	if !a.Spec.Equal(b.Spec) {
+		return nil, fmt.Errorf("tally: cannot merge tallies of different specs (base %d, K %d vs base %d, K %d)",
+			a.Base, a.MaxBlock, b.Base, b.MaxBlock)
+	}
+	if a.Offset+a.N != b.Offset {
+		return nil, fmt.Errorf("tally: stretches are not consecutive: the first ends at digit %d, the second starts at %d",
+			a.Offset+a.N, b.Offset)
+	}
+	b.settle()
+	t := a.Clone()
+	if b.N == 0 {
+		return t, nil
+	}
+	if a.N == 0 {
+		u := b.Clone()
+		u.Offset = a.Offset
+		return u, nil
+	}
+	x := append(slices.Clone(a.Tail), b.Head...)
+	cut := len(a.Tail)
+	sm := &seam{a: a, b: b, x: x, xs: b.Offset - int64(cut), cut: cut}
+	for i, r := range t.recs {
+		r.merge(b.recs[i], sm)
+	}
+	keep := t.span() - 1
+	if len(t.Head) < keep {
+		t.Head = append(t.Head, b.Head[:min(len(b.Head), keep-len(t.Head))]...)
+	}
+	tail := append(slices.Clone(a.Tail), b.Tail...)
+	t.Tail = slices.Clone(tail[max(0, len(tail)-keep):])
+	t.N += b.N
+	return t, nil
+}
+
+// Equal reports whether two tallies hold the same stretch and the same
+// values in every record (what a merge must reproduce).
+func Equal(a, b *Tally) bool {
+	a.settle()
+	b.settle()
+	if !a.Spec.Equal(b.Spec) || a.Offset != b.Offset || a.N != b.N ||
+		!slices.Equal(a.Head, b.Head) || !slices.Equal(a.Tail, b.Tail) || len(a.recs) != len(b.recs) {
+		return false
+	}
+	for i := range a.recs {
+		ea, _ := json.Marshal(a.recs[i].entry())
+		eb, _ := json.Marshal(b.recs[i].entry())
+		if string(ea) != string(eb) {
+			return false
+		}
+	}
+	return true
+}
+
+func addInto(dst, src []int64) {
+	for i, v := range src {
+		dst[i] += v
+	}
+}
+
+// digitAt returns local digit i of the stretch from Head or Tail (the
+// derivations only ask for digits near the ends).
+func (t *Tally) digitAt(i int64) byte {
+	if i < int64(len(t.Head)) {
+		return t.Head[i]
+	}
+	return t.Tail[i-(t.N-int64(len(t.Tail)))]
 }

@@ -105,7 +105,7 @@ func TestCountsAgainstDefinition(t *testing.T) {
 		K := 1 + rng.IntN(4)
 		n := K + rng.IntN(300)
 		d := randomDigits(rng, n, base)
-		tl := mustNew(t, Spec{Base: base, MaxBlock: K, GapCap: 5}, 0)
+		tl := mustNew(t, Spec{Base: base, MaxBlock: K, Records: []RecordSpec{&GapSpec{Cap: 5}}}, 0)
 		tl.Add(d)
 		cyc, err := tl.Cyclic()
 		if err != nil {
@@ -129,7 +129,7 @@ func TestCountsAgainstDefinition(t *testing.T) {
 			for i := 0; i+k <= n; i += k {
 				want[value(d[i:i+k], base)]++
 			}
-			if !slices.Equal(tl.Blocks[k], want) {
+			if !slices.Equal(tl.BlockCounts(k), want) {
 				t.Fatalf("blocks k=%d differ from the definition", k)
 			}
 		}
@@ -144,8 +144,8 @@ func TestCountsAgainstDefinition(t *testing.T) {
 					last = i
 				}
 			}
-			if !slices.Equal(tl.Gaps[c].Hist, want) {
-				t.Fatalf("gaps of %d: %v, want %v", c, tl.Gaps[c].Hist, want)
+			if got := tl.Gaps().Classes[c].Hist; !slices.Equal(got, want) {
+				t.Fatalf("gaps of %d: %v, want %v", c, got, want)
 			}
 		}
 	}
@@ -173,21 +173,24 @@ func TestMergeRejectsGapsAndOverlaps(t *testing.T) {
 
 // randomSpec switches every record on, with random parameters.
 func randomSpec(rng *rand.Rand, base, K int) Spec {
-	spec := Spec{Base: base, MaxBlock: K, GapCap: 1 + rng.IntN(12),
-		PokerHand: 2 + rng.IntN(4), UpDownDigits: 1 + rng.IntN(3), Lags: 1 + rng.IntN(4),
-		RunDigit: rng.IntN(base), WalkHull: rng.IntN(2) == 0,
-		CouponClasses: min(base, 2+rng.IntN(3)), CouponCap: 12, CouponEvery: 5 + rng.IntN(40)}
-	spec.CouponClass = make([]int, base)
-	for i := range spec.CouponClass {
-		spec.CouponClass[i] = i % spec.CouponClasses
+	g := &GapSpec{Cap: 1 + rng.IntN(12)}
+	hands := &HandSpec{Size: 2 + rng.IntN(4)}
+	ud := &UpDownSpec{Digits: 1 + rng.IntN(3)}
+	lags := &LagSpec{Max: 1 + rng.IntN(4)}
+	runs := &RunSpec{Digit: rng.IntN(base)}
+	walk := &WalkSpec{Hull: rng.IntN(2) == 0}
+	c := &CouponSpec{Classes: min(base, 2+rng.IntN(3)), Cap: 12, Every: 5 + rng.IntN(40)}
+	c.Class = make([]int, base)
+	for i := range c.Class {
+		c.Class[i] = i % c.Classes
 	}
 	if rng.IntN(2) == 0 {
-		spec.GapClass = make([]int, base)
-		for i := range spec.GapClass {
-			spec.GapClass[i] = i % 3
+		g.Class = make([]int, base)
+		for i := range g.Class {
+			g.Class[i] = i % 3
 		}
 	}
-	return spec
+	return Spec{Base: base, MaxBlock: K, Records: []RecordSpec{g, hands, ud, lags, runs, walk, c}}
 }
 
 // The extra records against their definitions, computed naively.
@@ -207,9 +210,9 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 		}
 		tl := mustNew(t, spec, 0)
 		tl.Add(d)
-		tl.Settle() // records derived from the tables are filled here
-
-		h := spec.PokerHand
+		hs := spec.Record("poker").(*HandSpec)
+		cs := spec.Record("coupon").(*CouponSpec)
+		h := hs.Size
 		poker := make([]int64, h+1)
 		for i := 0; i+h <= n; i += h {
 			seen := map[byte]bool{}
@@ -218,11 +221,11 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			}
 			poker[len(seen)]++
 		}
-		if !slices.Equal(tl.Poker, poker) {
-			t.Fatalf("trial %d: poker %v, want %v", trial, tl.Poker, poker)
+		if got := tl.Hands().Counts; !slices.Equal(got, poker) {
+			t.Fatalf("trial %d: poker %v, want %v", trial, got, poker)
 		}
 
-		L := spec.UpDownDigits
+		L := spec.Record("updown").(*UpDownSpec).Digits
 		var vals []uint64
 		for i := 0; i+L <= n; i += L {
 			vals = append(vals, udValue(d[i:i+L], base))
@@ -239,17 +242,17 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 				}
 			}
 		}
-		if tl.UDValues != int64(len(vals)) || tl.UDTurns != turns || tl.UDTies != ties {
-			t.Fatalf("trial %d: up/down %d %d %d, want %d %d %d", trial, tl.UDValues, tl.UDTurns, tl.UDTies, len(vals), turns, ties)
+		if ud := tl.UpDown(); ud.Values != int64(len(vals)) || ud.Turns != turns || ud.Ties != ties {
+			t.Fatalf("trial %d: up/down %d %d %d, want %d %d %d", trial, ud.Values, ud.Turns, ud.Ties, len(vals), turns, ties)
 		}
 
-		for lag := 1; lag <= spec.Lags; lag++ {
+		for lag := 1; lag <= spec.Record("lags").(*LagSpec).Max; lag++ {
 			var s int64
 			for i := 0; i+lag < n; i++ {
 				s += int64(d[i]) * int64(d[i+lag])
 			}
-			if tl.LagProd[lag] != s {
-				t.Fatalf("trial %d: lag %d sum %d, want %d", trial, lag, tl.LagProd[lag], s)
+			if got := tl.Lags().Products[lag]; got != s {
+				t.Fatalf("trial %d: lag %d sum %d, want %d", trial, lag, got, s)
 			}
 		}
 
@@ -260,15 +263,15 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			} else {
 				run = 1
 			}
-			if int(x) == spec.RunDigit {
+			if int(x) == spec.Record("runs").(*RunSpec).Digit {
 				runD++
 			} else {
 				runD = 0
 			}
 			maxAny, maxDig = max(maxAny, run), max(maxDig, runD)
 		}
-		if tl.RunAny.Max != maxAny || tl.RunDig.Max != maxDig {
-			t.Fatalf("trial %d: runs %d %d, want %d %d", trial, tl.RunAny.Max, tl.RunDig.Max, maxAny, maxDig)
+		if runs := tl.Runs(); runs.Any.Max != maxAny || runs.Dig.Max != maxDig {
+			t.Fatalf("trial %d: runs %d %d, want %d %d", trial, runs.Any.Max, runs.Dig.Max, maxAny, maxDig)
 		}
 
 		// Walk: max over k of T_k - kμ for a few μ, from the hull or the extremes.
@@ -279,13 +282,14 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			u := 2*sum - int64(k+1)*int64(base-1)
 			umax, umin = max(umax, u), min(umin, u)
 		}
-		if tl.Walk.Sum != sum {
+		walk := tl.Walk()
+		if walk.Sum != sum {
 			t.Fatalf("walk sum")
 		}
-		if !spec.WalkHull && (tl.Walk.UMax != umax || tl.Walk.UMin != umin) {
-			t.Fatalf("trial %d: walk extremes %d %d, want %d %d", trial, tl.Walk.UMax, tl.Walk.UMin, umax, umin)
+		if !walk.Hull && (walk.UMax != umax || walk.UMin != umin) {
+			t.Fatalf("trial %d: walk extremes %d %d, want %d %d", trial, walk.UMax, walk.UMin, umax, umin)
 		}
-		if spec.WalkHull {
+		if walk.Hull {
 			for _, mu := range []float64{0, 0.5, float64(base-1) / 2, 1.37} {
 				hi, lo := 0.0, 0.0
 				var s int64
@@ -295,10 +299,10 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 					hi, lo = math.Max(hi, v), math.Min(lo, v)
 				}
 				hHi, hLo := math.Inf(-1), math.Inf(1)
-				for _, p := range tl.Walk.Upper {
+				for _, p := range walk.Upper {
 					hHi = math.Max(hHi, float64(p.T)-float64(p.K)*mu)
 				}
-				for _, p := range tl.Walk.Lower {
+				for _, p := range walk.Lower {
 					hLo = math.Min(hLo, float64(p.T)-float64(p.K)*mu)
 				}
 				if math.Abs(hHi-hi) > 1e-9 || math.Abs(hLo-lo) > 1e-9 {
@@ -307,22 +311,22 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			}
 		}
 
-		hist := make([]int64, spec.CouponCap+1)
+		hist := make([]int64, cs.Cap+1)
 		var seen uint32
 		var length int64
 		for i, x := range d {
-			if i%spec.CouponEvery == 0 {
+			if i%cs.Every == 0 {
 				seen, length = 0, 0
 			}
-			seen |= 1 << spec.CouponClass[x]
+			seen |= 1 << cs.Class[x]
 			length++
-			if seen == 1<<spec.CouponClasses-1 {
-				hist[min(length, int64(spec.CouponCap))]++
+			if seen == 1<<cs.Classes-1 {
+				hist[min(length, int64(cs.Cap))]++
 				seen, length = 0, 0
 			}
 		}
-		if !slices.Equal(tl.Coupon.Hist, hist) {
-			t.Fatalf("trial %d: coupon %v, want %v", trial, tl.Coupon.Hist, hist)
+		if got := tl.Coupons().Hist; !slices.Equal(got, hist) {
+			t.Fatalf("trial %d: coupon %v, want %v", trial, got, hist)
 		}
 	}
 }
@@ -373,13 +377,15 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	}
 	damaged := append([]byte(nil), good...)
 	damaged[len(damaged)-10] ^= 0x40
-	future := []byte(strings.Replace(string(good), "borel-tally 1 ", "borel-tally 2 ", 1))
+	future := []byte(strings.Replace(string(good), "borel-tally 2 ", "borel-tally 3 ", 1))
+	old := []byte(strings.Replace(string(good), "borel-tally 2 ", "borel-tally 1 ", 1))
 	cases := map[string][]byte{
-		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 2 was written by a newer borel": future,
+		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 3 was written by a newer borel": future,
+		"shard format 1 was written by borel 0.1.0 before its tallies were split into records": old,
 		"not a borel shard": []byte("hello\nworld"),
 		// A damaged header that claims a terabyte must not allocate it
 		// (FuzzReadShard hung on this before the payload was read incrementally).
-		"the 1000000000000 bytes the header states": []byte("borel-tally 1 sha256:00 bytes:1000000000000\nabc"),
+		"the 1000000000000 bytes the header states": []byte("borel-tally 2 sha256:00 bytes:1000000000000\nabc"),
 	}
 	for want, data := range cases {
 		if _, err := ReadShard(bytes.NewReader(data), "s1"); err == nil || !strings.Contains(err.Error(), want) {
@@ -416,15 +422,10 @@ func mergedHalves(t *testing.T, spec Spec, offset int64, d []byte, cut int) (*Ta
 	return Merge(a, b)
 }
 
-// same reports whether two tallies hold the same counts (byte counters
-// folded in first).
-func same(a, b *Tally) bool {
-	a.Settle()
-	b.Settle()
-	return reflect.DeepEqual(a, b)
-}
+// same reports whether two tallies hold the same stretch and records.
+func same(a, b *Tally) bool { return Equal(a, b) }
 
-// Every table through the byte counters (hot.go), including wrap-arounds
+// Every table through the byte counters (windows.go, blocks.go), including wrap-arounds
 // past 255: merges, worker counts and shards must give the same tallies as
 // with 64-bit counting only.
 func TestHotCountersExact(t *testing.T) {
@@ -464,7 +465,7 @@ func TestHotCountersExact(t *testing.T) {
 }
 
 // TestDerived: lag products from the K-windows and poker hands from the
-// block counts (derive, hot.go) equal the definitions, for stretches at any
+// block counts (settle: blocks.go, hands.go, lags.go) equal the definitions, for stretches at any
 // offset, shorter than K or not, and after merges.
 func TestDerived(t *testing.T) {
 	rng := rand.New(rand.NewPCG(41, 42))
@@ -472,23 +473,22 @@ func TestDerived(t *testing.T) {
 		base := 2 + rng.IntN(4)
 		H := 1 + rng.IntN(4)
 		h := 2 + rng.IntN(3)
-		spec := Spec{Base: base, MaxBlock: max(H+1, h) + rng.IntN(4), Lags: H, PokerHand: h, RunDigit: 0}
-		if !spec.lagsDerived() || !spec.pokerDerived() {
-			t.Fatalf("spec %+v does not derive both records", spec)
-		}
+		spec := Spec{Base: base, MaxBlock: max(H+1, h) + rng.IntN(4), Records: []RecordSpec{&LagSpec{Max: H}, &HandSpec{Size: h}}}
 		n := 1 + rng.IntN(400)
 		offset := int64(rng.IntN(50))
 		d := randomDigits(rng, n, base)
 		tl := mustNew(t, spec, offset)
 		tl.Add(d)
-		tl.Settle()
+		if !tl.Lags().derived() || !tl.Hands().derived() {
+			t.Fatalf("spec %+v does not derive both records", spec)
+		}
 		for lag := 1; lag <= H; lag++ {
 			var want int64
 			for i := 0; i+lag < n; i++ {
 				want += int64(d[i]) * int64(d[i+lag])
 			}
-			if tl.LagProd[lag] != want {
-				t.Fatalf("trial %d (n %d, K %d): lag %d product %d, want %d", trial, n, spec.MaxBlock, lag, tl.LagProd[lag], want)
+			if got := tl.Lags().Products[lag]; got != want {
+				t.Fatalf("trial %d (n %d, K %d): lag %d product %d, want %d", trial, n, spec.MaxBlock, lag, got, want)
 			}
 		}
 		for k := 2; k <= spec.MaxBlock; k++ {
@@ -498,7 +498,7 @@ func TestDerived(t *testing.T) {
 					want[value(d[i:i+k], base)]++
 				}
 			}
-			if !slices.Equal(tl.Blocks[k], want) {
+			if !slices.Equal(tl.BlockCounts(k), want) {
 				t.Fatalf("trial %d (n %d, offset %d, K %d): blocks of %d differ from the definition (source %d)",
 					trial, n, offset, spec.MaxBlock, k, spec.blocksSource(k))
 			}
@@ -509,8 +509,8 @@ func TestDerived(t *testing.T) {
 				poker[distinct(d[i:i+h])]++
 			}
 		}
-		if !slices.Equal(tl.Poker, poker) {
-			t.Fatalf("trial %d (n %d, offset %d): poker %v, want %v", trial, n, offset, tl.Poker, poker)
+		if got := tl.Hands().Counts; !slices.Equal(got, poker) {
+			t.Fatalf("trial %d (n %d, offset %d): poker %v, want %v", trial, n, offset, got, poker)
 		}
 		if n > 2 {
 			cut := 1 + rng.IntN(n-1)
@@ -597,10 +597,10 @@ func TestTraceDefinition(t *testing.T) {
 				want = append(want, p)
 			}
 		}
-		if len(tl.Trace) != len(want) {
-			t.Fatalf("trial %d: %d checkpoints, want %d", trial, len(tl.Trace), len(want))
+		if len(tl.Trace()) != len(want) {
+			t.Fatalf("trial %d: %d checkpoints, want %d", trial, len(tl.Trace()), len(want))
 		}
-		for i, tp := range tl.Trace {
+		for i, tp := range tl.Trace() {
 			counts := make([]int64, 10)
 			for _, x := range d[:tp.Pos-offset] {
 				counts[x]++

@@ -41,7 +41,11 @@ func TestValidShardsAccepted(t *testing.T) {
 	for trial := range 400 {
 		base := 2 + rng.IntN(9)
 		spec := randomSpec(rng, base, 1+rng.IntN(3))
-		spec.SkipGaps, spec.SkipRuns, spec.SkipWalk = rng.IntN(5) == 0, rng.IntN(5) == 0, rng.IntN(5) == 0
+		for _, kind := range []string{"gaps", "runs", "walk", "poker", "coupon"} {
+			if rng.IntN(5) == 0 {
+				spec = spec.Without(kind)
+			}
+		}
 		if rng.IntN(3) == 0 {
 			spec.BlocksMax = 1 + rng.IntN(spec.MaxBlock)
 		}
@@ -67,38 +71,47 @@ func TestValidShardsAccepted(t *testing.T) {
 func TestDamagedShardsRefused(t *testing.T) {
 	rng := rand.New(rand.NewPCG(12, 2))
 	spec := randomSpec(rng, 6, 3)
-	spec.WalkHull = true
+	spec = spec.With(&WalkSpec{Hull: true})
 	fresh := func() *Tally {
 		r := rand.New(rand.NewPCG(3, 4))
 		tl := randomStretch(r, spec, 40, 400)
-		tl.Settle()
+		tl.settle()
 		return tl
 	}
 	damages := map[string]func(*Tally){
-		"coupon histogram one cell longer":  func(x *Tally) { x.Coupon.Hist = append(x.Coupon.Hist, 0) },
-		"coupon histogram one cell shorter": func(x *Tally) { x.Coupon.Hist = x.Coupon.Hist[:len(x.Coupon.Hist)-1] },
-		"poker table one cell longer":       func(x *Tally) { x.Poker = append(x.Poker, 1) },
-		"lag table one cell shorter":        func(x *Tally) { x.LagProd = x.LagProd[:1] },
-		"trace counts one short":            func(x *Tally) { x.Trace[2].Counts = x.Trace[2].Counts[:5] },
-		"negative digit count":              func(x *Tally) { x.Digits[0], x.Digits[1] = -1, x.Digits[1]+x.Digits[0]+1 },
-		"digit counts off by one":           func(x *Tally) { x.Digits[3]++ },
-		"window count moved off the sum":    func(x *Tally) { x.Overlap[7]++ },
-		"block count moved off the sum":     func(x *Tally) { x.Blocks[2][3]++ },
+		"coupon histogram one cell longer":  func(x *Tally) { x.Coupons().Hist = append(x.Coupons().Hist, 0) },
+		"coupon histogram one cell shorter": func(x *Tally) { x.Coupons().Hist = x.Coupons().Hist[:len(x.Coupons().Hist)-1] },
+		"poker table one cell longer":       func(x *Tally) { x.Hands().Counts = append(x.Hands().Counts, 1) },
+		"lag table one cell shorter":        func(x *Tally) { x.Lags().Products = x.Lags().Products[:1] },
+		"trace counts one short":            func(x *Tally) { x.dig.Trace[2].Counts = x.dig.Trace[2].Counts[:5] },
+		"negative digit count":              func(x *Tally) { x.dig.Counts[0], x.dig.Counts[1] = -1, x.dig.Counts[1]+x.dig.Counts[0]+1 },
+		"digit counts off by one":           func(x *Tally) { x.dig.Counts[3]++ },
+		"window count moved off the sum":    func(x *Tally) { x.win.Counts[7]++ },
+		"block count moved off the sum":     func(x *Tally) { x.blk.Counts[2][3]++ },
 		"tail digit above the base":         func(x *Tally) { x.Tail[0] = 6 },
 		"head digit above the base":         func(x *Tally) { x.Head[1] = 200 },
-		"gap after the stretch":             func(x *Tally) { x.Gaps[0].Last = x.N + 5 },
-		"gap histogram one gap more":        func(x *Tally) { x.Gaps[1].Hist[0]++ },
-		"run longer than the stretch":       func(x *Tally) { x.RunAny.Max = x.N + 1 },
-		"hull point out of order":           func(x *Tally) { x.Walk.Upper[1].K = x.Walk.Upper[0].K },
-		"walk sum above the digits":         func(x *Tally) { x.Walk.Sum = x.N * 6 },
-		"trace points out of order":         func(x *Tally) { x.Trace[1], x.Trace[2] = x.Trace[2], x.Trace[1] },
-		"coupon head digit above the base":  func(x *Tally) { x.Coupon.Head = append(x.Coupon.Head[:0:0], 9) },
-		"coupon state seen beyond classes":  func(x *Tally) { x.Coupon.Seen = 1 << 20 },
-		"up/down values off":                func(x *Tally) { x.UDValues++ },
+		"gap after the stretch":             func(x *Tally) { x.Gaps().Classes[0].Last = x.N + 5 },
+		"gap histogram one gap more":        func(x *Tally) { x.Gaps().Classes[1].Hist[0]++ },
+		"run longer than the stretch":       func(x *Tally) { x.Runs().Any.Max = x.N + 1 },
+		"hull point out of order":           func(x *Tally) { x.Walk().Upper[1].K = x.Walk().Upper[0].K },
+		"walk sum above the digits":         func(x *Tally) { x.Walk().Sum = x.N * 6 },
+		"trace points out of order":         func(x *Tally) { x.dig.Trace[1], x.dig.Trace[2] = x.dig.Trace[2], x.dig.Trace[1] },
+		"coupon head digit above the base":  func(x *Tally) { x.Coupons().Head = append(x.Coupons().Head[:0:0], 9) },
+		"coupon state seen beyond classes":  func(x *Tally) { x.Coupons().Seen = 1 << 20 },
+		"up/down values off":                func(x *Tally) { x.UpDown().Values++ },
 		"offset negative":                   func(x *Tally) { x.Offset = -1 },
 		"length beyond the counts":          func(x *Tally) { x.N++ },
-		"gap cap absurd":                    func(x *Tally) { x.GapCap = 1 << 30 },
-		"coupon class beyond the count":     func(x *Tally) { x.CouponClass[0] = 31 },
+		"gap cap absurd":                    func(x *Tally) { x.Spec = x.Spec.With(&GapSpec{Cap: 1 << 30}) },
+		"coupon class beyond the count": func(x *Tally) {
+			c := *x.Spec.Record("coupon").(*CouponSpec)
+			c.Class = append([]int{31}, c.Class[1:]...)
+			x.Spec = x.Spec.With(&c)
+		},
+		"unknown record kind":          func(x *Tally) { x.Spec = x.Spec.With(&bogusSpec{}) },
+		"record entry of another kind": func(x *Tally) { x.recs[3], x.recs[4] = x.recs[4], x.recs[3] },
+		"one record entry missing":     func(x *Tally) { x.recs = x.recs[:len(x.recs)-1] },
+		"head longer than the seams":   func(x *Tally) { x.Head = append(x.Head, 0) },
+		"windows of length 40":         func(x *Tally) { x.Spec.MaxBlock = 40 },
 	}
 	if _, err := roundTrip(fresh()); err != nil {
 		t.Fatalf("the undamaged shard is refused: %v", err)
@@ -116,3 +129,9 @@ func TestDamagedShardsRefused(t *testing.T) {
 		}
 	}
 }
+
+// bogusSpec is a record kind this borel does not know (a shard from a
+// newer one, or damage).
+type bogusSpec struct{ GapSpec }
+
+func (*bogusSpec) Kind() string { return "bogus" }

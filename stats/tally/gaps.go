@@ -1,0 +1,230 @@
+package tally
+
+import (
+	"encoding/json"
+	"fmt"
+	"slices"
+)
+
+// DefaultGapCap is the gap length from which gaps are tallied together in
+// one tail cell. A gap check never needs classes beyond it: at q = 1/36 and
+// 10^9 digits the validity rule G(1-q)^t ≥ 5 stops at t ≈ 550.
+const DefaultGapCap = 2048
+
+const maxGapCap = 1 << 20 // beyond it a decoded shard is damaged
+
+// GapSpec asks for the gap record: Class maps each digit to its gap class
+// (len Base; nil: one class per digit); gaps of Cap or more other digits
+// share the last cell (0: DefaultGapCap).
+type GapSpec struct {
+	Class []int `json:"class,omitempty"`
+	Cap   int   `json:"cap"`
+}
+
+func init() { registerKind("gaps", func() RecordSpec { return new(GapSpec) }) }
+
+func (s *GapSpec) Kind() string { return "gaps" }
+
+func (s *GapSpec) gapCap() int {
+	if s.Cap <= 0 {
+		return DefaultGapCap
+	}
+	return s.Cap
+}
+
+func (s *GapSpec) classes(b int) int {
+	if s.Class == nil {
+		return b
+	}
+	return slices.Max(s.Class) + 1
+}
+
+func (s *GapSpec) validate(b int) error {
+	if s.Cap < 0 || s.Cap > maxGapCap {
+		return fmt.Errorf("gap cap %d is out of range", s.Cap)
+	}
+	if s.Class != nil {
+		if len(s.Class) != b {
+			return fmt.Errorf("%d gap classes given for base %d", len(s.Class), b)
+		}
+		for _, c := range s.Class {
+			if c < 0 || c >= b {
+				return fmt.Errorf("gap class %d is out of range", c)
+			}
+		}
+	}
+	return nil
+}
+
+func (s *GapSpec) span() int { return 1 }
+
+func (s *GapSpec) cells(b int) float64 { return float64(s.classes(b) * (s.gapCap() + 1)) }
+
+func (s *GapSpec) newRecord(sp *Spec, _ int64) record {
+	r := &Gaps{GapSpec: *s, Classes: make([]GapTally, s.classes(sp.Base))}
+	for i := range r.Classes {
+		r.Classes[i].Hist = make([]int64, s.gapCap()+1)
+	}
+	return r
+}
+
+// Gaps is the gap record: one GapTally per digit class.
+type Gaps struct {
+	GapSpec
+	Classes []GapTally
+}
+
+// GapTally is the gap record of one digit class: Hist[r] counts complete gaps
+// of r other digits between consecutive occurrences (r < cap) and Hist[cap]
+// the gaps of cap or more. First and Last are the local positions of the
+// first and last occurrence (valid when Seen).
+type GapTally struct {
+	Hist        []int64
+	Seen        bool
+	First, Last int64
+}
+
+// Gaps returns the gap record, or nil when the tally has none.
+func (t *Tally) Gaps() *Gaps { t.settle(); r, _ := t.find("gaps").(*Gaps); return r }
+
+// CapLength returns the gap length from which gaps share the last cell.
+func (r *Gaps) CapLength() int { return r.gapCap() }
+
+func (r *Gaps) kind() string { return "gaps" }
+
+func (r *Gaps) kernels(t *Tally) []kernel {
+	return []kernel{{"gaps", 2, func(d []byte) { r.add(d, t.N) }}}
+}
+
+// add extends each class's gap record over d (d[0] at local position n),
+// with the positions of the last occurrences in a local array (−1: not
+// seen yet).
+func (r *Gaps) add(d []byte, n int64) {
+	cap64 := int64(r.gapCap())
+	var last [256]int64
+	hists := make([][]int64, len(r.Classes))
+	for c := range r.Classes {
+		last[c] = -1
+		if r.Classes[c].Seen {
+			last[c] = r.Classes[c].Last
+		}
+		hists[c] = r.Classes[c].Hist
+	}
+	class := r.Class
+	for i, x := range d {
+		c := int(x)
+		if class != nil {
+			c = class[x]
+		}
+		pos := n + int64(i)
+		if l := last[c]; l >= 0 {
+			hists[c][min(pos-l-1, cap64)]++
+		} else {
+			r.Classes[c].Seen, r.Classes[c].First = true, pos
+		}
+		last[c] = pos
+	}
+	for c := range r.Classes {
+		if last[c] >= 0 {
+			r.Classes[c].Last = last[c]
+		}
+	}
+}
+
+// merge joins each class's records: the gap between a's last and b's first
+// occurrence is the one that crosses the cut.
+func (r *Gaps) merge(next record, sm *seam) {
+	n := next.(*Gaps)
+	capIdx, na := int64(r.gapCap()), sm.a.N
+	for c := range r.Classes {
+		ga, gb := &r.Classes[c], &n.Classes[c]
+		addInto(ga.Hist, gb.Hist)
+		if !gb.Seen {
+			continue
+		}
+		if ga.Seen {
+			gap := (na - 1 - ga.Last) + gb.First
+			ga.Hist[min(gap, capIdx)]++
+		} else {
+			ga.Seen, ga.First = true, na+gb.First
+		}
+		ga.Last = na + gb.Last
+	}
+}
+
+func (r *Gaps) clone() record {
+	u := &Gaps{GapSpec: r.GapSpec, Classes: make([]GapTally, len(r.Classes))}
+	for i, g := range r.Classes {
+		u.Classes[i] = g
+		u.Classes[i].Hist = slices.Clone(g.Hist)
+	}
+	return u
+}
+
+func (r *Gaps) settle(*Tally) {}
+
+type gapEntry struct {
+	Hist  table `json:"hist"`
+	Seen  bool  `json:"seen"`
+	First int64 `json:"first"`
+	Last  int64 `json:"last"`
+}
+
+func (r *Gaps) entry() any {
+	e := []gapEntry{}
+	for _, g := range r.Classes {
+		e = append(e, gapEntry{g.Hist, g.Seen, g.First, g.Last})
+	}
+	return e
+}
+
+func (r *Gaps) decode(data json.RawMessage) error {
+	var e []gapEntry
+	if err := json.Unmarshal(data, &e); err != nil {
+		return err
+	}
+	r.Classes = nil
+	for _, g := range e {
+		r.Classes = append(r.Classes, GapTally{g.Hist, g.Seen, g.First, g.Last})
+	}
+	return nil
+}
+
+// check: per class, a histogram of cap+1 cells holding one gap fewer than
+// the class's occurrences, and first ≤ last inside the stretch.
+func (r *Gaps) check(t *Tally) error {
+	classes := r.classes(t.Base)
+	if len(r.Classes) != classes {
+		return fmt.Errorf("%d gap records for %d classes", len(r.Classes), classes)
+	}
+	occ := make([]int64, classes)
+	for d, n := range t.dig.Counts {
+		c := d
+		if r.Class != nil {
+			c = r.Class[d]
+		}
+		occ[c] += n
+	}
+	for c, g := range r.Classes {
+		if len(g.Hist) != r.gapCap()+1 {
+			return fmt.Errorf("gap histogram of %d cells, want %d", len(g.Hist), r.gapCap()+1)
+		}
+		sum, err := nonNegative("a gap histogram", g.Hist)
+		if err != nil {
+			return err
+		}
+		if g.Seen != (occ[c] > 0) {
+			return fmt.Errorf("gap class %d is marked %v with %d occurrences", c, g.Seen, occ[c])
+		}
+		if !g.Seen {
+			if sum != 0 {
+				return fmt.Errorf("gap class %d has gaps but no occurrence", c)
+			}
+			continue
+		}
+		if sum != occ[c]-1 || g.First < 0 || g.First > g.Last || g.Last >= t.N {
+			return fmt.Errorf("gap record of class %d does not fit its %d occurrences", c, occ[c])
+		}
+	}
+	return nil
+}
