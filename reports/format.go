@@ -50,27 +50,11 @@ func formatDF(df float64) string {
 	return strconv.FormatFloat(df, 'f', -1, 64)
 }
 
-// statisticNames is the one table of the printed names of statistic
-// identifiers: as text (terminal, Markdown, CSV, HTML) and as LaTeX. An
-// identifier missing here is printed as it is (escaped for LaTeX).
-var statisticNames = map[string]struct{ text, tex string }{
-	"X2":        {"X²", `$X^2$`},
-	"G":         {"G", `$G$`},
-	"dpsi2":     {"∇ψ²", `$\nabla\psi^2$`},
-	"d2psi2":    {"∇²ψ²", `$\nabla^2\psi^2$`},
-	"z":         {"z", `$z$`},
-	"Q":         {"Q", `$Q$`},
-	"run_any":   {"L (any digit)", `$L$ (any digit)`},
-	"run_digit": {"L", `$L$`},
-	"M":         {"max|S|/√n", `$\max|S|/\sqrt{n}$`},
-	"KS":        {"KS", `$D$ (KS)`},
-	"AD":        {"AD", `$A^2$ (AD)`},
-}
-
-// statisticName gives the printed name of a statistic identifier.
+// statisticName gives the printed name of a statistic identifier: the
+// name its check declares (checks.StatisticName), else the identifier.
 func statisticName(id string) string {
-	if n, ok := statisticNames[id]; ok {
-		return n.text
+	if n, ok := checks.StatisticName(id); ok {
+		return n.Text
 	}
 	return id
 }

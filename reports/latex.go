@@ -7,6 +7,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"borel/stats/checks"
 )
 
 // texEscape makes text safe in a LaTeX paragraph: the ten special
@@ -40,10 +42,10 @@ var texRunes = map[rune]string{
 	'ψ': `$\psi$`, '∇': `$\nabla$`, 'π': `$\pi$`, 'χ': `$\chi$`, 'α': `$\alpha$`,
 }
 
-// texStatistic writes a statistic's name in math mode (statisticNames).
+// texStatistic writes a statistic's name in math mode (checks.StatisticName).
 func texStatistic(id string) string {
-	if n, ok := statisticNames[id]; ok {
-		return n.tex
+	if n, ok := checks.StatisticName(id); ok {
+		return n.TeX
 	}
 	return texEscape(id)
 }

@@ -5,7 +5,6 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
-	"strings"
 
 	"borel/stats"
 	"borel/stats/checks"
@@ -86,28 +85,30 @@ func (s *segmenter) Segments() ([]*tally.Tally, error) {
 	return out, nil
 }
 
-// segmentSpec is the tally of one segment: the battery's parameters with
-// blocks up to 2 (1 above base 36), and no gap or coupon records, whose
-// checks the second level does not run.
+// segmentSpec is the tally of one segment: blocks up to 2 (1 above base
+// 36) and the records of the checks the second level runs (Segmented),
+// with the battery's parameters.
 func segmentSpec(full tally.Spec) tally.Spec {
-	s := full.Without("gaps").Without("coupon")
-	s.MaxBlock = 2
+	s := tally.Spec{Base: full.Base, MaxBlock: 2, BlocksMax: full.BlocksMax}
 	if s.Base > 36 {
 		s.MaxBlock = 1
 	}
+	kinds := map[string]bool{}
+	for _, c := range checks.All() {
+		if _, ok := c.(checks.Segmented); ok {
+			// The kinds only: a check's parameters are those of the
+			// battery (its Needs at this base and null).
+			for _, r := range c.Needs(checks.Setting{Base: full.Base}).Records {
+				kinds[r.Kind()] = true
+			}
+		}
+	}
+	for _, r := range full.Records {
+		if kinds[r.Kind()] {
+			s.Records = append(s.Records, r)
+		}
+	}
 	return s
-}
-
-// secondLevelStatistics are the first-level statistics tested per segment.
-var secondLevelStatistics = map[string]bool{
-	"freq X2 k=1": true, "serial dpsi2 k=2": true, "updown z": true, "drift M": true,
-	"maxrun run_any": true,
-}
-
-func isSecondLevel(f checks.Finding) bool {
-	l := f.Label()
-	return secondLevelStatistics[l] || strings.HasPrefix(l, "poker X2") ||
-		strings.HasPrefix(l, "lagcorr Q") || strings.HasPrefix(l, "updown z")
 }
 
 // secondLevel runs the segment checks and tests each statistic's segment
@@ -127,24 +128,23 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 		}
 		in := checks.Input{Tally: seg, Cyclic: cyc, Null: null,
 			Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
-		var out checks.Result
 		for _, c := range checks.All() {
-			switch c.Name() {
-			case "freq", "serial", "poker", "updown", "lagcorr", "drift", "maxrun":
-				if opts.selected(c.Name()) {
-					c.Run(in, &out)
-				}
-			}
-		}
-		for _, f := range out.Findings {
-			if !isSecondLevel(f) {
+			sc, ok := c.(checks.Segmented)
+			if !ok || !opts.selected(c.Name()) {
 				continue
 			}
-			l := f.Label()
-			if _, ok := perStat[l]; !ok {
-				order = append(order, l)
+			var out checks.Result
+			c.Run(in, &out)
+			for _, f := range out.Findings {
+				if !sc.SegmentStatistic(f) {
+					continue
+				}
+				l := f.Label()
+				if _, ok := perStat[l]; !ok {
+					order = append(order, l)
+				}
+				perStat[l] = append(perStat[l], checks.RandomizedP(f, rng.Float64()))
 			}
-			perStat[l] = append(perStat[l], checks.RandomizedP(f, rng.Float64()))
 		}
 	}
 	sort.Strings(order)

@@ -121,6 +121,52 @@ type Check interface {
 	Run(in Input, out *Result)
 }
 
+// Segmented is implemented by a check whose statistics the second level
+// also forms in each segment (audit.Options.Segments): SegmentStatistic
+// tells which of its findings are tested for uniform segment p-values.
+// A segment's tally has blocks up to 2 only, and the records of the
+// segmented checks.
+type Segmented interface {
+	Check
+	SegmentStatistic(f Finding) bool
+}
+
+// Named is implemented by a check that introduces statistic identifiers of
+// its own: their printed names, as text and as LaTeX (StatisticName).
+type Named interface {
+	StatisticNames() map[string]StatName
+}
+
+// StatName is the printed name of a statistic identifier.
+type StatName struct{ Text, TeX string }
+
+// commonNames are the identifiers several checks share.
+var commonNames = map[string]StatName{
+	"X2": {"X²", `$X^2$`},
+	"G":  {"G", `$G$`},
+	"z":  {"z", `$z$`},
+	"Q":  {"Q", `$Q$`},
+	"KS": {"KS", `$D$ (KS)`},
+	"AD": {"AD", `$A^2$ (AD)`},
+}
+
+// StatisticName returns the printed name of a statistic identifier, from
+// the shared names and those the checks declare (Named); ok is false for
+// an identifier nobody names (it is then printed as it is).
+func StatisticName(id string) (StatName, bool) {
+	if n, ok := commonNames[id]; ok {
+		return n, true
+	}
+	for _, c := range All() {
+		if nc, ok := c.(Named); ok {
+			if n, ok := nc.StatisticNames()[id]; ok {
+				return n, true
+			}
+		}
+	}
+	return StatName{}, false
+}
+
 // Setting is what a check's records may depend on before the data are
 // seen: the base and the null as the user gave it (P only for a stated
 // vector).

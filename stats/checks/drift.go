@@ -28,6 +28,14 @@ var _ Check = driftCheck{}
 
 func (driftCheck) Name() string { return "drift" }
 
+// SegmentStatistic: the largest excursion M.
+func (driftCheck) SegmentStatistic(f Finding) bool { return f.Statistic == "M" }
+
+// StatisticNames: the walk's largest excursion.
+func (driftCheck) StatisticNames() map[string]StatName {
+	return map[string]StatName{"M": {"max|S|/√n", `$\max|S|/\sqrt{n}$`}}
+}
+
 // Needs: the walk, with its hulls unless the null is uniform (the drift
 // against an estimated or stated mean needs them).
 func (driftCheck) Needs(s Setting) Needs {

@@ -28,6 +28,9 @@ var _ Check = freqCheck{}
 
 func (freqCheck) Name() string { return "freq" }
 
+// SegmentStatistic: X² of the digit frequencies.
+func (freqCheck) SegmentStatistic(f Finding) bool { return f.Label() == "freq X2 k=1" }
+
 // Needs: the digit counts only, which every tally has.
 func (freqCheck) Needs(Setting) Needs { return Needs{} }
 

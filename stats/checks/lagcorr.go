@@ -26,6 +26,9 @@ var _ Check = lagcorrCheck{}
 
 func (lagcorrCheck) Name() string { return "lagcorr" }
 
+// SegmentStatistic: the portmanteau Q.
+func (lagcorrCheck) SegmentStatistic(f Finding) bool { return f.Statistic == "Q" }
+
 // Needs: the lag products at lags 1..5 (the digit sum comes from the
 // digit counts).
 func (lagcorrCheck) Needs(Setting) Needs {

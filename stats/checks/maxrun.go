@@ -25,6 +25,14 @@ var _ Check = maxrunCheck{}
 
 func (maxrunCheck) Name() string { return "maxrun" }
 
+// SegmentStatistic: the longest run of any digit.
+func (maxrunCheck) SegmentStatistic(f Finding) bool { return f.Statistic == "run_any" }
+
+// StatisticNames: the longest runs.
+func (maxrunCheck) StatisticNames() map[string]StatName {
+	return map[string]StatName{"run_any": {"L (any digit)", `$L$ (any digit)`}, "run_digit": {"L", `$L$`}}
+}
+
 // Needs: the longest runs of identical digits and of digit b−1.
 func (maxrunCheck) Needs(s Setting) Needs {
 	return Needs{Records: []tally.RecordSpec{&tally.RunSpec{Digit: s.Base - 1}}}

@@ -27,6 +27,9 @@ var _ Check = pokerCheck{}
 
 func (pokerCheck) Name() string { return "poker" }
 
+// SegmentStatistic: the poker X².
+func (pokerCheck) SegmentStatistic(f Finding) bool { return f.Statistic == "X2" }
+
 // Needs: hands of 5 digits (4 below base 5).
 func (pokerCheck) Needs(s Setting) Needs {
 	h := 5

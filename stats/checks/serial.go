@@ -34,6 +34,14 @@ var _ Check = serialCheck{}
 
 func (serialCheck) Name() string { return "serial" }
 
+// SegmentStatistic: Good's ∇ψ² of pairs.
+func (serialCheck) SegmentStatistic(f Finding) bool { return f.Label() == "serial dpsi2 k=2" }
+
+// StatisticNames: Good's first and second differences of ψ².
+func (serialCheck) StatisticNames() map[string]StatName {
+	return map[string]StatName{"dpsi2": {"∇ψ²", `$\nabla\psi^2$`}, "d2psi2": {"∇²ψ²", `$\nabla^2\psi^2$`}}
+}
+
 // Needs: the overlapping windows (their cyclic tables).
 func (serialCheck) Needs(Setting) Needs { return Needs{Windows: true} }
 

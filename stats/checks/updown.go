@@ -28,6 +28,9 @@ var _ Check = updownCheck{}
 
 func (updownCheck) Name() string { return "updown" }
 
+// SegmentStatistic: the run count's z.
+func (updownCheck) SegmentStatistic(f Finding) bool { return f.Statistic == "z" }
+
 // Needs: values of as many digits as a 63-bit integer holds, so that ties
 // are negligible.
 func (updownCheck) Needs(s Setting) Needs {
