@@ -1,7 +1,6 @@
 package main
 
 import (
-	"borel/stats/tally"
 	"bufio"
 	"encoding/hex"
 	"fmt"
@@ -9,20 +8,23 @@ import (
 	"os"
 	"runtime"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/spf13/pflag"
 
 	"borel/stats/audit"
+	"borel/stats/checks"
 	"borel/stats/expand"
 	"borel/stats/seq"
+	"borel/stats/tally"
 )
 
-const auditHelp = `Usage: borel audit FILE|- [options]
+// auditHelp is the help of borel audit; the battery's list is the checks'
+// own (checks.All), so a new check appears in it.
+var auditHelp = `Usage: borel audit FILE|- [options]
 
 Reads a digit sequence from FILE (gzip-compressed or not) or from standard input (-),
-runs the battery (freq, blocks, serial, gap, poker, coupon, updown, lagcorr, maxrun, drift,
-entropy) against the null, adjusts the p-values of every finding in both tails, and gives
-the verdict: consistent, not consistent, or too uniform.
+` + wrap("runs the battery ("+strings.Join(checkNames(), ", ")+") against the null, adjusts the p-values of every finding in both tails, and gives the verdict: consistent, not consistent, or too uniform.", 91) + `
 
 Text input holds digits 0-9 then a-z (either case) in base 2..36; whitespace is ignored;
 an integer part and radix point may open it ("3.14159...") and are dropped. --bits reads
@@ -255,4 +257,31 @@ func splitList(s string) []string {
 		}
 	}
 	return out
+}
+
+// checkNames returns the names of the battery's checks, in report order.
+func checkNames() []string {
+	var names []string
+	for _, c := range checks.All() {
+		names = append(names, c.Name())
+	}
+	return names
+}
+
+// wrap breaks text into lines of at most width characters at spaces.
+func wrap(text string, width int) string {
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(text) {
+		switch {
+		case line == "":
+			line = w
+		case utf8.RuneCountInString(line)+1+utf8.RuneCountInString(w) <= width:
+			line += " " + w
+		default:
+			lines = append(lines, line)
+			line = w
+		}
+	}
+	return strings.Join(append(lines, line), "\n")
 }

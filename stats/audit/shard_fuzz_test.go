@@ -88,13 +88,12 @@ func damage(t *tally.Tally, ops []byte) {
 			if u := t.UpDown(); u != nil {
 				u.Values, u.Ties, u.Turns = u.Values+x%2, u.Ties+x%3, u.Turns+x
 			}
-		case 8:
-			if r := t.Runs(); r != nil {
-				r.Any.Max, r.Any.Lead, r.Any.Trail = r.Any.Max+x, r.Any.Lead+x%2, r.Any.Trail+x%3
-			}
-		case 9:
-			if r := t.Runs(); r != nil {
-				r.Dig.Max, r.Dig.Lead = r.Dig.Max+x, r.Dig.Lead+x%2
+		case 8: // the seams swapped
+			t.Head, t.Tail = t.Tail, t.Head
+		case 9: // a window count moved to another cell
+			if c := t.Windows(); len(c) > 1 {
+				c[int(i)%len(c)]--
+				c[int(x&0x7fff)%len(c)]++
 			}
 		case 10:
 			if w := t.Walk(); w != nil {
@@ -164,10 +163,8 @@ func damage(t *tally.Tally, ops []byte) {
 			t.MaxBlock += int(x % 3)
 		case 28:
 			t.BlocksMax += int(x % 3)
-		case 29:
-			if r, ok := t.Spec.Record("runs").(*tally.RunSpec); ok {
-				set(&tally.RunSpec{Digit: r.Digit + int(x%11)})
-			}
+		case 29: // the stretch moved by a block length
+			t.Offset += int64(t.MaxBlock) * (x % 3)
 		case 30:
 			t.Base += int(x % 3)
 		case 31:

@@ -256,24 +256,6 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			}
 		}
 
-		var maxAny, maxDig, run, runD int64
-		for i, x := range d {
-			if i > 0 && x == d[i-1] {
-				run++
-			} else {
-				run = 1
-			}
-			if int(x) == spec.Record("runs").(*RunSpec).Digit {
-				runD++
-			} else {
-				runD = 0
-			}
-			maxAny, maxDig = max(maxAny, run), max(maxDig, runD)
-		}
-		if runs := tl.Runs(); runs.Any.Max != maxAny || runs.Dig.Max != maxDig {
-			t.Fatalf("trial %d: runs %d %d, want %d %d", trial, runs.Any.Max, runs.Dig.Max, maxAny, maxDig)
-		}
-
 		// Walk: max over k of T_k - kμ for a few μ, from the hull or the extremes.
 		var sum int64
 		umax, umin := int64(0), int64(0)

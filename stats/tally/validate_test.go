@@ -92,7 +92,6 @@ func TestDamagedShardsRefused(t *testing.T) {
 		"head digit above the base":         func(x *Tally) { x.Head[1] = 200 },
 		"gap after the stretch":             func(x *Tally) { x.Gaps().Classes[0].Last = x.N + 5 },
 		"gap histogram one gap more":        func(x *Tally) { x.Gaps().Classes[1].Hist[0]++ },
-		"run longer than the stretch":       func(x *Tally) { x.Runs().Any.Max = x.N + 1 },
 		"hull point out of order":           func(x *Tally) { x.Walk().Upper[1].K = x.Walk().Upper[0].K },
 		"walk sum above the digits":         func(x *Tally) { x.Walk().Sum = x.N * 6 },
 		"trace points out of order":         func(x *Tally) { x.dig.Trace[1], x.dig.Trace[2] = x.dig.Trace[2], x.dig.Trace[1] },
