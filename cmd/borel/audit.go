@@ -99,7 +99,7 @@ func runAudit(e env, args []string) (int, error) {
 		}
 		opt.Base = b
 	}
-	opts := audit.DefaultOptions()
+	opts := auditDefaults()
 	var err error
 	if opts.Null, err = parseNull(*null, opt.Base); err != nil {
 		return 0, err
@@ -209,7 +209,7 @@ func unwrapPathError(err error) error {
 func tallyInput(e env, input string, in io.Reader, src *audit.Source, opt seq.Options, plan *audit.Plan, offset int64, quiet bool, accept func(*seq.Reader) error) (*tally.Tally, error) {
 	opt.Source = src.Name
 	hash := newAsyncHash()
-	r, err := seq.NewReader(io.TeeReader(in, hash), opt)
+	r, err := newReader(io.TeeReader(in, hash), opt)
 	if err == nil && accept != nil {
 		err = accept(r)
 	}

@@ -50,7 +50,7 @@ func runCompare(e env, args []string) (int, error) {
 	if *count < 1 {
 		return 0, usagef("--count %d: give the number of digits, 1 or more", *count)
 	}
-	opts := audit.DefaultOptions()
+	opts := auditDefaults()
 	if opts.Alpha, err = parseAlpha(*alpha); err != nil {
 		return 0, err
 	}

@@ -100,7 +100,7 @@ func runDemo(e env, args []string) (int, error) {
 		if err != nil {
 			return 0, fmt.Errorf("demo sequence %s: %v", s.name, err)
 		}
-		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1, Parameters: s.params, Checks: checks}, audit.DefaultOptions())
+		res, err := audit.Digits(d, 10, audit.Source{Name: s.name, Kind: "built-in", Bytes: -1, Parameters: s.params, Checks: checks}, auditDefaults())
 		if err != nil {
 			return 0, err
 		}

@@ -201,7 +201,7 @@ func readAllDigits(e env, input string, base int) ([]byte, string, error) {
 		}
 		in, name = bufio.NewReader(f), input
 	}
-	r, err := seq.NewReader(in, seq.Options{Source: name, Base: base})
+	r, err := newReader(in, seq.Options{Source: name, Base: base})
 	if err != nil {
 		return nil, "", err
 	}

@@ -121,7 +121,7 @@ func auditRebased(e env, input string, from int, bases []int, opts audit.Options
 		in, name, kind, size = f, input, "file", st.Size()
 	}
 	hash := sha256.New()
-	r, err := seq.NewReader(io.TeeReader(in, hash), seq.Options{Source: name, Base: from})
+	r, err := newReader(io.TeeReader(in, hash), seq.Options{Source: name, Base: from})
 	if err != nil {
 		return nil, err
 	}
@@ -160,7 +160,7 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 	}
 	defer closeIn()
 	hash := sha256.New()
-	r, err := seq.NewReader(io.TeeReader(in, hash), seq.Options{Format: seq.Raw, Source: src.Name})
+	r, err := newReader(io.TeeReader(in, hash), seq.Options{Format: seq.Raw, Source: src.Name})
 	if err != nil {
 		return nil, err
 	}
@@ -248,7 +248,7 @@ func runAuditAcross(e env, fs interface {
 	NArg() int
 	Arg(int) string
 }, a auditAcross) (int, error) {
-	opts := audit.DefaultOptions()
+	opts := auditDefaults()
 	var err error
 	if opts.Alpha, err = parseAlpha(a.alpha); err != nil {
 		return 0, err

@@ -63,7 +63,7 @@ func runTally(e env, args []string) (int, error) {
 	} else if opt.Base, err = parseBase(*base, 2, seq.MaxTextBase, "text digits are 0-9 then a-z"); err != nil {
 		return 0, err
 	}
-	opts := audit.DefaultOptions()
+	opts := auditDefaults()
 	opts.MaxBlock = *maxBlock
 	opts.Workers = *workers
 	if opts.Null, err = parseNull(*null, opt.Base); err != nil {
@@ -132,7 +132,7 @@ func runMerge(e env, args []string) (int, error) {
 	if fs.NArg() < 1 {
 		return 0, usagef("merge needs one or more shard files; see borel merge --help")
 	}
-	opts := audit.DefaultOptions()
+	opts := auditDefaults()
 	var err error
 	if opts.Alpha, err = parseAlpha(*alpha); err != nil {
 		return 0, err

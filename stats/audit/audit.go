@@ -57,6 +57,9 @@ type Options struct {
 	// Checks, when not empty, names the only checks to run (checks.All's
 	// names); the tally then skips the loops no selected check needs.
 	Checks []string
+	// OptionName, when set, gives the name messages use for an option
+	// (OptMaxBlock, …); by default they use the field's name.
+	OptionName func(option string) string
 }
 
 // selected reports whether check name is to be run.
@@ -202,8 +205,9 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 	}
 	p := &Plan{opts: opts, Spec: batterySpec(base, opts)}
 	if opts.Segments > 0 && sizeHint >= 0 && sizeHint/int64(opts.Segments) < MinSegmentDigits {
-		return nil, fmt.Errorf("--segments %d needs at least %d digits (%d per segment); the input holds at most %d",
-			opts.Segments, int64(opts.Segments)*MinSegmentDigits, MinSegmentDigits, sizeHint)
+		return nil, optionErrorf(OptSegments, int64(opts.Segments), int64(opts.Segments)*MinSegmentDigits, sizeHint,
+			"%s %d needs at least %d digits (%d per segment); the input holds at most %d",
+			opts.name(OptSegments), opts.Segments, int64(opts.Segments)*MinSegmentDigits, MinSegmentDigits, sizeHint)
 	}
 	bytesFor := func(k int) float64 {
 		s := p.Spec
@@ -212,8 +216,9 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 	}
 	if opts.MaxBlock > 0 {
 		if need := bytesFor(opts.MaxBlock); need > float64(opts.MemoryBytes) {
-			return nil, fmt.Errorf("--max-block %d needs %s of count tables in base %d, over the memory budget of %s; lower --max-block or raise --memory",
-				opts.MaxBlock, mib(need), base, mib(float64(opts.MemoryBytes)))
+			return nil, optionErrorf(OptMaxBlock, int64(opts.MaxBlock), int64(need), opts.MemoryBytes,
+				"%s %d needs %s of count tables in base %d, over the memory budget of %s; lower %s or raise %s",
+				opts.name(OptMaxBlock), opts.MaxBlock, mib(need), base, mib(float64(opts.MemoryBytes)), opts.name(OptMaxBlock), opts.name(OptMemory))
 		}
 		p.Spec.MaxBlock = opts.MaxBlock
 		p.Spec.BlocksMax = countedBlocks(p.Spec.MaxBlock, base, sizeHint, opts)
@@ -252,7 +257,7 @@ func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
 // at 10^8 decimal digits the 10^7-cell table of k = 7 is left out, which
 // is most of the pass's memory traffic after the overlapping windows).
 // 0 (count every k ≤ K) when the length is unknown; 1 (none) when the
-// blocks check is not among the selected checks (--checks).
+// blocks check is not among the selected checks (Options.Checks).
 func countedBlocks(K, base int, sizeHint int64, opts Options) int {
 	if _, blocks := needs(base, opts); !blocks {
 		return 1
@@ -288,7 +293,7 @@ func validateOptions(o Options) error {
 		return fmt.Errorf("minimum expected count must be positive")
 	}
 	if o.Segments < 0 || o.Segments == 1 {
-		return fmt.Errorf("--segments %d: give 2 or more segments, or 0 for none", o.Segments)
+		return optionErrorf(OptSegments, int64(o.Segments), 0, 0, "%s %d: give 2 or more segments, or 0 for none", o.name(OptSegments), o.Segments)
 	}
 	for _, name := range o.Checks {
 		known := false
@@ -298,7 +303,7 @@ func validateOptions(o Options) error {
 			known = known || c.Name() == name
 		}
 		if !known {
-			return fmt.Errorf("--checks: unknown check %q; the checks are %s", name, strings.Join(names, ", "))
+			return &OptionError{Option: OptChecks, msg: fmt.Sprintf("%s: unknown check %q; the checks are %s", o.name(OptChecks), name, strings.Join(names, ", "))}
 		}
 	}
 	return nil
@@ -312,7 +317,7 @@ func (p *Plan) Start() error { return p.StartAt(0) }
 // is refused for a shard.
 func (p *Plan) StartAt(offset int64) error {
 	if offset > 0 && p.opts.Segments > 0 {
-		return fmt.Errorf("the second level (--segments) needs the whole sequence, not a shard")
+		return optionErrorf(OptSegments, int64(p.opts.Segments), 0, 0, "the second level (%s) needs the whole sequence, not a shard", p.opts.name(OptSegments))
 	}
 	t, err := tally.New(p.Spec, offset)
 	if err != nil {
@@ -496,7 +501,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		// A fitted vector with one digit: an i.i.d. model reproduces a
 		// constant sequence exactly and leaves no degree of freedom to test.
 		res.Skips = append(res.Skips, checks.Skip{Check: "all checks",
-			Reason: "the fitted vector gives one digit all the probability: an i.i.d. model fits a constant sequence exactly, so nothing can be tested; audit against --null uniform or a vector"})
+			Reason: "the fitted vector gives one digit all the probability: an i.i.d. model fits a constant sequence exactly, so nothing can be tested; audit against " + opts.name(OptNull) + " uniform or a vector"})
 		res.Findings, res.Verdict = []Finding{}, Consistent
 		res.Notes = append(res.Notes, "the sequence uses a single digit")
 		return res, nil
@@ -506,25 +511,25 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	if p.Auto {
 		switch {
 		case valid > K && src.Bytes < 0:
-			res.Notes = append(res.Notes, fmt.Sprintf("the input length was not known before reading (stdin or compressed), so blocks were tallied up to k=%d; k=%d would be valid for %d digits: audit a file, or set --max-block %d",
-				K, valid, t.N, valid))
+			res.Notes = append(res.Notes, fmt.Sprintf("the input length was not known before reading (stdin or compressed), so blocks were tallied up to k=%d; k=%d would be valid for %d digits: audit a file, or set %s %d",
+				K, valid, t.N, opts.name(OptMaxBlock), valid))
 		case valid > K:
-			res.Notes = append(res.Notes, fmt.Sprintf("blocks stop at k=%d because of the memory budget (--memory); k=%d would be valid for %d digits", K, valid, t.N))
+			res.Notes = append(res.Notes, fmt.Sprintf("blocks stop at k=%d because of the memory budget (%s); k=%d would be valid for %d digits", K, opts.name(OptMemory), valid, t.N))
 		}
 		K = max(1, min(K, valid))
 		res.BlockChoice = fmt.Sprintf("largest k with every expected count n·min p(w) at least %g (rule of thumb), within the memory budget", opts.MinExpected)
-		if !opts.selected("blocks") && !opts.selected("serial") && !opts.selected("entropy") {
+		if windows, _ := needs(t.Base, opts); !windows {
 			res.BlockChoice = "no selected check uses blocks"
 			res.Notes = res.Notes[:0]
 		}
 	} else {
-		res.BlockChoice = "set by --max-block"
+		res.BlockChoice = "set by " + opts.name(OptMaxBlock)
 		if valid < K {
-			res.Notes = append(res.Notes, fmt.Sprintf("--max-block %d is beyond the rule of thumb (k ≤ %d for %d digits): expect notes on sparse cells", K, valid, t.N))
+			res.Notes = append(res.Notes, fmt.Sprintf("%s %d is beyond the rule of thumb (k ≤ %d for %d digits): expect notes on sparse cells", opts.name(OptMaxBlock), K, valid, t.N))
 		}
 	}
 	if t.N < int64(K) {
-		return nil, fmt.Errorf("%s: %d digits are too few for --max-block %d", src.Name, t.N, K)
+		return nil, optionErrorf(OptMaxBlock, int64(K), int64(K), t.N, "%s: %d digits are too few for %s %d", src.Name, t.N, opts.name(OptMaxBlock), K)
 	}
 	cyc, err := t.CyclicInPlace() // the tally is not used after Finish
 	if err != nil {
@@ -532,15 +537,16 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	}
 	res.MaxBlock = K
 	in := checks.Input{Tally: t, Cyclic: cyc[:K+1], Null: res.Null,
-		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
+		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha, OptionName: opts.OptionName}}
 	out := runChecks(in, opts)
 	if len(opts.Checks) > 0 {
-		res.Notes = append(res.Notes, "checks run (--checks): "+strings.Join(opts.Checks, ", "))
+		res.Notes = append(res.Notes, "checks run ("+opts.name(OptChecks)+"): "+strings.Join(opts.Checks, ", "))
 	}
 	if p.seg != nil {
 		if t.N/int64(opts.Segments) < MinSegmentDigits {
-			return nil, fmt.Errorf("%s: %d digits are too few for --segments %d (at least %d digits per segment); use fewer segments",
-				src.Name, t.N, opts.Segments, MinSegmentDigits)
+			return nil, optionErrorf(OptSegments, int64(opts.Segments), int64(opts.Segments)*MinSegmentDigits, t.N,
+				"%s: %d digits are too few for %s %d (at least %d digits per segment); use fewer segments",
+				src.Name, t.N, opts.name(OptSegments), opts.Segments, MinSegmentDigits)
 		}
 		segs, err := p.seg.Segments()
 		if err != nil {

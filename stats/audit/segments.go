@@ -127,7 +127,7 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 			continue
 		}
 		in := checks.Input{Tally: seg, Cyclic: cyc, Null: null,
-			Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha}}
+			Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha, OptionName: opts.OptionName}}
 		for _, c := range checks.All() {
 			sc, ok := c.(checks.Segmented)
 			if !ok || !opts.selected(c.Name()) {

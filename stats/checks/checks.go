@@ -108,6 +108,17 @@ type Options struct {
 	MinExpected float64
 	// Confidence is the level of the entropy intervals (1 - alpha).
 	Confidence float64
+	// OptionName, when set, names an audit option in messages (a
+	// program's own name for "Null", …); by default the option's name.
+	OptionName func(option string) string
+}
+
+// name returns how messages name an audit option.
+func (o Options) name(opt string) string {
+	if o.OptionName != nil {
+		return o.OptionName(opt)
+	}
+	return opt
 }
 
 // DefaultOptions returns MinExpected 5 and Confidence 0.99.

@@ -38,7 +38,7 @@ func (freqCheck) Run(in Input, out *Result) {
 	params := map[string]int{"k": 1}
 	if in.Null.Kind == Fitted {
 		out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
-			Reason: "under a fitted null the digit frequencies are the estimate itself, so there is nothing to test; use --null uniform or a vector to test them"})
+			Reason: "under a fitted null the digit frequencies are the estimate itself, so there is nothing to test; use " + in.Opts.name("Null") + " uniform or a vector to test them"})
 		return
 	}
 	t := in.Tally

@@ -115,7 +115,7 @@ func (s Source) Digits(n, offset, base int) ([]byte, error) {
 // failed check is an error, and no digits are returned.
 func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 	if s.base != 0 && base != s.base {
-		return nil, nil, fmt.Errorf("source %s has %d digits; --base %d does not match", s.Name, s.base, base)
+		return nil, nil, fmt.Errorf("source %s has base-%d digits only; base %d was asked", s.Name, s.base, base)
 	}
 	var d []byte
 	var checks []string

@@ -89,6 +89,17 @@ type Options struct {
 	Source string // name used in messages
 	Format Format
 	Base   int // text digits only; Raw implies 256 and Bits 2
+	// OptionName, when set, names in messages the options a program
+	// offers for "Base", "Raw" and "Bits" (the base, and reading bytes as
+	// raw digits or as bits); by default those words are used.
+	OptionName func(option string) string
+}
+
+func (o Options) name(opt string) string {
+	if o.OptionName != nil {
+		return o.OptionName(opt)
+	}
+	return opt
 }
 
 // Reader reads a digit sequence in chunks, in the manner of bufio.Scanner:
@@ -411,7 +422,7 @@ func (r *Reader) textError(chunk []byte, i int, code byte) error {
 	e.Char = showByte(chunk[i:])
 	switch {
 	case code == codeTooBig:
-		e.Reason = fmt.Sprintf("is digit value %d, not below base %d; give the right --base", digitValue(c), r.opt.Base)
+		e.Reason = fmt.Sprintf("is digit value %d, not below base %d; give the right %s", digitValue(c), r.opt.Base, r.opt.name("Base"))
 	case code == codeRadix && r.radixSeen:
 		e.Reason = "is a second radix point; a sequence has one at most"
 	case code == codeRadix:
@@ -419,7 +430,7 @@ func (r *Reader) textError(chunk []byte, i int, code byte) error {
 	case c == '-' || c == '+':
 		e.Reason = "is a sign, which a digit sequence cannot have; give the digits after the radix point"
 	case c == 0:
-		e.Reason = "is a NUL byte, not a digit; is this UTF-16 or binary data? Use --raw or --bits for bytes"
+		e.Reason = fmt.Sprintf("is a NUL byte, not a digit; is this UTF-16 or binary data? Use %s or %s for bytes", r.opt.name("Raw"), r.opt.name("Bits"))
 	default:
 		e.Reason = fmt.Sprintf("is not a digit of base %d (digits are 0-9 then a-z; whitespace is ignored)", r.opt.Base)
 	}
