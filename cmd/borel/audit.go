@@ -219,8 +219,7 @@ func tallyInput(e env, input string, in io.Reader, src *audit.Source, opt seq.Op
 	}
 	prog := newProgress(e, quiet, src.Bytes)
 	plan.OnChunk = func(digits, bytes int64) { prog.update(digits, bytes) }
-	plan.Stop = interrupted.Load
-	t, err := plan.TallyAt(r, offset)
+	t, err := plan.TallyAt(passCtx, r, offset)
 	prog.done()
 	sum := hash.Sum()
 	if err != nil {

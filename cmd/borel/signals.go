@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"os"
 	"os/signal"
 	"sync"
@@ -13,9 +14,12 @@ import (
 // (128 + SIGINT, the shell's convention).
 const exitInterrupted = 130
 
-// interrupted is set when SIGINT or SIGTERM arrives; the pass checks it after
-// every chunk and stops.
-var interrupted atomic.Bool
+// interrupted is set when SIGINT or SIGTERM arrives, and passCtx is
+// cancelled: the pass checks it after every chunk and stops.
+var (
+	interrupted       atomic.Bool
+	passCtx, stopPass = context.WithCancel(context.Background())
+)
 
 // tempFiles holds the temporary files being written, so that a forced exit
 // removes them.
@@ -32,6 +36,7 @@ func watchSignals() {
 	go func() {
 		<-ch
 		interrupted.Store(true)
+		stopPass()
 		time.Sleep(time.Second)
 		removeTempFiles()
 		os.Stderr.WriteString("borel: interrupted; nothing was written\n")

@@ -1,0 +1,177 @@
+package audit
+
+// The pass: the reader, the runner and the second level's segments, one
+// chunk at a time, stopped through a context.
+
+import (
+	"context"
+	"fmt"
+
+	"borel/stats/seq"
+	"borel/stats/tally"
+)
+
+// Start prepares the plan's tally (and second level) for Add.
+func (p *Plan) Start() error { return p.StartAt(0) }
+
+// StartAt prepares a tally of a stretch that begins at global digit
+// position offset (a shard); the second level needs the whole sequence and
+// is refused for a shard.
+func (p *Plan) StartAt(offset int64) error {
+	if offset > 0 && p.opts.Segments > 0 {
+		return optionErrorf(OptSegments, int64(p.opts.Segments), 0, 0, "the second level (%s) needs the whole sequence, not a shard", p.opts.name(OptSegments))
+	}
+	t, err := tally.New(p.Spec, offset)
+	if err != nil {
+		return err
+	}
+	p.t = t
+	p.run = tally.NewRunner(t, p.opts.Workers)
+	return p.startSegments()
+}
+
+// Add tallies the next digits of the sequence (after Start).
+func (p *Plan) Add(d []byte) {
+	p.run.Add(d)
+	if p.seg != nil {
+		p.seg.Add(d)
+	}
+}
+
+// Done finishes the audit of the digits added since Start.
+func (p *Plan) Done(src Source) (*Result, error) {
+	if p.t.N == 0 {
+		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
+	}
+	return p.Finish(p.t, src)
+}
+
+// ErrStopped ends a pass whose context was cancelled.
+var ErrStopped = fmt.Errorf("the pass was stopped")
+
+// TallyAt reads every digit of r into a new tally of the plan, for a
+// stretch that begins at global digit position offset (0 for a whole
+// sequence; see StartAt).
+// The context is checked after every chunk: a cancelled one ends the pass
+// with ErrStopped within a chunk.
+func (p *Plan) TallyAt(ctx context.Context, r *seq.Reader, offset int64) (*tally.Tally, error) {
+	if err := p.StartAt(offset); err != nil {
+		return nil, err
+	}
+	if p.opts.Workers > 1 {
+		return p.tallyPipelined(ctx, r)
+	}
+	for r.Scan() {
+		p.Add(r.Digits())
+		if p.OnChunk != nil {
+			p.OnChunk(r.Count(), r.Offset())
+		}
+		if ctx.Err() != nil {
+			return nil, ErrStopped
+		}
+	}
+	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	return p.t, nil
+}
+
+// pipelineChunk is the digits handed to the kernels at a time by
+// tallyPipelined.
+const pipelineChunk = 1 << 18
+
+// tallyPipelined is TallyAt with the reading (decoding, hashing by the
+// caller's tee, decompression) on its own goroutine, one chunk ahead of the
+// kernels, so that it overlaps with them instead of stopping every worker
+// while the next chunk is read. The chunks and their order are the same as
+// in TallyAt, so the tally is too.
+func (p *Plan) tallyPipelined(ctx context.Context, r *seq.Reader) (*tally.Tally, error) {
+	type chunk struct {
+		d             []byte
+		count, offset int64
+	}
+	const depth = 2
+	free := make(chan []byte, depth+1)
+	for range depth + 1 {
+		free <- nil
+	}
+	full := make(chan chunk, depth)
+	quit := make(chan struct{})
+	go func() {
+		defer close(full)
+		more := r.Scan()
+		for more {
+			var buf []byte
+			select {
+			case buf = <-free:
+			case <-quit:
+				return
+			}
+			// Several reader chunks per step of the pass: each step ends by
+			// waiting for the slowest group of kernels.
+			buf = buf[:0]
+			for more && len(buf) < pipelineChunk {
+				buf = append(buf, r.Digits()...)
+				more = r.Scan()
+			}
+			select {
+			case full <- chunk{buf, r.Count(), r.Offset()}:
+			case <-quit:
+				return
+			}
+		}
+	}()
+	for c := range full {
+		p.Add(c.d)
+		free <- c.d
+		if p.OnChunk != nil {
+			p.OnChunk(c.count, c.offset)
+		}
+		if ctx.Err() != nil {
+			close(quit)
+			for range full { // let the reader finish its current chunk
+			}
+			return nil, ErrStopped
+		}
+	}
+	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	return p.t, nil
+}
+
+// Digits audits a sequence held in memory (built-in sequences, tests).
+func Digits(d []byte, base int, src Source, opts Options) (*Result, error) {
+	p, err := NewPlan(base, int64(len(d)), opts)
+	if err != nil {
+		return nil, err
+	}
+	t, err := tally.New(p.Spec, 0)
+	if err != nil {
+		return nil, err
+	}
+	for i, x := range d {
+		if int(x) >= base {
+			return nil, fmt.Errorf("%s: digit %d at position %d is not below base %d", src.Name, x, i, base)
+		}
+	}
+	t.Add(d)
+	if t.N == 0 {
+		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
+	}
+	if err := p.startSegments(); err != nil {
+		return nil, err
+	}
+	if p.seg != nil {
+		p.seg.Add(d)
+	}
+	return p.Finish(t, src)
+}
+func (p *Plan) startSegments() error {
+	if p.opts.Segments == 0 {
+		return nil
+	}
+	seg, err := newSegmenter(segmentSpec(p.Spec), p.opts.Segments)
+	p.seg = seg
+	return err
+}
