@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"runtime"
 	"strings"
 	"unicode/utf8"
 
@@ -54,29 +53,20 @@ func runAudit(e env, args []string) (int, error) {
 	base := fs.String("base", "", "base of the digits: 2..36 for text (default 10); raw bytes are base 256, bits base 2")
 	raw := fs.Bool("raw", false, "read bytes as base-256 digits")
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
-	null := fs.String("null", "uniform", "null hypothesis: uniform, fitted (vector estimated from the data), or p0,p1,... (one probability per digit)")
-	alpha := fs.String("alpha", "0.01", "significance level of the verdict")
-	adjust := fs.String("adjust", "holm", "multiple-testing adjustment: holm (family-wise) or bh (false discovery rate)")
-	maxBlock := fs.String("max-block", "auto", "largest block length k; auto picks the largest with every expected count at least 5")
-	memory := fs.String("memory", "256MiB", "memory budget for the count tables")
+	var af auditFlags
+	af.register(fs, flNull|flAlpha|flAdjust|flMaxBlock|flMemory|flStrict|flSegments|flSeed|flWorkers|flChecks, nil)
 	var out output
 	out.register(fs)
-	strict := fs.Bool("strict", false, "exit with status 3 unless the verdict is consistent")
-	segments := fs.Int("segments", 0, "second level: split into this many segments and test each statistic's segment p-values for uniformity (KS, Anderson–Darling)")
-	seed := fs.Uint64("seed", 1, "seed of the randomized p-values that discrete statistics give the second level")
 	basesArg := fs.String("bases", "", "audit in each of these bases, side by side (e.g. 2,3,6,10): text input is re-expanded exactly from --from-base; raw bytes are regrouped (2,4,16,256, the default with --raw)")
 	fromBase := fs.String("from-base", "", "base of the text input when --bases re-expands it (default: --base, else 10)")
 	source := fs.String("source", "", "audit a built-in source instead of a file: "+expand.Names)
 	count := fs.Int("count", 100_000, "digits drawn from --source in each base")
-	workers := fs.Int("workers", runtime.GOMAXPROCS(0), "goroutines for the pass (the findings are the same for any number)")
-	checkList := fs.String("checks", "", "run only these checks, e.g. freq,serial (default: all); the pass skips what they do not need")
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
 	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
-		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base, checks: *checkList, workers: *workers,
-			raw: *raw, bits: *bits, count: *count, null: *null, alpha: *alpha, adjust: *adjust, maxBlock: *maxBlock,
-			memory: *memory, segments: *segments, seed: *seed, strict: *strict, out: out})
+		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
+			raw: *raw, bits: *bits, count: *count, flags: &af, out: out})
 	}
 	if fs.NArg() != 1 {
 		return 0, usagef("audit needs one input, a file or - for standard input (got %d); see borel audit --help", fs.NArg())
@@ -99,33 +89,12 @@ func runAudit(e env, args []string) (int, error) {
 		}
 		opt.Base = b
 	}
-	opts := auditDefaults()
-	var err error
-	if opts.Null, err = parseNull(*null, opt.Base); err != nil {
+	opts, err := af.options()
+	if err != nil {
 		return 0, err
 	}
-	if opts.Alpha, err = parseAlpha(*alpha); err != nil {
+	if opts.Null, err = af.nullFor(opt.Base); err != nil {
 		return 0, err
-	}
-	if opts.Adjustment, err = parseAdjust(*adjust); err != nil {
-		return 0, err
-	}
-	if opts.MaxBlock, err = parseMaxBlock(*maxBlock); err != nil {
-		return 0, err
-	}
-	if opts.MemoryBytes, err = parseSize(*memory); err != nil {
-		return 0, err
-	}
-	if *segments < 0 || *segments == 1 {
-		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", *segments)
-	}
-	opts.Segments, opts.Seed = *segments, *seed
-	if *workers < 1 {
-		return 0, usagef("--workers %d: give 1 or more", *workers)
-	}
-	opts.Workers = *workers
-	if *checkList != "" {
-		opts.Checks = splitList(*checkList)
 	}
 	if err := out.check(input); err != nil {
 		return 0, err
@@ -155,7 +124,7 @@ func runAudit(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	return out.report(e, []*audit.Result{res}, *strict)
+	return out.report(e, []*audit.Result{res}, af.strict)
 }
 
 // openInput opens a file or standard input and describes it.

@@ -33,8 +33,8 @@ func runCompare(e env, args []string) (int, error) {
 	fs := pflag.NewFlagSet("compare", pflag.ContinueOnError)
 	base := fs.String("base", "10", "base of text files and of built-in sources")
 	count := fs.Int("count", 100_000, "digits drawn from each built-in source")
-	null := fs.String("null", "uniform", "null hypothesis: uniform, fitted, or p0,p1,...")
-	alpha := fs.String("alpha", "0.01", "significance level of the verdicts")
+	var af auditFlags
+	af.register(fs, flNull|flAlpha, map[string]string{"null": "null hypothesis: uniform, fitted, or p0,p1,...", "alpha": "significance level of the verdicts"})
 	var out output
 	out.register(fs)
 	if done, err := parseFlags(fs, args, compareHelp, e.stdout); done || err != nil {
@@ -50,8 +50,8 @@ func runCompare(e env, args []string) (int, error) {
 	if *count < 1 {
 		return 0, usagef("--count %d: give the number of digits, 1 or more", *count)
 	}
-	opts := auditDefaults()
-	if opts.Alpha, err = parseAlpha(*alpha); err != nil {
+	opts, err := af.options()
+	if err != nil {
 		return 0, err
 	}
 	if err := out.check(""); err != nil {
@@ -59,7 +59,7 @@ func runCompare(e env, args []string) (int, error) {
 	}
 	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
 	for _, name := range fs.Args() {
-		res, err := compareOne(e, name, b, *count, *null, opts, out.quiet)
+		res, err := compareOne(e, name, b, *count, &af, opts, out.quiet)
 		if err != nil {
 			return 0, err
 		}
@@ -81,9 +81,9 @@ func runCompare(e env, args []string) (int, error) {
 }
 
 // compareOne audits one source: a file if it exists, else a built-in source.
-func compareOne(e env, name string, base, count int, nullArg string, opts audit.Options, quiet bool) (*audit.Result, error) {
+func compareOne(e env, name string, base, count int, af *auditFlags, opts audit.Options, quiet bool) (*audit.Result, error) {
 	if st, err := os.Stat(name); err == nil && !st.IsDir() {
-		ns, err := parseNull(nullArg, base)
+		ns, err := af.nullFor(base)
 		if err != nil {
 			return nil, err
 		}
@@ -122,7 +122,7 @@ func compareOne(e env, name string, base, count int, nullArg string, opts audit.
 	if err != nil {
 		return nil, err
 	}
-	ns, err := parseNull(nullArg, b)
+	ns, err := af.nullFor(b)
 	if err != nil {
 		return nil, err
 	}

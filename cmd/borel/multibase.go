@@ -234,13 +234,11 @@ func checkMultiNull(ns audit.NullSpec, bases []int) error {
 }
 
 type auditAcross struct {
-	source, bases, fromBase, base, checks string
-	workers                               int
-	raw, bits, strict                     bool
-	count, segments                       int
-	null, alpha, adjust, maxBlock, memory string
-	seed                                  uint64
-	out                                   output
+	source, bases, fromBase, base string
+	raw, bits                     bool
+	count                         int
+	flags                         *auditFlags
+	out                           output
 }
 
 // runAuditAcross audits one number or stream in several bases side by side.
@@ -248,30 +246,9 @@ func runAuditAcross(e env, fs interface {
 	NArg() int
 	Arg(int) string
 }, a auditAcross) (int, error) {
-	opts := auditDefaults()
-	var err error
-	if opts.Alpha, err = parseAlpha(a.alpha); err != nil {
+	opts, err := a.flags.options()
+	if err != nil {
 		return 0, err
-	}
-	if opts.Adjustment, err = parseAdjust(a.adjust); err != nil {
-		return 0, err
-	}
-	if opts.MaxBlock, err = parseMaxBlock(a.maxBlock); err != nil {
-		return 0, err
-	}
-	if opts.MemoryBytes, err = parseSize(a.memory); err != nil {
-		return 0, err
-	}
-	if a.segments < 0 || a.segments == 1 {
-		return 0, usagef("--segments %d: give 2 or more segments (for example 20), or 0 for none", a.segments)
-	}
-	opts.Segments, opts.Seed = a.segments, a.seed
-	if a.workers < 1 {
-		return 0, usagef("--workers %d: give 1 or more", a.workers)
-	}
-	opts.Workers = a.workers
-	if a.checks != "" {
-		opts.Checks = splitList(a.checks)
 	}
 	if a.bits && a.raw {
 		return 0, usagef("--raw and --bits exclude each other: bytes are read either as base-256 digits or as bits")
@@ -327,7 +304,7 @@ func runAuditAcross(e env, fs interface {
 	if err := a.out.check(input); err != nil {
 		return 0, err
 	}
-	opts.Null, err = parseNull(a.null, bases[0])
+	opts.Null, err = a.flags.nullFor(bases[0])
 	if err != nil {
 		return 0, err
 	}
@@ -356,5 +333,5 @@ func runAuditAcross(e env, fs interface {
 		return 0, err
 	}
 	powerNotes(results)
-	return a.out.report(e, results, a.strict)
+	return a.out.report(e, results, a.flags.strict)
 }

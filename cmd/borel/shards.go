@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"fmt"
 	"os"
-	"runtime"
 	"sort"
 	"strings"
 
@@ -33,9 +32,12 @@ func runTally(e env, args []string) (int, error) {
 	fs.Lookup("offset").DefValue = "0" // -1 marks "not given"; the help shows no default
 	base := fs.String("base", "10", "base of the text digits, 2..36")
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
-	null := fs.String("null", "uniform", "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...")
-	maxBlock := fs.Int("max-block", 0, "block length (the same for every shard)")
-	workers := fs.Int("workers", runtime.GOMAXPROCS(0), "goroutines for the pass (the shard is the same for any number)")
+	var af auditFlags
+	af.register(fs, flNull|flMaxBlock|flWorkers, map[string]string{
+		"null":      "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...",
+		"max-block": "block length `K`, the same for every shard",
+		"workers":   "goroutines for the pass (the shard is the same for any number)"})
+	fs.Lookup("max-block").DefValue = "" // required: no automatic choice for a shard
 	quiet := fs.BoolP("quiet", "q", false, "no progress line and no closing line on standard error")
 	output := fs.StringP("output", "o", "", "the shard file to write")
 	if done, err := parseFlags(fs, args, tallyHelp, e.stdout); done || err != nil {
@@ -47,14 +49,11 @@ func runTally(e env, args []string) (int, error) {
 	if *offset < 0 {
 		return 0, usagef("tally needs --offset N, the global position of the stretch's first digit (0 for the first)")
 	}
-	if *maxBlock < 1 {
+	if k, err := parseMaxBlock(af.maxBlock); err != nil || k < 1 || !fs.Changed("max-block") {
 		return 0, usagef("tally needs --max-block K, the same for every shard of the audit, so the shards can be merged")
 	}
 	if *output == "" {
 		return 0, usagef("tally needs -o SHARD, the file to write")
-	}
-	if *workers < 1 {
-		return 0, usagef("--workers %d: give 1 or more", *workers)
 	}
 	opt := seq.Options{Format: seq.Text}
 	var err error
@@ -63,10 +62,11 @@ func runTally(e env, args []string) (int, error) {
 	} else if opt.Base, err = parseBase(*base, 2, seq.MaxTextBase, "text digits are 0-9 then a-z"); err != nil {
 		return 0, err
 	}
-	opts := auditDefaults()
-	opts.MaxBlock = *maxBlock
-	opts.Workers = *workers
-	if opts.Null, err = parseNull(*null, opt.Base); err != nil {
+	opts, err := af.options()
+	if err != nil {
+		return 0, err
+	}
+	if opts.Null, err = af.nullFor(opt.Base); err != nil {
 		return 0, err
 	}
 	input := fs.Arg(0)
@@ -121,9 +121,8 @@ Example: one shard merged (with more, list them all):
 
 func runMerge(e env, args []string) (int, error) {
 	fs := pflag.NewFlagSet("merge", pflag.ContinueOnError)
-	alpha := fs.String("alpha", "0.01", "significance level of the verdict")
-	adjust := fs.String("adjust", "holm", "multiple-testing adjustment: holm or bh")
-	strict := fs.Bool("strict", false, "exit with status 3 unless the verdict is consistent")
+	var af auditFlags
+	af.register(fs, flAlpha|flAdjust|flStrict, map[string]string{"adjust": "multiple-testing adjustment: holm or bh"})
 	var out output
 	out.register(fs)
 	if done, err := parseFlags(fs, args, mergeHelp, e.stdout); done || err != nil {
@@ -132,12 +131,8 @@ func runMerge(e env, args []string) (int, error) {
 	if fs.NArg() < 1 {
 		return 0, usagef("merge needs one or more shard files; see borel merge --help")
 	}
-	opts := auditDefaults()
-	var err error
-	if opts.Alpha, err = parseAlpha(*alpha); err != nil {
-		return 0, err
-	}
-	if opts.Adjustment, err = parseAdjust(*adjust); err != nil {
+	opts, err := af.options()
+	if err != nil {
 		return 0, err
 	}
 	if err := out.check(""); err != nil {
@@ -208,5 +203,5 @@ func runMerge(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	return out.report(e, []*audit.Result{res}, *strict)
+	return out.report(e, []*audit.Result{res}, af.strict)
 }
