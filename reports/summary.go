@@ -49,49 +49,69 @@ func Summary(w io.Writer, doc Document) error {
 	return writeTable(w, h, rows, summaryAlign)
 }
 
-// Comparison writes the side-by-side table in a human or machine format
-// (text, md, csv or tex), with the provenance and the caution.
+// Comparison writes the side-by-side table in the named format (text, md,
+// csv or tex), with the provenance and the caution; json and html carry
+// every audit in full instead (their renderer has no comparison).
 func Comparison(w io.Writer, doc Document, format string) error {
-	h, rows := summaryRows(doc)
-	switch format {
-	case "md":
-		fmt.Fprintf(w, "borel %s comparison, %s: `%s`\n\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
-		mdTable(w, h, rows, summaryAlign)
-		fmt.Fprintf(w, "\n> %s\n", Caution)
-	case "csv":
-		fmt.Fprintf(w, "# borel %s comparison, %s\n# command: %s\n# %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "), Caution)
-		cw := csv.NewWriter(w)
-		cw.Write(h)
-		for _, r := range rows {
-			cw.Write(r)
-		}
-		cw.Flush()
-		return cw.Error()
-	case "tex":
-		fmt.Fprintf(w, "%% borel %s comparison, %s. Needs \\usepackage{booktabs}.\n%% command: %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
-		fmt.Fprintln(w, `\begin{tabular}{lrrllllrl}`)
-		fmt.Fprintln(w, `\toprule`)
-		for i, c := range h {
-			h[i] = texEscape(c)
-		}
-		fmt.Fprintf(w, "%s \\\\\n\\midrule\n", strings.Join(h, " & "))
-		for _, r := range rows {
-			cells := make([]string, len(r))
-			for i, c := range r {
-				cells[i] = texEscape(c)
-			}
-			fmt.Fprintf(w, "%s \\\\\n", strings.Join(cells, " & "))
-		}
-		fmt.Fprintln(w, `\bottomrule`)
-		fmt.Fprintln(w, `\end{tabular}`)
-	default:
-		fmt.Fprintf(w, "borel %s comparison, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
-		if err := writeTable(w, h, rows, summaryAlign); err != nil {
-			return err
-		}
-		fmt.Fprintln(w, wrap(Caution, 100))
+	r, ok := Renderer(format)
+	if !ok {
+		return fmt.Errorf("reports: unknown format %q", format)
 	}
-	return nil
+	if r.Comparison == nil {
+		return r.Report(w, doc)
+	}
+	return r.Comparison(w, doc)
+}
+
+func comparisonMarkdown(w io.Writer, doc Document) error {
+	h, rows := summaryRows(doc)
+	fmt.Fprintf(w, "borel %s comparison, %s: `%s`\n\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
+	mdTable(w, h, rows, summaryAlign)
+	_, err := fmt.Fprintf(w, "\n> %s\n", Caution)
+	return err
+}
+
+func comparisonCSV(w io.Writer, doc Document) error {
+	h, rows := summaryRows(doc)
+	fmt.Fprintf(w, "# borel %s comparison, %s\n# command: %s\n# %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "), Caution)
+	cw := csv.NewWriter(w)
+	cw.Write(h)
+	for _, r := range rows {
+		cw.Write(r)
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func comparisonLaTeX(w io.Writer, doc Document) error {
+	h, rows := summaryRows(doc)
+	fmt.Fprintf(w, "%% borel %s comparison, %s. Needs \\usepackage{booktabs}.\n%% command: %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
+	fmt.Fprintln(w, `\begin{tabular}{lrrllllrl}`)
+	fmt.Fprintln(w, `\toprule`)
+	for i, c := range h {
+		h[i] = texEscape(c)
+	}
+	fmt.Fprintf(w, "%s \\\\\n\\midrule\n", strings.Join(h, " & "))
+	for _, r := range rows {
+		cells := make([]string, len(r))
+		for i, c := range r {
+			cells[i] = texEscape(c)
+		}
+		fmt.Fprintf(w, "%s \\\\\n", strings.Join(cells, " & "))
+	}
+	fmt.Fprintln(w, `\bottomrule`)
+	_, err := fmt.Fprintln(w, `\end{tabular}`)
+	return err
+}
+
+func comparisonText(w io.Writer, doc Document) error {
+	h, rows := summaryRows(doc)
+	fmt.Fprintf(w, "borel %s comparison, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
+	if err := writeTable(w, h, rows, summaryAlign); err != nil {
+		return err
+	}
+	_, err := fmt.Fprintln(w, wrap(Caution, 100))
+	return err
 }
 
 // findingLabel names a finding: check, statistic and its parameters when it

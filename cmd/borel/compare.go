@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"os"
 
@@ -65,15 +64,7 @@ func runCompare(e env, args []string) (int, error) {
 		}
 		doc.Results = append(doc.Results, res)
 	}
-	var data []byte
-	switch out.format {
-	case "json", "html":
-		data, err = render(doc, out.format)
-	default:
-		var buf bytes.Buffer
-		err = reports.Comparison(&buf, doc, out.format)
-		data = buf.Bytes()
-	}
+	data, err := renderComparison(doc, out.format)
 	if err != nil {
 		return 0, err
 	}

@@ -17,8 +17,8 @@ import (
 	"borel/stats/audit"
 )
 
-// formats are the report formats borel writes.
-var formats = []string{"text", "md", "csv", "json", "tex", "html"}
+// formats are the report formats borel writes (the reports registry).
+var formats = reports.FormatNames()
 
 // output holds the options every reporting subcommand shares.
 type output struct {
@@ -86,22 +86,20 @@ func reportTime() time.Time {
 // render writes the document in the chosen format into a buffer, so that
 // nothing reaches a file until the whole report exists.
 func render(doc reports.Document, format string) ([]byte, error) {
-	var buf bytes.Buffer
-	var err error
-	switch format {
-	case "json":
-		err = reports.JSON(&buf, doc)
-	case "md":
-		err = reports.Markdown(&buf, doc)
-	case "csv":
-		err = reports.CSV(&buf, doc)
-	case "tex":
-		err = reports.LaTeX(&buf, doc)
-	case "html":
-		err = reports.HTML(&buf, doc)
-	default:
-		err = reports.Text(&buf, doc)
+	f, ok := reports.Renderer(format)
+	if !ok {
+		return nil, usagef("--format %q: borel writes %s", format, strings.Join(formats, ", "))
 	}
+	var buf bytes.Buffer
+	err := f.Report(&buf, doc)
+	return buf.Bytes(), err
+}
+
+// renderComparison writes the side-by-side table of several results in
+// the chosen format (the full report where the format has none).
+func renderComparison(doc reports.Document, format string) ([]byte, error) {
+	var buf bytes.Buffer
+	err := reports.Comparison(&buf, doc, format)
 	return buf.Bytes(), err
 }
 
@@ -116,16 +114,8 @@ func (o *output) publish(e env, doc reports.Document, main []byte) error {
 	if o.appendTo != "" {
 		kind := reports.KindForPath(o.appendTo)
 		var frag bytes.Buffer
-		var err error
-		switch kind {
-		case reports.KindMarkdown:
-			err = reports.Markdown(&frag, doc)
-		case reports.KindLaTeX:
-			err = reports.LaTeX(&frag, doc)
-		default:
-			err = reports.HTMLFragment(&frag, doc)
-		}
-		if err != nil {
+		f, _ := reports.Renderer(kind)
+		if err := f.Fragment(&frag, doc); err != nil {
 			return err
 		}
 		old, err := os.ReadFile(o.appendTo)
