@@ -9,7 +9,6 @@ import (
 	"strconv"
 	"strings"
 
-	"gonum.org/v1/gonum/stat/distuv"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
@@ -148,16 +147,13 @@ func Figures(r *audit.Result) ([]Figure, error) {
 func frequencyFigure(r *audit.Result) (Figure, bool, error) {
 	p := newPlot(fmt.Sprintf("Digit frequencies, %d digits in base %d", r.Digits, r.Base), "digit", "relative frequency")
 	n := float64(r.Digits)
-	z := distuv.UnitNormal.Quantile(0.995)
 	obs, null, lo, hi := make(plotter.XYs, r.Base), make(plotter.XYs, r.Base), make(plotter.XYs, r.Base), make(plotter.XYs, r.Base)
 	for j := 0; j < r.Base; j++ {
-		pj := r.Null.P[j]
-		half := z * math.Sqrt(pj*(1-pj)/n)
 		x := float64(j)
 		obs[j] = plotter.XY{X: x, Y: float64(r.DigitCounts[j]) / n}
-		null[j] = plotter.XY{X: x, Y: pj}
-		lo[j] = plotter.XY{X: x, Y: pj - half}
-		hi[j] = plotter.XY{X: x, Y: pj + half}
+		null[j] = plotter.XY{X: x, Y: r.Null.P[j]}
+		lo[j] = plotter.XY{X: x, Y: r.Curves.BandLow[j]}
+		hi[j] = plotter.XY{X: x, Y: r.Curves.BandHigh[j]}
 	}
 	nl, err := plotter.NewLine(null)
 	if err != nil {
@@ -183,7 +179,7 @@ func frequencyFigure(r *audit.Result) (Figure, bool, error) {
 	p.Add(nl, band[0], band[1], sc)
 	p.Legend.Add("observed", sc)
 	p.Legend.Add("null ("+r.Null.Kind.String()+")", nl)
-	p.Legend.Add("99% band (binomial, normal approx.)", band[0])
+	p.Legend.Add(fmt.Sprintf("%g%% band (binomial, normal approx.)", 100*audit.BandLevel), band[0])
 	p.X.Tick.Marker = integerTicks{}
 	p.X.Min, p.X.Max = -0.5, float64(r.Base)-0.5
 	legendRoom(p, 3)
@@ -317,15 +313,7 @@ func runningFigure(r *audit.Result) (Figure, bool, error) {
 	if len(pts) < 2 {
 		return Figure{}, false, nil
 	}
-	z := func(tpIdx, d int) float64 {
-		tp := r.Trace[tpIdx]
-		n := float64(tp.Pos)
-		pd := r.Null.P[d]
-		if pd <= 0 || pd >= 1 {
-			return 0
-		}
-		return (float64(tp.Counts[d]) - n*pd) / math.Sqrt(n*pd*(1-pd))
-	}
+	z := func(tpIdx, d int) float64 { return r.Curves.Deviation[tpIdx][d] }
 	// The 5 digits furthest from their expectation at the end.
 	digits := make([]int, r.Base)
 	for d := range digits {
@@ -361,8 +349,7 @@ func runningFigure(r *audit.Result) (Figure, bool, error) {
 	for _, sign := range []float64{1, -1} {
 		env := make(plotter.XYs, len(pts))
 		for k, idx := range pts {
-			n := float64(r.Trace[idx].Pos)
-			env[k] = plotter.XY{X: n, Y: sign * math.Sqrt(2*math.Log(math.Log(n)))}
+			env[k] = plotter.XY{X: float64(r.Trace[idx].Pos), Y: sign * r.Curves.Envelope[idx]}
 		}
 		l, err := plotter.NewLine(env)
 		if err != nil {

@@ -52,6 +52,7 @@ type Result struct {
 	DigitCounts    []int64            // occurrences of each digit
 	Trace          []tally.TracePoint // digit counts at log-spaced positions, for plots
 	SegmentPValues []SegmentSeries    // second level: each statistic's segment p-values
+	Curves         Curves             // reference curves for plots
 }
 
 // runChecks runs the selected checks on in, each into its own result, on
@@ -106,6 +107,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	default:
 		res.Null = checks.UniformNull(t.Base)
 	}
+	res.Curves = curves(res)
 	if res.Null.Symbols() < 2 {
 		// A fitted vector with one digit: an i.i.d. model reproduces a
 		// constant sequence exactly and leaves no degree of freedom to test.
