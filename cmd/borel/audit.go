@@ -15,7 +15,7 @@ import (
 	"borel/stats/checks"
 	"borel/stats/expand"
 	"borel/stats/seq"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // auditHelp is the help of borel audit; the battery's list is the checks'

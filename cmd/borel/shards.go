@@ -12,7 +12,7 @@ import (
 	"borel/stats/audit"
 	"borel/stats/checks"
 	"borel/stats/seq"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits] [--null ...] [--workers N] [--quiet] -o SHARD

@@ -11,7 +11,7 @@ import (
 
 	"borel/stats"
 	"borel/stats/checks"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // SegmentSeries is the p-values one statistic took in the segments.

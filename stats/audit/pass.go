@@ -8,7 +8,7 @@ import (
 	"fmt"
 
 	"borel/stats/seq"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // Start prepares the plan's tally (and second level) for Add.

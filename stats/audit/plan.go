@@ -8,7 +8,7 @@ import (
 	"math"
 
 	"borel/stats/checks"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // Plan is what an audit decides before reading: the tally to fill.

@@ -8,7 +8,7 @@ import (
 
 	"borel/stats"
 	"borel/stats/checks"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // MinSegmentDigits is the shortest segment the second level accepts.

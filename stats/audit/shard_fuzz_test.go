@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // damage applies ops to a decoded tally, three bytes an operation: which

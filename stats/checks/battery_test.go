@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // Poker probabilities, Knuth's formula (TAOCP §3.3.2 D); numbers

@@ -12,7 +12,7 @@ import (
 	"sort"
 
 	"borel/stats"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 // Finding is one row of results: one statistic of one check at one parameter.

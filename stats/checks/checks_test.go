@@ -8,7 +8,7 @@ import (
 
 	"borel/stats/expand"
 	"borel/stats/seq"
-	"borel/stats/tally"
+	"borel/internal/tally"
 )
 
 func closeTo(got, want, tol float64) bool {

@@ -1,7 +1,7 @@
 package checks
 
 import (
-	"borel/stats/tally"
+	"borel/internal/tally"
 	"fmt"
 	"math"
 	"math/bits"
