@@ -11,14 +11,20 @@ import (
 	"testing"
 )
 
-// The libraries under stats/ never name a command-line flag in a string
+// The libraries under stats/ and internal/ never name a command-line flag in a string
 // (their messages name options by their Go names, and cmd/borel renames
 // them, cmd/borel/names.go): every string literal of their non-test files
 // is read.
 func TestLibrariesNameNoFlags(t *testing.T) {
 	flag := regexp.MustCompile(`(^|[\s(])--[a-z]`)
 	fset := token.NewFileSet()
-	err := filepath.WalkDir("../stats", func(path string, d fs.DirEntry, err error) error {
+	for _, root := range []string{"../stats", "../internal"} {
+		walkStrings(t, fset, root, flag)
+	}
+}
+
+func walkStrings(t *testing.T, fset *token.FileSet, root string, flag *regexp.Regexp) {
+	err := filepath.WalkDir(root, func(path string, d fs.DirEntry, err error) error {
 		if err != nil || d.IsDir() || !strings.HasSuffix(path, ".go") || strings.HasSuffix(path, "_test.go") {
 			return err
 		}

@@ -33,6 +33,7 @@ type OptionError struct {
 	msg        string
 }
 
+// Error is the message, with the option named as Options.OptionName says.
 func (e *OptionError) Error() string { return e.msg }
 
 func optionErrorf(opt string, value, need, have int64, format string, args ...any) error {

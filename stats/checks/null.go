@@ -23,6 +23,7 @@ const (
 	Fitted
 )
 
+// String names the null as reports do: uniform, vector or fitted.
 func (k NullKind) String() string {
 	switch k {
 	case Vector:

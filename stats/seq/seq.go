@@ -35,6 +35,7 @@ const (
 	Bits
 )
 
+// String names the format as reports do: text, raw or bits.
 func (f Format) String() string {
 	switch f {
 	case Raw:
@@ -73,6 +74,7 @@ type InputError struct {
 	Reason string // what is wrong and what to do
 }
 
+// Error is the one-line message: where (byte, line, column), the character, and why.
 func (e *InputError) Error() string {
 	where := fmt.Sprintf("byte %d", e.Offset)
 	if e.Line > 0 {
