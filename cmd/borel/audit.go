@@ -11,11 +11,11 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"borel/internal/tally"
 	"borel/stats/audit"
 	"borel/stats/checks"
 	"borel/stats/expand"
 	"borel/stats/seq"
-	"borel/internal/tally"
 )
 
 // auditHelp is the help of borel audit; the battery's list is the checks'

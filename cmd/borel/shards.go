@@ -9,10 +9,10 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"borel/internal/tally"
 	"borel/stats/audit"
 	"borel/stats/checks"
 	"borel/stats/seq"
-	"borel/internal/tally"
 )
 
 const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits] [--null ...] [--workers N] [--quiet] -o SHARD

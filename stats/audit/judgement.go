@@ -9,9 +9,9 @@ import (
 	"strings"
 	"sync"
 
+	"borel/internal/tally"
 	"borel/stats"
 	"borel/stats/checks"
-	"borel/internal/tally"
 )
 
 // SegmentSeries is the p-values one statistic took in the segments.

@@ -7,8 +7,8 @@ import (
 	"context"
 	"fmt"
 
-	"borel/stats/seq"
 	"borel/internal/tally"
+	"borel/stats/seq"
 )
 
 // Start prepares the plan's tally (and second level) for Add.

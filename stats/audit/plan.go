@@ -7,8 +7,8 @@ import (
 	"fmt"
 	"math"
 
-	"borel/stats/checks"
 	"borel/internal/tally"
+	"borel/stats/checks"
 )
 
 // Plan is what an audit decides before reading: the tally to fill.

@@ -6,9 +6,9 @@ import (
 	"math/rand/v2"
 	"sort"
 
+	"borel/internal/tally"
 	"borel/stats"
 	"borel/stats/checks"
-	"borel/internal/tally"
 )
 
 // MinSegmentDigits is the shortest segment the second level accepts.

@@ -11,8 +11,8 @@ import (
 	"math"
 	"sort"
 
-	"borel/stats"
 	"borel/internal/tally"
+	"borel/stats"
 )
 
 // Finding is one row of results: one statistic of one check at one parameter.

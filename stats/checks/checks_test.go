@@ -6,9 +6,9 @@ import (
 	"os"
 	"testing"
 
+	"borel/internal/tally"
 	"borel/stats/expand"
 	"borel/stats/seq"
-	"borel/internal/tally"
 )
 
 func closeTo(got, want, tol float64) bool {
