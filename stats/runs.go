@@ -26,7 +26,16 @@ const maxRunStates = 256
 // in the far tails (n p^m small for the upper one); approx reports that.
 func LongestRunLogTails(n int64, p []float64, class int, l int64) (upper, lower float64, approx bool) {
 	if l <= 0 {
-		return 0, math.Inf(-1), false
+		// L ≥ 0 always. L ≤ 0 means no run at all: for one digit of
+		// probability q, that it never occurs, (1 − q)^n; for runs of any
+		// digit, that the sequence is empty.
+		if class < 0 {
+			if n == 0 {
+				return 0, 0, false
+			}
+			return 0, math.Inf(-1), false
+		}
+		return 0, float64(n) * math.Log1p(-p[class]), false
 	}
 	_, atLeast, logBelowL, okUp := runChain(n, p, class, l)
 	_, _, logBelow, okLo := runChain(n, p, class, l+1)

@@ -77,3 +77,23 @@ func TestLongestRunFarTail(t *testing.T) {
 		t.Errorf("ln P(L ≥ 400) = %g", up)
 	}
 }
+
+// A digit that never occurs has L = 0: P(L ≤ 0) = (1 − q)^n, the chance
+// that it is absent (0.9^10 = 0.3486784401 for a decimal digit in 10
+// digits), and P(L ≥ 0) = 1. For runs of any digit L ≥ 1 as soon as n ≥ 1.
+func TestLongestRunOfAbsentDigit(t *testing.T) {
+	dec := make([]float64, 10)
+	for i := range dec {
+		dec[i] = 0.1
+	}
+	up, lo, _ := LongestRunLogTails(10, dec, 9, 0)
+	if up != 0 || math.Abs(lo-10*math.Log(0.9)) > 1e-12 {
+		t.Errorf("digit absent from 10 decimals: ln P(L≥0) = %v, ln P(L≤0) = %v, want 0 and %v", up, lo, 10*math.Log(0.9))
+	}
+	if _, lo, _ := LongestRunLogTails(5, []float64{0.5, 0.5}, 0, 0); math.Abs(lo-5*math.Log(0.5)) > 1e-12 {
+		t.Errorf("bit absent from 5 bits: ln P(L≤0) = %v", lo)
+	}
+	if _, lo, _ := LongestRunLogTails(10, dec, -1, 0); !math.IsInf(lo, -1) {
+		t.Errorf("no run of any digit in 10 digits: ln P = %v, want -Inf", lo)
+	}
+}

@@ -70,12 +70,12 @@ func runChecks(in checks.Input, opts Options) checks.Result {
 		var wg sync.WaitGroup
 		for i, c := range run {
 			wg.Add(1)
-			go func() { defer wg.Done(); c.Run(in, &parts[i]) }()
+			go func() { defer wg.Done(); runCheck(c, in, &parts[i]) }()
 		}
 		wg.Wait()
 	} else {
 		for i, c := range run {
-			c.Run(in, &parts[i])
+			runCheck(c, in, &parts[i])
 		}
 	}
 	var out checks.Result
@@ -247,4 +247,14 @@ func (r *Result) Decisive() Decisive {
 		}
 	}
 	return d
+}
+
+// runCheck runs one check and bounds its p-values (checks.Clamp): every
+// finding of an audit, first level or segment, passes here.
+func runCheck(c checks.Check, in checks.Input, out *checks.Result) {
+	n := len(out.Findings)
+	c.Run(in, out)
+	for i := n; i < len(out.Findings); i++ {
+		out.Findings[i] = checks.Clamp(out.Findings[i])
+	}
 }

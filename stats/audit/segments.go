@@ -134,7 +134,7 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 				continue
 			}
 			var out checks.Result
-			c.Run(in, &out)
+			runCheck(c, in, &out)
 			for _, f := range out.Findings {
 				if !sc.SegmentStatistic(f) {
 					continue
@@ -166,12 +166,12 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 		series = append(series, SegmentSeries{Label: l, PValues: p})
 		d := stats.KSStatistic(p)
 		ksUp, ksLo := stats.KSLogTails(m, d)
-		fs = append(fs, checks.Finding{Check: "segments", Statistic: "KS", Of: l, Value: d,
-			LogPUpper: ksUp, LogPLower: ksLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)})
+		fs = append(fs, checks.Clamp(checks.Finding{Check: "segments", Statistic: "KS", Of: l, Value: d,
+			LogPUpper: ksUp, LogPLower: ksLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)}))
 		a2 := stats.AndersonDarling(ps)
 		adUp, adLo := stats.ADLogTails(m, a2)
-		fs = append(fs, checks.Finding{Check: "segments", Statistic: "AD", Of: l, Value: a2,
-			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)})
+		fs = append(fs, checks.Clamp(checks.Finding{Check: "segments", Statistic: "AD", Of: l, Value: a2,
+			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)}))
 	}
 	return fs, skips, series
 }

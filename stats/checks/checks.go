@@ -57,6 +57,20 @@ func ParamNames(p map[string]int) []string {
 	return keys
 }
 
+// Clamp returns the finding with both tail p-values in [0, 1]: a log above
+// 0 (rounding in a tail computed as a sum, e.g. 1.0000000000000002) becomes
+// 0, and NaN, which no check should produce, becomes 0 too (p = 1: no
+// evidence) rather than poisoning the adjustment. The audit applies it to
+// every finding as it leaves its check: the one place p-values are bounded.
+func Clamp(f Finding) Finding {
+	for _, lp := range []*float64{&f.LogPUpper, &f.LogPLower} {
+		if !(*lp <= 0) {
+			*lp = 0
+		}
+	}
+	return f
+}
+
 // RandomizedP returns the randomized upper-tail p-value
 // P(T > t) + u·P(T = t) of a finding, u uniform on [0, 1): uniform under the
 // null even for a discrete statistic (the randomized test of Tocher,

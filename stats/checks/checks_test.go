@@ -310,3 +310,44 @@ func TestEntropyIntervalCoverageVector(t *testing.T) {
 		}
 	}
 }
+
+// Clamp bounds both tails to p ≤ 1 and turns NaN into p = 1.
+func TestClamp(t *testing.T) {
+	f := Clamp(Finding{LogPUpper: 1e-15, LogPLower: math.NaN()})
+	if f.LogPUpper != 0 || f.LogPLower != 0 {
+		t.Errorf("clamped to %v, %v", f.LogPUpper, f.LogPLower)
+	}
+	if g := Clamp(Finding{LogPUpper: -3, LogPLower: math.Inf(-1)}); g.LogPUpper != -3 || !math.IsInf(g.LogPLower, -1) {
+		t.Errorf("a valid finding changed: %v, %v", g.LogPUpper, g.LogPLower)
+	}
+}
+
+// The grouped inclusion–exclusion of CouponCDF equals the sum over every
+// subset, for the classes of base 36 (16 classes of 2 or 3 digits).
+func TestCouponCDFGrouped(t *testing.T) {
+	q := make([]float64, 16)
+	for j := 0; j < 36; j++ {
+		q[j*16/36] += 1.0 / 36
+	}
+	got := CouponCDF(q, 300)
+	// The subset sum, directly.
+	for _, r := range []int{16, 40, 100, 300} {
+		s := 0.0
+		for mask := 0; mask < 1<<16; mask++ {
+			qj, sign := 0.0, 1.0
+			for c := range 16 {
+				if mask&(1<<c) != 0 {
+					qj += q[c]
+					sign = -sign
+				}
+			}
+			s += sign * math.Pow(math.Max(0, 1-qj), float64(r))
+		}
+		if math.Abs(got[r]-math.Min(1, math.Max(0, s))) > 1e-9 {
+			t.Errorf("r = %d: grouped %v, subsets %v", r, got[r], s)
+		}
+	}
+	if _, _, ok := groupedTerms([]float64{0.2, 0.3, 0.5}); ok {
+		t.Error("distinct probabilities grouped")
+	}
+}

@@ -81,8 +81,28 @@ func CouponCDF(q []float64, maxR int) []float64 {
 		}
 		return cdf
 	}
-	// Unequal classes: precompute 1 - q_J and its sign per subset J, then
-	// advance (1 - q_J)^r one power at a time.
+	// Unequal classes: P(T ≤ r) = Σ_J (−1)^|J| (1 − q_J)^r over the subsets
+	// J of classes, q_J their total probability (inclusion–exclusion). Each
+	// term is advanced one power at a time. Classes of equal probability
+	// make equal terms: when they are few distinct values (base 36 has 16
+	// classes of 2 or 3 digits), the subsets are grouped by how many of
+	// each value they hold, with binomial weights — 81 terms instead of
+	// 65 536.
+	if base, weight, ok := groupedTerms(q); ok {
+		val := make([]float64, len(base))
+		for i := range val {
+			val[i] = 1
+		}
+		for r := 0; r <= maxR; r++ {
+			s := 0.0
+			for i := range val {
+				s += weight[i] * val[i]
+				val[i] *= base[i]
+			}
+			cdf[r] = math.Min(1, math.Max(0, s))
+		}
+		return cdf
+	}
 	base := make([]float64, 1<<d)
 	val := make([]float64, 1<<d)
 	sign := make([]float64, 1<<d)
@@ -109,6 +129,67 @@ func CouponCDF(q []float64, maxR int) []float64 {
 		cdf[r] = math.Min(1, math.Max(0, s))
 	}
 	return cdf
+}
+
+// groupedTerms returns the inclusion–exclusion terms of CouponCDF grouped
+// by equal class probabilities: for each choice of a_i classes among the
+// c_i of the i-th distinct value v_i, the base 1 − Σ a_i v_i and the
+// weight (−1)^Σa_i Π C(c_i, a_i). ok is false when grouping does not make
+// fewer terms than the 2^d subsets.
+func groupedTerms(q []float64) (base, weight []float64, ok bool) {
+	var vals []float64
+	var counts []int
+	for _, v := range q {
+		found := false
+		for i, u := range vals {
+			if math.Abs(u-v) <= 1e-12 {
+				counts[i]++
+				found = true
+				break
+			}
+		}
+		if !found {
+			vals, counts = append(vals, v), append(counts, 1)
+		}
+	}
+	terms := 1
+	for _, c := range counts {
+		terms *= c + 1
+	}
+	if terms >= 1<<len(q) {
+		return nil, nil, false
+	}
+	a := make([]int, len(vals))
+	for {
+		qj, w, size := 0.0, 1.0, 0
+		for i, k := range a {
+			qj += float64(k) * vals[i]
+			w *= binomial(counts[i], k)
+			size += k
+		}
+		if size%2 == 1 {
+			w = -w
+		}
+		base, weight = append(base, math.Max(0, 1-qj)), append(weight, w)
+		i := 0
+		for i < len(a) && a[i] == counts[i] {
+			a[i] = 0
+			i++
+		}
+		if i == len(a) {
+			return base, weight, true
+		}
+		a[i]++
+	}
+}
+
+// binomial returns C(n, k) as a float (n ≤ 32 here: exact).
+func binomial(n, k int) float64 {
+	c := 1.0
+	for j := 0; j < k; j++ {
+		c = c * float64(n-j) / float64(j+1)
+	}
+	return c
 }
 
 func (couponCheck) Run(in Input, out *Result) {
