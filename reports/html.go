@@ -38,7 +38,7 @@ const htmlStyle = `<style>
 .borel-report th { border-bottom: 2px solid #333; }
 .borel-report .verdict { font-weight: bold; padding: 0.1em 0.5em; border: 2px solid #333; }
 .borel-report .not-consistent { background: #f2d0c8; } .borel-report .too-uniform { background: #d6dff2; }
-.borel-report .consistent { background: #dcefd8; }
+.borel-report .consistent { background: #dcefd8; } .borel-report .nothing-tested { background: #e8e8e8; }
 .borel-report .mark { font-weight: bold; }
 .borel-report figure { margin: 1.5em 0; } .borel-report figcaption { font-size: 0.9em; color: #333; }
 .borel-report .caution { margin-top: 2em; padding: 0.8em; border-left: 4px solid #333; background: #f3f3f3; }

@@ -159,6 +159,8 @@ func verdictReason(r *audit.Result) string {
 	case audit.TooUniform:
 		return fmt.Sprintf("no finding deviates, but %d fit better than chance allows (%s): counts this close to their expectations suggest constructed or low-discrepancy data, not independent digits.",
 			len(uni), listSome(uni))
+	case audit.Untested:
+		return fmt.Sprintf("no check could form a statistic (%d skipped; see why above): nothing was tested, so this is no evidence that the digits are consistent with the null.", len(r.Skips))
 	default:
 		return fmt.Sprintf("no adjusted p-value is at or below alpha = %g in either tail: the digits are statistically consistent with the null at this length.", r.Alpha)
 	}

@@ -20,6 +20,11 @@ const (
 	Consistent    = "consistent"
 	NotConsistent = "not consistent"
 	TooUniform    = "too uniform"
+	// Untested: no check could form a statistic (every one was skipped:
+	// too few digits, or nothing to test under the chosen null and
+	// checks). It is not evidence of consistency, and --strict-style
+	// gating must not pass it.
+	Untested = "nothing tested"
 )
 
 // Finding marks.

@@ -113,7 +113,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		// constant sequence exactly and leaves no degree of freedom to test.
 		res.Skips = append(res.Skips, checks.Skip{Check: "all checks",
 			Reason: "the fitted vector gives one digit all the probability: an i.i.d. model fits a constant sequence exactly, so nothing can be tested; audit against " + opts.name(OptNull) + " uniform or a vector"})
-		res.Findings, res.Verdict = []Finding{}, Consistent
+		res.Findings, res.Verdict = []Finding{}, Untested
 		res.Notes = append(res.Notes, "the sequence uses a single digit")
 		return res, nil
 	}
@@ -176,6 +176,9 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		res.Notes = append(res.Notes, fmt.Sprintf("integer part %q dropped: the sequence is the digits after the radix point", src.IntegerPart))
 	}
 	res.Findings, res.Verdict = adjust(out.Findings, opts)
+	if len(res.Findings) == 0 {
+		res.Verdict = Untested
+	}
 	if res.Verdict == NotConsistent {
 		for _, f := range res.Findings {
 			if f.Mark == MarkTooUniform {

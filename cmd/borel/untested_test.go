@@ -1,0 +1,36 @@
+package main
+
+import (
+	"strings"
+	"testing"
+)
+
+// An audit in which no check could form a statistic says so, and --strict
+// does not pass it: a fitted null with only the frequency check, and 200
+// bytes with checks that need more.
+func TestNothingTested(t *testing.T) {
+	digits := strings.Repeat("0123456789", 300)
+	bytes200 := writeFile(t, "b.bin", []byte(strings.Repeat("\x07\xf3\x11\x80", 50)))
+	for _, args := range [][]string{
+		{"audit", "-", "--null", "fitted", "--checks", "freq", "--strict", "-q"},
+		{"audit", bytes200, "--raw", "--base", "256", "--checks", "gap,poker,coupon,updown", "--strict", "-q"},
+	} {
+		code, out, errs := borel(t, digits, args...)
+		if code != exitVerdict || !strings.Contains(out, "NOTHING TESTED") || !strings.Contains(out, "no evidence") {
+			t.Errorf("%v: exit %d, stderr %q, verdict line %q", args, code, errs, verdictLine(out))
+		}
+	}
+	if code, out, _ := borel(t, digits, "audit", "-", "--null", "fitted", "--checks", "freq", "-q", "--format", "json"); code != 0 ||
+		!strings.Contains(out, `"verdict": "nothing tested"`) {
+		t.Errorf("json: exit %d, %s", code, out)
+	}
+}
+
+func verdictLine(out string) string {
+	for _, l := range strings.Split(out, "\n") {
+		if strings.HasPrefix(l, "Verdict") {
+			return l
+		}
+	}
+	return ""
+}
