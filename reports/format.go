@@ -2,11 +2,11 @@ package reports
 
 import (
 	"fmt"
-
-	"borel/stats/checks"
 	"math"
 	"strconv"
 	"strings"
+
+	"borel/stats/checks"
 )
 
 // formatP prints a probability given as its natural log: 4 significant

@@ -1,10 +1,11 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
 	"math/bits"
+
+	"borel/internal/tally"
 )
 
 // couponCheck is the coupon-collector test: the sequence (digit classes

@@ -1,10 +1,10 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
 
+	"borel/internal/tally"
 	"borel/stats"
 )
 

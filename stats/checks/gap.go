@@ -1,9 +1,10 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
+
+	"borel/internal/tally"
 )
 
 // gapCheck is Knuth's gap test, once per digit class (one class per digit

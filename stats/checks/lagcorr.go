@@ -1,9 +1,10 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
+
+	"borel/internal/tally"
 )
 
 // lagcorrCheck is the serial correlation of digit values at lags h = 1..H,

@@ -1,9 +1,9 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 
+	"borel/internal/tally"
 	"borel/stats"
 )
 

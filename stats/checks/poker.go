@@ -1,9 +1,10 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
+
+	"borel/internal/tally"
 )
 
 // pokerCheck is the poker (partition) test: disjoint hands of h digits,

@@ -1,9 +1,10 @@
 package checks
 
 import (
-	"borel/internal/tally"
 	"fmt"
 	"math"
+
+	"borel/internal/tally"
 )
 
 // updownCheck counts runs up and down (Levene & Wolfowitz 1944). Digits
