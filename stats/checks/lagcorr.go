@@ -8,19 +8,23 @@ import (
 )
 
 // lagcorrCheck is the serial correlation of digit values at lags h = 1..H,
-// with the null's known moments μ = Σ j p_j and σ² = Σ j² p_j - μ²:
+// centred on the sample mean x̄ (Knuth's serial correlation coefficient,
+// TAOCP vol. 2 §3.3.2 K, at lag h; the sample autocorrelation of time
+// series), so that a biased frequency is left to freq and does not read as
+// correlation:
 //
-//	r_h = (1/(n-h)) Σ_{i=1}^{n-h} (x_i - μ)(x_{i+h} - μ)/σ²,   z_h = r_h √(n-h) ~ N(0, 1),
+//	r_h = Σ_{i=1}^{n-h} (x_i - x̄)(x_{i+h} - x̄) / Σ_{i=1}^{n} (x_i - x̄)²
+//	z_h = (r_h - E r_h) / √V_h,   E r_h = -(n-h)/(n(n-1)),   V_h = (n-h)/(n(n+2))
+//	Q   = Σ_h z_h²  ~ χ² with H df
 //
-// exact mean 0 and variance 1/(n-h) under the null (the products are
-// uncorrelated), and different lags uncorrelated, so the portmanteau
-// Q = Σ_h z_h² is χ² with H df (Box–Pierce type). Under the uniform null the
-// sum is formed exactly in integers. It sees only linear dependence of digit
-// values (relabelling the digits changes it); the serial check is label-free.
-// Under a fitted null μ and σ come from the data. Validity: n - h ≥ 100
-// (common practice). References: Knuth, TAOCP vol. 2 §3.3.2 K (the
-// unknown-moment form); Box & Pierce, JASA 65 (1970) 1509–1526 (the sum of
-// squared lag statistics).
+// For i.i.d. digits (any frequency vector) the sequence is exchangeable,
+// so every ordered pair i ≠ j has the same E[(x_i - x̄)(x_j - x̄)/D], and
+// as the n(n-1) pairs sum to -D it is -1/(n(n-1)): E r_h is exact. V_h is
+// the variance of Ljung & Box, Biometrika 65 (1978) 297–303, whose Q this
+// is up to the centring of each r_h; lags are asymptotically independent.
+// It sees only linear dependence of digit values (relabelling the digits
+// changes it); the serial check is label-free. The null's vector plays no
+// part. Validity: n - h ≥ 100 and digits that vary (common practice).
 type lagcorrCheck struct{}
 
 var _ Check = lagcorrCheck{}
@@ -46,18 +50,19 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 			Reason: fmt.Sprintf("%d digits are too few for lags up to %d (needs %d)", n, H, 100+H)})
 		return
 	}
-	mu, m2 := 0.0, 0.0
-	for j, p := range in.Null.P {
-		mu += float64(j) * p
-		m2 += float64(j*j) * p
-	}
-	sigma2 := m2 - mu*mu
-	var sum int64 // Σ x_i
+	var sum, sumSq float64 // Σ x_i, Σ x_i² (exact in float64 below 2^53)
 	for j, c := range t.DigitCounts() {
-		sum += int64(j) * c
+		sum += float64(j) * float64(c)
+		sumSq += float64(j*j) * float64(c)
 	}
-	uniform := in.Null.IsUniform()
-	b1 := int64(t.Base - 1)
+	nf := float64(n)
+	mean := sum / nf
+	den := sumSq - sum*mean // Σ (x_i - x̄)²
+	if !(den > 0) {
+		out.Skips = append(out.Skips, Skip{Check: "lagcorr", Params: map[string]int{"lags": H},
+			Reason: "every digit is the same, so there is no variation to correlate"})
+		return
+	}
 	Q := 0.0
 	for h := 1; h <= H; h++ {
 		var first, last int64
@@ -65,19 +70,14 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 			first += int64(t.Head[i])
 			last += int64(t.Tail[len(t.Tail)-h+i])
 		}
-		a, c := sum-last, sum-first // Σ_{i≤n-h} x_i and Σ_{i>h} x_i
-		pairs := float64(n - int64(h))
-		var num float64
-		if uniform { // 4Σ(x_i-μ)(x_{i+h}-μ) with 2μ = b-1, exactly
-			num = float64(4*lags.Products[h]-2*b1*(a+c)+(n-int64(h))*b1*b1) / 4
-		} else {
-			num = float64(lags.Products[h]) - mu*float64(a+c) + pairs*mu*mu
-		}
-		r := num / (pairs * sigma2)
-		z := r * math.Sqrt(pairs)
+		a, c := sum-float64(last), sum-float64(first) // Σ_{i≤n-h} x_i and Σ_{i>h} x_i
+		pairs := nf - float64(h)
+		num := float64(lags.Products[h]) - mean*(a+c) + pairs*mean*mean
+		r := num / den
+		z := (r + pairs/(nf*(nf-1))) / math.Sqrt(pairs/(nf*(nf+2)))
 		Q += z * z
 		f := normalFinding("lagcorr", "z", map[string]int{"lag": h}, z)
-		f.Detail = fmt.Sprintf("r = %.6g over %d pairs", r, n-int64(h))
+		f.Detail = fmt.Sprintf("r = %.6g over %d pairs (centred on the sample mean %.6g)", r, n-int64(h), mean)
 		out.Findings = append(out.Findings, f)
 	}
 	out.Findings = append(out.Findings, chiSquareFinding("lagcorr", "Q", map[string]int{"lags": H}, Q, float64(H), 0))
