@@ -43,6 +43,10 @@ func csvParams(p map[string]int) string {
 func CSV(w io.Writer, doc Document) error {
 	fmt.Fprintf(w, "# borel %s audit report, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
 	fmt.Fprintf(w, "# command: %s\n", strings.Join(doc.Command, " "))
+	for _, v := range doc.Inputs {
+		h, reason := inputHeadline(v)
+		fmt.Fprintf(w, "# %s; %s\n", h, reason)
+	}
 	for _, r := range doc.Results {
 		for _, p := range provenance(doc, r)[3:] {
 			fmt.Fprintf(w, "# %s %s: %s\n", r.Source.Name, p[0], p[1])

@@ -16,6 +16,9 @@ type Document struct {
 	Command []string  // the command line, for provenance
 	Created time.Time // when the report was made
 	Results []*audit.Result
+	// Inputs: for one input audited in several views or bases, its one
+	// verdict (audit.Combine), reported first; nil otherwise.
+	Inputs []audit.InputVerdict
 }
 
 // Caution ends every report. Consistency is evidence of nothing more.

@@ -24,6 +24,8 @@ type htmlAudit struct {
 	Figures                              []htmlFigure
 }
 
+type htmlInput struct{ Headline, Reason, Class string }
+
 type htmlFigure struct {
 	Title string
 	SVG   template.HTML
@@ -46,7 +48,9 @@ const htmlStyle = `<style>
 
 var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"inc": func(i int) int { return i + 1 }}).Parse(`
 {{define "body"}}<section class="borel-report">
-{{range .Audits}}
+{{range .Inputs}}<h2><span class="verdict {{.Class}}">{{.Headline}}</span></h2>
+<p>{{.Reason}}</p>
+{{end}}{{range .Audits}}
 <h2>{{.Title}}: <span class="verdict {{.VerdictClass}}">{{.Verdict}}</span></h2>
 <p>{{.Reason}}</p>
 <table>{{range .Provenance}}<tr><th scope="row">{{index . 0}}</th><td>{{index . 1}}</td></tr>{{end}}</table>
@@ -96,6 +100,7 @@ func inlineSVG(svg []byte) template.HTML {
 }
 
 type htmlDoc struct {
+	Inputs                 []htmlInput
 	Audits                 []htmlAudit
 	Caution, Version, Date string
 	Style                  template.HTML
@@ -112,6 +117,10 @@ func HTMLFragment(w io.Writer, doc Document) error { return htmlRender(w, doc, "
 func htmlRender(w io.Writer, doc Document, name string) error {
 	pg := htmlDoc{Caution: Caution, Version: doc.Version, Date: doc.Created.UTC().Format("2006-01-02 15:04 UTC"),
 		Style: template.HTML(htmlStyle)}
+	for _, v := range doc.Inputs {
+		h, reason := inputHeadline(v)
+		pg.Inputs = append(pg.Inputs, htmlInput{Headline: h, Reason: reason, Class: strings.ReplaceAll(v.Verdict, " ", "-")})
+	}
 	for _, r := range doc.Results {
 		a, err := htmlAuditOf(doc, r)
 		if err != nil {

@@ -25,8 +25,27 @@ type JSONDocument struct {
 	BorelVersion  string      `json:"borel_version"`
 	Command       []string    `json:"command"`
 	Created       string      `json:"created"`
-	Audits        []JSONAudit `json:"audits"`
-	Caution       string      `json:"caution"`
+	// Inputs: for one input audited in several views or bases, its one
+	// verdict (absent otherwise).
+	Inputs  []JSONInput `json:"inputs,omitempty"`
+	Audits  []JSONAudit `json:"audits"`
+	Caution string      `json:"caution"`
+}
+
+// JSONInput is the one verdict of an input over its views (audit.Combine):
+// the views are the audits at the given indices; p_deviation and
+// p_too_uniform are the smallest p of each side after Holm across the
+// views; decisive is the index of the audit the verdict rests on (-1: none).
+type JSONInput struct {
+	Input            string   `json:"input"`
+	Verdict          string   `json:"verdict"`
+	Rule             string   `json:"rule"`
+	Views            []int    `json:"views"`
+	PDeviation       float64  `json:"p_deviation"`
+	Log10PDeviation  *float64 `json:"log10_p_deviation"`
+	PTooUniform      float64  `json:"p_too_uniform"`
+	Log10PTooUniform *float64 `json:"log10_p_too_uniform"`
+	Decisive         int      `json:"decisive"`
 }
 
 // JSONAudit is one sequence in one base.
@@ -137,6 +156,22 @@ func ToJSON(doc Document) JSONDocument {
 		Command: doc.Command, Created: doc.Created.UTC().Format(time.RFC3339), Audits: []JSONAudit{}, Caution: Caution}
 	for _, r := range doc.Results {
 		out.Audits = append(out.Audits, jsonAudit(r))
+	}
+	for _, v := range doc.Inputs {
+		in := JSONInput{Input: v.Input, Verdict: v.Verdict, Rule: "holm across views of each view's smallest adjusted p, both sides",
+			Views: []int{}, PDeviation: math.Exp(v.LogPDeviation), Log10PDeviation: log10(v.LogPDeviation),
+			PTooUniform: math.Exp(v.LogPTooUniform), Log10PTooUniform: log10(v.LogPTooUniform), Decisive: -1}
+		for _, view := range v.Views {
+			for i, r := range doc.Results {
+				if r == view {
+					in.Views = append(in.Views, i)
+					if v.Decisive >= 0 && v.Views[v.Decisive] == r {
+						in.Decisive = i
+					}
+				}
+			}
+		}
+		out.Inputs = append(out.Inputs, in)
 	}
 	return out
 }

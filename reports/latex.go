@@ -90,6 +90,10 @@ func LaTeX(w io.Writer, doc Document) error {
 	for _, line := range strings.Split(wrap(Caution, 90), "\n") {
 		fmt.Fprintf(bw, "%% %s\n", line)
 	}
+	for _, v := range doc.Inputs {
+		h, reason := inputHeadline(v)
+		fmt.Fprintf(bw, "\n\\paragraph{%s.} %s\n", texEscape(h), texEscape(reason))
+	}
 	for _, r := range doc.Results {
 		fmt.Fprintln(bw)
 		for _, p := range provenance(doc, r) {

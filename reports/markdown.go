@@ -87,6 +87,10 @@ var findingAlign = []bool{false, false, false, true, true, true, true, true, fal
 // once at the end.
 func Markdown(w io.Writer, doc Document) error {
 	bw := bufio.NewWriter(w)
+	for _, v := range doc.Inputs {
+		h, reason := inputHeadline(v)
+		fmt.Fprintf(bw, "**%s**\n\n%s\n\n", mdCell(h), mdCell(reason))
+	}
 	for _, r := range doc.Results {
 		fmt.Fprintf(bw, "### borel audit of %s in base %d: %s\n\n", mdCell(r.Source.Name), r.Base, r.Verdict)
 		fmt.Fprintf(bw, "%s\n\n", mdCell(verdictReason(r)))

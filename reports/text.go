@@ -17,6 +17,12 @@ import (
 // why, the entropy profile, and the verdict; the caution once at the end.
 func Text(w io.Writer, doc Document) error {
 	bw := bufio.NewWriter(w)
+	for _, v := range doc.Inputs {
+		h, reason := inputHeadline(v)
+		fmt.Fprintln(bw, h)
+		fmt.Fprintln(bw, indent(wrap(reason, 98), "  "))
+		fmt.Fprintln(bw)
+	}
 	for i, r := range doc.Results {
 		if i > 0 {
 			fmt.Fprintln(bw)

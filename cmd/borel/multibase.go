@@ -333,5 +333,10 @@ func runAuditAcross(e env, fs interface {
 		return 0, err
 	}
 	powerNotes(results)
-	return a.out.report(e, results, a.flags.strict)
+	name := results[0].Source.Name
+	var inputs []audit.InputVerdict
+	if len(results) > 1 {
+		inputs = []audit.InputVerdict{audit.Combine(name, results, opts.Alpha)}
+	}
+	return a.out.reportInputs(e, results, inputs, a.flags.strict)
 }

@@ -239,8 +239,15 @@ func sameFile(in, out string) bool {
 // returns the exit status: 3 under --strict when any verdict is not
 // consistent.
 func (o *output) report(e env, results []*audit.Result, strict bool) (int, error) {
+	return o.reportInputs(e, results, nil, strict)
+}
+
+// reportInputs is report for one input audited in several views or bases:
+// inputs holds its one verdict, which --strict gates on (the views'
+// verdicts are detail).
+func (o *output) reportInputs(e env, results []*audit.Result, inputs []audit.InputVerdict, strict bool) (int, error) {
 	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(),
-		Results: results}
+		Results: results, Inputs: inputs}
 	data, err := render(doc, o.format)
 	if err != nil {
 		return 0, err
@@ -249,6 +256,14 @@ func (o *output) report(e env, results []*audit.Result, strict bool) (int, error
 		return 0, err
 	}
 	if strict {
+		if len(inputs) > 0 {
+			for _, in := range inputs {
+				if in.Verdict != audit.Consistent {
+					return exitVerdict, nil
+				}
+			}
+			return exitOK, nil
+		}
 		for _, r := range results {
 			if r.Verdict != audit.Consistent {
 				return exitVerdict, nil
