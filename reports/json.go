@@ -20,11 +20,11 @@ const (
 
 // JSONDocument is the JSON report, field by field (README.md documents it).
 type JSONDocument struct {
-	Schema        string      `json:"schema"`
-	SchemaVersion int         `json:"schema_version"`
-	BorelVersion  string      `json:"borel_version"`
-	Command       []string    `json:"command"`
-	Created       string      `json:"created"`
+	Schema        string   `json:"schema"`
+	SchemaVersion int      `json:"schema_version"`
+	BorelVersion  string   `json:"borel_version"`
+	Command       []string `json:"command"`
+	Created       string   `json:"created"`
 	// Inputs: for one input audited in several views or bases, its one
 	// verdict (absent otherwise).
 	Inputs  []JSONInput `json:"inputs,omitempty"`
