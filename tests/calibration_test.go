@@ -158,7 +158,7 @@ func TestCalibrationShortInputs(t *testing.T) {
 		for i := range p {
 			p[i] = 1 / float64(c.base)
 		}
-		verdicts := map[string]int{}
+		verdicts, exactTail := map[string]int{}, map[string]int{}
 		for i := range calibrationRuns {
 			var key [32]byte
 			key[0], key[1], key[2], key[3], key[4] = 's', byte(c.base), byte(c.n), byte(c.n>>8), byte(i)
@@ -169,12 +169,32 @@ func TestCalibrationShortInputs(t *testing.T) {
 				t.Fatal(err)
 			}
 			verdicts[r.Verdict]++
+			for _, f := range r.Findings {
+				if f.Check != "drift" && f.Check != "maxrun" {
+					continue
+				}
+				if f.LogPUpper <= math.Log(0.01) {
+					exactTail[f.Label()+" upper"]++
+				}
+				if f.LogPLower <= math.Log(0.01) {
+					exactTail[f.Label()+" lower"]++
+				}
+			}
 		}
 		for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
 			if k := verdicts[v]; k < lo || k > hi {
 				t.Errorf("base %d, n = %d: %d of %d verdicts %q, outside [%d, %d]", c.base, c.n, k, calibrationRuns, v, lo, hi)
 			}
 		}
-		t.Logf("base %d, n = %d: %v", c.base, c.n, verdicts)
+		// The statistics with exact laws at these lengths (drift's lattice
+		// walk, the longest runs): each tail at or below 0.01 at most as
+		// often as the binomial interval of 0.01 allows. Drift's lower tail
+		// used the Brownian limit and reached 3.2% at n = 100 bits.
+		for l, k := range exactTail {
+			if k > hi {
+				t.Errorf("base %d, n = %d: %s p ≤ 0.01 in %d of %d sequences, above %d", c.base, c.n, l, k, calibrationRuns, hi)
+			}
+		}
+		t.Logf("base %d, n = %d: %v; exact tails ≤ 0.01: %v", c.base, c.n, verdicts, exactTail)
 	}
 }

@@ -1,0 +1,114 @@
+package stats
+
+import "math"
+
+// WalkMaxCost is the largest number of cell updates WalkMaxLogTails spends
+// (n steps × window width × digits): beyond it the caller uses the
+// Brownian limit.
+const WalkMaxCost = 1e7
+
+// WalkMaxLogTails returns the exact ln P(M ≥ e) and ln P(M ≤ e) for the
+// maximal excursion M = max_{0≤k≤n} |T_k − kμ| of the digit-sum walk
+// T_k = x_1 + … + x_k of n i.i.d. digits with P(x = j) = p[j] and mean
+// μ = Σ j p_j. ok is false (and nothing is computed) when the cost would
+// exceed WalkMaxCost.
+//
+// A dynamic program over the integer sums T_k kept inside the window
+// kμ − e ≤ T_k ≤ kμ + e: each step convolves the mass with p and removes
+// what leaves the window. P(M ≤ e) is the mass left after n steps; P(M ≥ e)
+// is the sum of the mass that reaches |T_k − kμ| ≥ e, first exits, a sum
+// of positive terms (neither tail is 1 minus the other). The mass is
+// rescaled each step and its logarithm kept, so neither tail underflows.
+// Boundary values are compared with a relative tolerance of 1e-9, so that
+// the observed excursion itself counts in both tails (M is discrete).
+// This is the exact law the Brownian limit approximates (Erdős & Kac 1946);
+// the program is the standard one for first-passage probabilities of a
+// lattice walk (Feller, vol. 1, ch. XIV).
+func WalkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64, ok bool) {
+	b := len(p)
+	mu := 0.0
+	for j, v := range p {
+		mu += float64(j) * v
+	}
+	tol := 1e-9 * math.Max(1, e)
+	width := 2*e + 2
+	if float64(n)*width*float64(b) > WalkMaxCost || n < 1 {
+		return 0, 0, false
+	}
+	// Window of T_k for the lower tail (|T_k − kμ| ≤ e, inclusive) and for
+	// the upper tail (|T_k − kμ| < e: reaching e is an exit).
+	bounds := func(k int64, strict bool) (lo, hi int64) {
+		c := float64(k) * mu
+		if strict {
+			return int64(math.Floor(c-e+tol)) + 1, int64(math.Ceil(c+e-tol)) - 1
+		}
+		return int64(math.Ceil(c - e - tol)), int64(math.Floor(c + e + tol))
+	}
+	run := func(strict bool) (logStay, logExit float64) {
+		lo0, hi0 := bounds(0, strict)
+		logExit = math.Inf(-1)
+		if lo0 > 0 || hi0 < 0 { // T_0 = 0 is already outside (e = 0, strict)
+			return math.Inf(-1), 0
+		}
+		off := lo0
+		cur := make([]float64, hi0-lo0+1)
+		cur[-off] = 1
+		logScale := 0.0
+		var full, next []float64
+		for k := int64(1); k <= n; k++ {
+			lo, hi := bounds(k, strict)
+			// The whole convolution, digit by digit over contiguous cells
+			// (T from off to off+len(cur)+b−2), then split into the window
+			// and what left it.
+			full = append(full[:0], make([]float64, len(cur)+b-1)...)
+			for j, pj := range p {
+				if pj == 0 {
+					continue
+				}
+				dst := full[j : j+len(cur)]
+				for i, m := range cur {
+					dst[i] += m * pj
+				}
+			}
+			exit, kept := 0.0, 0.0
+			next = next[:0]
+			for i, v := range full {
+				if u := off + int64(i); u >= lo && u <= hi {
+					kept += v
+				} else {
+					exit += v
+				}
+			}
+			if exit > 0 {
+				logExit = logAddExp(logExit, logScale+math.Log(exit))
+			}
+			if kept == 0 {
+				return math.Inf(-1), logExit
+			}
+			first, last := max(lo, off)-off, min(hi, off+int64(len(full))-1)-off
+			for i := first; i <= last; i++ {
+				next = append(next, full[i]/kept)
+			}
+			logScale += math.Log(kept)
+			cur, next = next, cur
+			off = max(lo, off)
+		}
+		return logScale, logExit
+	}
+	stay, _ := run(false)
+	_, exit := run(true)
+	return math.Min(0, exit), math.Min(0, stay), true
+}
+
+func logAddExp(a, b float64) float64 {
+	if math.IsInf(a, -1) {
+		return b
+	}
+	if math.IsInf(b, -1) {
+		return a
+	}
+	if a < b {
+		a, b = b, a
+	}
+	return a + math.Log1p(math.Exp(b-a))
+}
