@@ -67,6 +67,11 @@ func runDigits(e env, args []string) (int, error) {
 	if *count < 1 {
 		return 0, usagef("--count %d: give the number of digits, 1 or more", *count)
 	}
+	if *output != "" && *output != "-" {
+		if err := checkWritable(*output, "-o"); err != nil {
+			return 0, err
+		}
+	}
 	if *offset < 0 || *wrap < 0 {
 		return 0, usagef("--offset and --wrap must not be negative")
 	}
@@ -166,6 +171,11 @@ func runRebase(e env, args []string) (int, error) {
 	}
 	if sameFile(input, *output) {
 		return 0, usagef("-o %s is the input file; choose another name", *output)
+	}
+	if *output != "" && *output != "-" {
+		if err := checkWritable(*output, "-o"); err != nil {
+			return 0, err
+		}
 	}
 	d, intPart, err := readAllDigits(e, input, a)
 	if err != nil {

@@ -60,6 +60,21 @@ func (o *output) check(input string) error {
 	if sameFile(input, o.path) {
 		return usagef("-o %s is the input file; choose another name so the input is not overwritten", o.path)
 	}
+	if o.path != "" && o.path != "-" {
+		if err := checkWritable(o.path, "-o"); err != nil {
+			return err
+		}
+	}
+	if o.appendTo != "" {
+		if err := checkWritable(o.appendTo, "--append"); err != nil {
+			return err
+		}
+	}
+	if o.plots != "" {
+		if err := checkPlotFolder(o.plots); err != nil {
+			return err
+		}
+	}
 	return nil
 }
 
@@ -147,7 +162,12 @@ func writePlots(dir string, doc reports.Document) error {
 		if err != nil {
 			return err
 		}
-		stem := strings.Trim(unsafeName.ReplaceAllString(r.Source.Name, "-"), "-")
+		// The input's base name, never a leading dot or dash (a hidden
+		// file): ../pi-decimals.txt gives pi-decimals.txt-base10-….
+		stem := strings.TrimLeft(strings.Trim(unsafeName.ReplaceAllString(filepath.Base(r.Source.Name), "-"), "-"), ".-")
+		if stem == "" {
+			stem = "input"
+		}
 		if len(doc.Results) > 1 {
 			stem = fmt.Sprintf("%d-%s", i+1, stem)
 		}
@@ -180,6 +200,18 @@ var writeHook func(io.Writer) io.Writer
 // folder, synced and renamed over the target, so an interrupted or failed
 // run leaves any earlier file whole and no temporary file behind.
 func writeAtomic(path string, data []byte) error {
+	shown := path
+	target, st, err := resolveTarget(path)
+	if err != nil {
+		return fmt.Errorf("cannot write %s: %v", shown, err)
+	}
+	if st != nil && st.IsDir() {
+		return fmt.Errorf("cannot write %s: it is a folder", shown)
+	}
+	if st != nil && !st.Mode().IsRegular() {
+		return writeInPlace(target, data)
+	}
+	path = target
 	dir := filepath.Dir(path)
 	tmp, err := os.CreateTemp(dir, ".borel-*.tmp")
 	if err != nil {

@@ -147,9 +147,10 @@ func TestOutputFile(t *testing.T) {
 	if again, _ := os.ReadFile(out); !bytes.Equal(again, data) {
 		t.Error("a failed run changed the earlier report")
 	}
-	// A report into a missing folder is an error and leaves nothing behind.
+	// A report into a missing folder is refused before the pass and leaves
+	// nothing behind.
 	code, _, errs = borel(t, "", "audit", in, "-o", filepath.Join(dir, "no", "such", "r.txt"))
-	if code != 1 || !strings.Contains(errs, "cannot write ") || !strings.Contains(errs, "no such file or directory") {
+	if code != exitUsage || !strings.Contains(errs, "does not exist; create it first") {
 		t.Errorf("missing folder: exit %d %q", code, errs)
 	}
 	entries, _ := os.ReadDir(dir)

@@ -73,6 +73,9 @@ func runTally(e env, args []string) (int, error) {
 	if sameFile(input, *output) {
 		return 0, usagef("-o %s is the input file; choose another name", *output)
 	}
+	if err := checkWritable(*output, "-o"); err != nil {
+		return 0, err
+	}
 	plan, err := audit.NewPlan(opt.Base, -1, opts)
 	if err != nil {
 		return 0, usageError{err.Error()}
