@@ -138,7 +138,7 @@ func TestBasesErrors(t *testing.T) {
 		{[]string{"digits", "pi", "--count", "2000000000"}, "of memory, over the bound of"},
 		{[]string{"audit", "--source", "e", "--count", "2000000000"}, "of memory, over the bound of"},
 		{[]string{"compare", "pi", "--count", "2000000000"}, "of memory, over the bound of"},
-		{[]string{"digits", "pi"}, "--count 0: give the number of digits"},
+		{[]string{"digits", "pi"}, "digits needs --count N, the number of digits"},
 		{[]string{"digits", "stoneham:2,4", "--count", "5"}, "coprime"},
 		{[]string{"rebase", "--from", "10"}, "rebase needs --from and --to"},
 		{[]string{"rebase", "--from", "10", "--to", "40"}, "--to: --base 40 is outside 2..36"},

@@ -64,6 +64,9 @@ func runDigits(e env, args []string) (int, error) {
 	if !fs.Changed("base") && src.Base() != 0 {
 		b = src.Base()
 	}
+	if !fs.Changed("count") {
+		return 0, usagef("digits needs --count N, the number of digits to write")
+	}
 	if *count < 1 {
 		return 0, usagef("--count %d: give the number of digits, 1 or more", *count)
 	}
@@ -211,7 +214,14 @@ func readAllDigits(e env, input string, base int) ([]byte, string, error) {
 		}
 		in, name = bufio.NewReader(f), input
 	}
-	r, err := newReader(in, seq.Options{Source: name, Base: base})
+	// rebase's input base is its --from.
+	opt := seq.Options{Source: name, Base: base, OptionName: func(o string) string {
+		if o == "Base" {
+			return "--from"
+		}
+		return flagName(o)
+	}}
+	r, err := seq.NewReader(in, opt)
 	if err != nil {
 		return nil, "", err
 	}

@@ -287,7 +287,11 @@ func runAuditAcross(e env, fs interface {
 		}
 		for _, b := range bases {
 			if b != 2 && b != 4 && b != 16 && b != 256 {
-				return 0, usagef("--bases %d for raw bytes: a byte stream regroups exactly into bases 2, 4, 16 and 256 (bits, bit pairs, nibbles, bytes)", b)
+				what := "--bases " + strconv.Itoa(b)
+				if a.bases == "" {
+					what = "--base " + strconv.Itoa(b) + " with --raw"
+				}
+				return 0, usagef("%s: a byte stream regroups exactly into bases 2, 4, 16 and 256 (bits, bit pairs, nibbles, bytes); give one of those", what)
 			}
 		}
 	default:

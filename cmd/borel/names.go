@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"strconv"
 
 	"borel/stats/audit"
 	"borel/stats/seq"
@@ -44,4 +45,12 @@ func auditDefaults() audit.Options {
 func newReader(in io.Reader, opt seq.Options) (*seq.Reader, error) {
 	opt.OptionName = flagName
 	return seq.NewReader(in, opt)
+}
+
+// plural writes "1 shard", "2 shards".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return strconv.Itoa(n) + " " + noun + "s"
 }

@@ -80,13 +80,19 @@ func parseMaxBlock(s string) (int, error) {
 
 // parseSize reads a memory size: bytes, or a number with KiB, MiB, GiB
 // (or K, M, G, taken as the same powers of two).
+//
+// Suffixes, in either case: IEC KiB, MiB, GiB, TiB (powers of 1024); SI kB,
+// MB, GB, TB (powers of 1000); a bare K, M, G or T is IEC, as memory sizes
+// usually are; B or none is bytes.
 func parseSize(s string) (int64, error) {
 	t := strings.TrimSpace(s)
-	mult := int64(1)
+	mult := 1.0
 	for _, u := range []struct {
 		suffix string
-		m      int64
-	}{{"GiB", 1 << 30}, {"MiB", 1 << 20}, {"KiB", 1 << 10}, {"G", 1 << 30}, {"M", 1 << 20}, {"K", 1 << 10}, {"B", 1}} {
+		m      float64
+	}{{"TiB", 1 << 40}, {"GiB", 1 << 30}, {"MiB", 1 << 20}, {"KiB", 1 << 10},
+		{"TB", 1e12}, {"GB", 1e9}, {"MB", 1e6}, {"KB", 1e3},
+		{"T", 1 << 40}, {"G", 1 << 30}, {"M", 1 << 20}, {"K", 1 << 10}, {"B", 1}} {
 		if strings.HasSuffix(strings.ToUpper(t), strings.ToUpper(u.suffix)) {
 			t = strings.TrimSpace(t[:len(t)-len(u.suffix)])
 			mult = u.m
@@ -94,9 +100,9 @@ func parseSize(s string) (int64, error) {
 		}
 	}
 	v, err := strconv.ParseFloat(t, 64)
-	bytes := v * float64(mult)
+	bytes := v * mult
 	if err != nil || !(bytes >= 1) || bytes > 1<<60 {
-		return 0, usagef("--memory %q: give a size from 1 byte to 1 EiB, such as 256MiB or 2GiB", s)
+		return 0, usagef("--memory %q: give a size from 1 byte to 1 EiB, such as 256MiB or 2GiB (KiB, MiB, GiB, TiB are powers of 1024; kB, MB, GB, TB powers of 1000)", s)
 	}
 	return int64(bytes), nil
 }

@@ -200,7 +200,7 @@ func runMerge(e env, args []string) (int, error) {
 		names = append(names, n.name)
 		size += n.s.Source.Bytes
 	}
-	src := audit.Source{Name: fmt.Sprintf("%d shards", len(shards)), Kind: "shards", Format: "tally", Bytes: -1,
+	src := audit.Source{Name: plural(len(shards), "shard"), Kind: "shards", Format: "tally", Bytes: -1,
 		Parameters: "merged in offset order: " + strings.Join(names, ", ")}
 	res, err := plan.Finish(merged, src)
 	if err != nil {

@@ -1,0 +1,49 @@
+package main
+
+import (
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// Sizes in SI and IEC units (1MB and 1kB were refused).
+func TestParseSizeUnits(t *testing.T) {
+	for in, want := range map[string]int64{"1MB": 1_000_000, "1kB": 1000, "1KB": 1000, "2GiB": 2 << 30, "256M": 256 << 20,
+		"256MiB": 256 << 20, "1.5GB": 1_500_000_000, "1TiB": 1 << 40, "4096": 4096, "10B": 10} {
+		if got, err := parseSize(in); err != nil || got != want {
+			t.Errorf("%s: %d, %v; want %d", in, got, err, want)
+		}
+	}
+	if _, err := parseSize("1XB"); err == nil || !strings.Contains(err.Error(), "powers of 1000") {
+		t.Errorf("1XB: %v", err)
+	}
+}
+
+// Messages that named the wrong option, and a missing required one.
+func TestRoughEdgeMessages(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct {
+		stdin string
+		args  []string
+		want  string
+	}{
+		{"0123", []string{"audit", "-", "--raw", "--base", "8"}, "--base 8 with --raw"},
+		{"12a4", []string{"rebase", "-", "--from", "10", "--to", "3"}, "give the right --from"},
+		{"", []string{"digits", "pi"}, "digits needs --count N"},
+	} {
+		code, _, errs := borel(t, c.stdin, c.args...)
+		if code == 0 || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want %q", c.args, code, errs, c.want)
+		}
+	}
+	// One shard is "1 shard".
+	shard := filepath.Join(dir, "p.shard")
+	digits := strings.Repeat("31415926535897932384", 100)
+	if code, _, errs := borel(t, digits, "tally", "-", "--offset", "0", "--max-block", "2", "-q", "-o", shard); code != 0 {
+		t.Fatalf("tally: %d %s", code, errs)
+	}
+	code, out, errs := borel(t, "", "merge", shard, "-q")
+	if code != 0 || strings.Contains(out, "1 shards") || !strings.Contains(out, "1 shard") {
+		t.Errorf("merge of one shard: exit %d %s; %q", code, errs, verdictLine(out))
+	}
+}
