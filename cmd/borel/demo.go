@@ -12,7 +12,7 @@ import (
 	"borel/stats/expand"
 )
 
-const demoHelp = `Usage: borel demo [--format text|json] [-o OUT]
+const demoHelp = `Usage: borel demo [--format text|md|csv|json|tex|html] [-o OUT] [--plots DIR]
 
 Runs the built-in scenario end to end in a few seconds. The Wrenfield Institute's small
 computing group audits two constants it computed itself (pi and sqrt 2, 30 000 decimals

@@ -30,7 +30,7 @@ Sources: pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, ston
 (coprime B, C ≥ 2), rational:P/Q, liouville; generators iid:p0,p1,..., pcg:SEED, chacha8:SEED and
 lcg:SEED (RANDU, deliberately weak).
 
-Example: 100 000 digits of pi in base 7, audited in base 7:
+Example: 1000 digits of pi in base 7, then 100 000 of them audited in base 7:
   $ borel digits pi --base 7 --count 1000
   ...
   borel digits pi --base 7 --count 100000 | borel audit --base 7 -
@@ -141,7 +141,7 @@ within A^-n: borel prints exactly the base-B digits that every number in that in
 (the common prefix of the two ends' expansions), and says on standard error how many. An integer
 part before a radix point is converted exactly and printed before the point.
 
-Example: 20 decimals of pi into base 3:
+Example: the 10^6 decimals of pi in the test data into base 3 (2 095 902 ternary digits):
   $ borel rebase --from 10 --to 3 testdata/pi-1e6.txt.gz
 `
 

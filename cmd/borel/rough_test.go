@@ -47,3 +47,29 @@ func TestRoughEdgeMessages(t *testing.T) {
 		t.Errorf("merge of one shard: exit %d %s; %q", code, errs, verdictLine(out))
 	}
 }
+
+// Every help lists option values by what they are (A, N, SIZE…), never by
+// Go type, and switches without "[=true|false]"; and the claims of the
+// help examples hold (the digit counts they state).
+func TestHelpListsOptionsPlainly(t *testing.T) {
+	for _, c := range subcommands() {
+		_, help, _ := borel(t, "", c.name, "--help")
+		opts := help[strings.Index(help, "Options:"):]
+		for _, bad := range []string{"[=true|false]", " string ", " int ", " uint64 "} {
+			if strings.Contains(opts, bad) {
+				t.Errorf("borel %s --help lists %q", c.name, bad)
+			}
+		}
+	}
+	if _, out, _ := borel(t, "", "digits", "pi", "--base", "7", "--count", "1000", "-q"); len(strings.TrimSpace(out)) != 1000 {
+		t.Errorf("the digits example printed %d digits, its help says 1000", len(strings.TrimSpace(out)))
+	}
+	_, out, _ := borel(t, "", "rebase", "--from", "10", "--to", "3", "../../testdata/pi-1e6.txt.gz", "-q")
+	_, frac, _ := strings.Cut(strings.TrimSpace(out), ".") // the integer part, 10 in base 3, is printed first
+	if n := len(frac); n != 2_095_902 {
+		t.Errorf("the rebase example printed %d ternary digits, its help says 2 095 902", n)
+	}
+	if _, help, _ := borel(t, "", "--help"); !strings.Contains(help, "130") {
+		t.Error("borel --help leaves out exit status 130")
+	}
+}

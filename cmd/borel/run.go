@@ -69,7 +69,8 @@ Examples:
   $ borel audit - --raw < generator.bin
 
 Exit status: 0 success; 1 the input could not be read or is not a sequence of the base;
-2 invalid options or arguments; 3 with --strict, a verdict other than consistent.
+2 invalid options or arguments; 3 with --strict, a verdict other than consistent; 130 stopped
+by SIGINT or SIGTERM (nothing written).
 `
 
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
@@ -123,10 +124,67 @@ func parseFlags(fs *pflag.FlagSet, args []string, help string, stdout io.Writer)
 		if errors.Is(err, pflag.ErrHelp) {
 			fmt.Fprint(stdout, help)
 			fmt.Fprintln(stdout, "\nOptions:")
-			fmt.Fprint(stdout, fs.FlagUsagesWrapped(100))
+			fmt.Fprint(stdout, flagUsages(fs, 100))
 			return true, nil
 		}
 		return false, usagef("%s: %v (see borel %s --help)", fs.Name(), err, fs.Name())
 	}
 	return false, nil
 }
+
+// valueNames are the placeholders the help shows for option values (pflag
+// would show the Go type: "string" for --alpha, a number).
+var valueNames = map[string]string{
+	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "bases": "LIST", "checks": "LIST",
+	"count": "N", "format": "FORMAT", "from": "B", "from-base": "B", "max-block": "K", "memory": "SIZE",
+	"null": "NULL", "offset": "N", "output": "FILE", "plots": "DIR", "section": "NAME", "seed": "N",
+	"segments": "M", "source": "NAME", "to": "B", "workers": "N", "wrap": "W", "p": "P", "k-max": "K",
+}
+
+// flagUsages lists a flag set's options for --help: the option, its value
+// placeholder (none for a switch), the usage wrapped to cols, the default.
+func flagUsages(fs *pflag.FlagSet, cols int) string {
+	type row struct{ left, right string }
+	var rows []row
+	width := 0
+	fs.VisitAll(func(f *pflag.Flag) {
+		if f.Hidden {
+			return
+		}
+		left := "      --" + f.Name
+		if f.Shorthand != "" {
+			left = "  -" + f.Shorthand + ", --" + f.Name
+		}
+		name, usage := pflag.UnquoteUsage(f)
+		if f.Value.Type() != "bool" {
+			if v, ok := valueNames[f.Name]; ok && !strings.Contains(f.Usage, "`") {
+				name = v
+			} else if name == "string" || name == "" {
+				name = "VALUE"
+			} else if name == "int" || name == "uint" || name == "uint64" || name == "int64" {
+				name = "N"
+			}
+			left += " " + name
+		}
+		switch def := f.DefValue; {
+		case f.Value.Type() == "bool" || def == "" || def == "0" || def == "[]":
+		default:
+			usage += fmt.Sprintf(" (default %s)", def)
+		}
+		rows = append(rows, row{left, usage})
+		width = max(width, len([]rune(left)))
+	})
+	var b strings.Builder
+	for _, r := range rows {
+		pad := width + 3
+		lines := strings.Split(wrapWords(r.right, cols-pad), "\n")
+		fmt.Fprintf(&b, "%-*s%s\n", pad+len(r.left)-len([]rune(r.left)), r.left, lines[0])
+		for _, l := range lines[1:] {
+			fmt.Fprintf(&b, "%s%s\n", strings.Repeat(" ", pad), l)
+		}
+	}
+	return b.String()
+}
+
+// wrapWords breaks text into lines of at most width runes at spaces.
+func wrapWords(text string, width int) string { return wrap(text, max(20, width)) }

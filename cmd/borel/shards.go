@@ -22,7 +22,8 @@ writes its shard: the one-pass sufficient statistics of the stretch, which borel
 exactly. Every shard of one audit needs the same --max-block, --base and --null; a batch
 scheduler runs one borel tally per stretch, on any machines, in any order.
 
-Example: the digits of a long file cut into pieces of 500 000, two of them here:
+Example: the stretch at offset 0 as one shard (each machine tallies its own stretch, with its
+own --offset, from its own piece of the file or stream):
   $ borel tally testdata/pi-1e6.txt.gz --offset 0 --max-block 4 -o /tmp/borel-part0.shard
 `
 
