@@ -52,6 +52,7 @@ func runAudit(e env, args []string) (int, error) {
 	fs := pflag.NewFlagSet("audit", pflag.ContinueOnError)
 	base := fs.String("base", "", "base of the digits: 2..36 for text (default 10); raw bytes are base 256, bits base 2")
 	raw := fs.Bool("raw", false, "read bytes as base-256 digits")
+	gz := fs.String("gzip", "auto", gzipUsage)
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
 	var af auditFlags
 	af.register(fs, flNull|flAlpha|flAdjust|flMaxBlock|flMemory|flStrict|flSegments|flSeed|flWorkers|flChecks, nil)
@@ -64,16 +65,20 @@ func runAudit(e env, args []string) (int, error) {
 	if done, err := parseFlags(fs, args, auditHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
+	gzipMode, err := parseGzip(*gz)
+	if err != nil {
+		return 0, err
+	}
 	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
 		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
-			raw: *raw, bits: *bits, count: *count, flags: &af, out: out})
+			raw: *raw, bits: *bits, count: *count, flags: &af, out: out, gzip: gzipMode})
 	}
 	if fs.NArg() != 1 {
 		return 0, usagef("audit needs one input, a file or - for standard input (got %d); see borel audit --help", fs.NArg())
 	}
 	input := fs.Arg(0)
 
-	opt := seq.Options{Format: seq.Text, Base: 10}
+	opt := seq.Options{Format: seq.Text, Base: 10, Gzip: gzipMode}
 	switch {
 	case *raw && *bits:
 		return 0, usagef("--raw and --bits exclude each other: bytes are read either as base-256 digits or as bits")
@@ -149,10 +154,9 @@ func openInput(e env, name string, opt seq.Options) (audit.Source, io.Reader, fu
 	}
 	if st.Mode().IsRegular() {
 		src.Bytes = st.Size()
-		var magic [2]byte
-		if n, _ := io.ReadFull(f, magic[:]); n == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
-			src.Compressed = true
-		}
+		var header [10]byte
+		n, _ := io.ReadFull(f, header[:])
+		src.Compressed = opt.Gzip == seq.GzipYes || (opt.Gzip == seq.GzipAuto && seq.LooksGzip(header[:n]))
 		if _, err := f.Seek(0, io.SeekStart); err != nil {
 			f.Close()
 			return src, nil, nil, fmt.Errorf("cannot read %s: %v", name, err)

@@ -105,7 +105,7 @@ func auditSource(name string, bases []int, count int, opts audit.Options) ([]*au
 
 // auditRebased reads a text digit file in base from and audits the digits
 // it determines in each base (exact rebase).
-func auditRebased(e env, input string, from int, bases []int, opts audit.Options) ([]*audit.Result, error) {
+func auditRebased(e env, input string, from int, bases []int, opts audit.Options, gz seq.Gzip) ([]*audit.Result, error) {
 	var in io.Reader = e.stdin
 	name, kind, size := "stdin", "stdin", int64(-1)
 	if input != "-" {
@@ -121,7 +121,7 @@ func auditRebased(e env, input string, from int, bases []int, opts audit.Options
 		in, name, kind, size = f, input, "file", st.Size()
 	}
 	hash := sha256.New()
-	r, err := newReader(io.TeeReader(in, hash), seq.Options{Source: name, Base: from})
+	r, err := newReader(io.TeeReader(in, hash), seq.Options{Source: name, Base: from, Gzip: gz})
 	if err != nil {
 		return nil, err
 	}
@@ -153,14 +153,14 @@ func auditRebased(e env, input string, from int, bases []int, opts audit.Options
 // auditRegrouped reads a raw byte stream once and audits it in each of the
 // exact regroupings (bits, bit pairs, nibbles, bytes), most significant
 // first.
-func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet bool) ([]*audit.Result, error) {
-	src, in, closeIn, err := openInput(e, input, seq.Options{Format: seq.Raw, Base: 256})
+func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet bool, gz seq.Gzip) ([]*audit.Result, error) {
+	src, in, closeIn, err := openInput(e, input, seq.Options{Format: seq.Raw, Base: 256, Gzip: gz})
 	if err != nil {
 		return nil, err
 	}
 	defer closeIn()
 	hash := sha256.New()
-	r, err := newReader(io.TeeReader(in, hash), seq.Options{Format: seq.Raw, Source: src.Name})
+	r, err := newReader(io.TeeReader(in, hash), seq.Options{Format: seq.Raw, Source: src.Name, Gzip: gz})
 	if err != nil {
 		return nil, err
 	}
@@ -239,6 +239,7 @@ type auditAcross struct {
 	count                         int
 	flags                         *auditFlags
 	out                           output
+	gzip                          seq.Gzip
 }
 
 // runAuditAcross audits one number or stream in several bases side by side.
@@ -319,7 +320,7 @@ func runAuditAcross(e env, fs interface {
 	case a.source != "":
 		results, err = auditSource(a.source, bases, a.count, opts)
 	case a.raw:
-		results, err = auditRegrouped(e, input, bases, opts, a.out.quiet)
+		results, err = auditRegrouped(e, input, bases, opts, a.out.quiet, a.gzip)
 	default:
 		from := 10
 		fb := a.fromBase
@@ -331,7 +332,7 @@ func runAuditAcross(e env, fs interface {
 				return 0, usageError{"--from-base: " + err.Error()}
 			}
 		}
-		results, err = auditRebased(e, input, from, bases, opts)
+		results, err = auditRebased(e, input, from, bases, opts, a.gzip)
 	}
 	if err != nil {
 		return 0, err

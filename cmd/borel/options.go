@@ -8,6 +8,7 @@ import (
 
 	"borel/stats/audit"
 	"borel/stats/checks"
+	"borel/stats/seq"
 )
 
 // parseBase reads --base: an integer in lo..hi.
@@ -105,6 +106,22 @@ func parseSize(s string) (int64, error) {
 		return 0, usagef("--memory %q: give a size from 1 byte to 1 EiB, such as 256MiB or 2GiB (KiB, MiB, GiB, TiB are powers of 1024; kB, MB, GB, TB powers of 1000)", s)
 	}
 	return int64(bytes), nil
+}
+
+// gzipUsage is the help of --gzip.
+const gzipUsage = "whether the input is gzip-compressed: auto (a valid gzip header, not just its first two bytes), yes or no (bytes 1f 8b are data)"
+
+// parseGzip reads --gzip: auto, yes or no.
+func parseGzip(s string) (seq.Gzip, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "auto", "":
+		return seq.GzipAuto, nil
+	case "yes":
+		return seq.GzipYes, nil
+	case "no":
+		return seq.GzipNo, nil
+	}
+	return 0, usagef("--gzip %q: give auto, yes or no", s)
 }
 
 // parseAdjust reads --adjust.

@@ -73,3 +73,25 @@ func TestHelpListsOptionsPlainly(t *testing.T) {
 		t.Error("borel --help leaves out exit status 130")
 	}
 }
+
+// Raw output that starts with 1f 8b is audited, from a file and a pipe;
+// --gzip no reads even a real gzip file as bytes; --gzip yes insists.
+func TestRawStartingLikeGzip(t *testing.T) {
+	raw := []byte("\x1f\x8b" + strings.Repeat("\x07\xf3\x11\x80\x55\xaa\x01\xfe", 600))
+	f := writeFile(t, "g.bin", raw)
+	if code, out, errs := borel(t, "", "audit", f, "--raw", "--base", "256", "-q"); code != 0 || !strings.Contains(out, "Verdict for") {
+		t.Errorf("file: exit %d %s", code, errs)
+	}
+	if code, _, errs := borel(t, string(raw), "audit", "-", "--raw", "--base", "256", "-q"); code != 0 {
+		t.Errorf("pipe: exit %d %s", code, errs)
+	}
+	if code, _, errs := borel(t, "", "audit", "../../testdata/pi-1e6.txt.gz", "--raw", "--base", "256", "--gzip", "no", "-q"); code != 0 {
+		t.Errorf("--gzip no: exit %d %s", code, errs)
+	}
+	if code, _, errs := borel(t, string(raw), "audit", "-", "--raw", "--base", "256", "--gzip", "yes", "-q"); code != 1 || !strings.Contains(errs, "gzip") {
+		t.Errorf("--gzip yes: exit %d %s", code, errs)
+	}
+	if code, _, errs := borel(t, "", "audit", "-", "--gzip", "maybe"); code != 2 || !strings.Contains(errs, "--gzip \"maybe\"") {
+		t.Errorf("--gzip maybe: exit %d %s", code, errs)
+	}
+}

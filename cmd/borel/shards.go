@@ -33,6 +33,7 @@ func runTally(e env, args []string) (int, error) {
 	fs.Lookup("offset").DefValue = "0" // -1 marks "not given"; the help shows no default
 	base := fs.String("base", "10", "base of the text digits, 2..36")
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
+	gz := fs.String("gzip", "auto", gzipUsage)
 	var af auditFlags
 	af.register(fs, flNull|flMaxBlock|flWorkers, map[string]string{
 		"null":      "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...",
@@ -58,6 +59,9 @@ func runTally(e env, args []string) (int, error) {
 	}
 	opt := seq.Options{Format: seq.Text}
 	var err error
+	if opt.Gzip, err = parseGzip(*gz); err != nil {
+		return 0, err
+	}
 	if *bits {
 		opt.Format, opt.Base = seq.Bits, 2
 	} else if opt.Base, err = parseBase(*base, 2, seq.MaxTextBase, "text digits are 0-9 then a-z"); err != nil {

@@ -91,6 +91,10 @@ type Options struct {
 	Source string // name used in messages
 	Format Format
 	Base   int // text digits only; Raw implies 256 and Bits 2
+	// Gzip says whether the input is gzip-compressed: GzipAuto (the zero
+	// value) decides from a valid gzip header (LooksGzip), GzipYes always
+	// decompresses, GzipNo never does.
+	Gzip Gzip
 	// OptionName, when set, names in messages the options a program
 	// offers for "Base", "Raw" and "Bits" (the base, and reading bytes as
 	// raw digits or as bits); by default those words are used.
@@ -134,8 +138,27 @@ type Reader struct {
 	eof        bool
 }
 
+// Gzip is whether an input is gzip-compressed.
+type Gzip int
+
+const (
+	GzipAuto Gzip = iota // decided from the first bytes (LooksGzip)
+	GzipYes              // always decompress
+	GzipNo               // never: bytes 1f 8b are data
+)
+
+// LooksGzip reports whether the first 10 bytes of an input are a valid gzip
+// member header (RFC 1952 §2.3): ID1 ID2 = 1f 8b, CM = 8 (deflate), no
+// reserved FLG bit set, XFL 0, 2 or 4, and an OS code of 0..13 or 255.
+// Random bytes pass with a chance of about 10^-11, where the bare magic
+// number 1f 8b took one raw stream in 65 536 for gzip.
+func LooksGzip(h []byte) bool {
+	return len(h) >= 10 && h[0] == 0x1f && h[1] == 0x8b && h[2] == 8 && h[3]&0xe0 == 0 &&
+		(h[8] == 0 || h[8] == 2 || h[8] == 4) && (h[9] <= 13 || h[9] == 255)
+}
+
 // NewReader returns a Reader over r. It inspects the first bytes: a gzip
-// header switches on decompression; a UTF-16 byte-order mark is an error for
+// header switches on decompression (Options.Gzip); a UTF-16 byte-order mark is an error for
 // text input; a UTF-8 byte-order mark is skipped. For text it also reads an
 // integer part and radix point if one opens the input ("3.14159…").
 func NewReader(r io.Reader, opt Options) (*Reader, error) {
@@ -154,7 +177,8 @@ func NewReader(r io.Reader, opt Options) (*Reader, error) {
 	}
 	sr := &Reader{opt: opt, buf: make([]byte, chunkSize)}
 	br := bufio.NewReaderSize(r, chunkSize)
-	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+	header, _ := br.Peek(10)
+	if opt.Gzip == GzipYes || (opt.Gzip == GzipAuto && LooksGzip(header)) {
 		zr, err := gzip.NewReader(br)
 		if err != nil {
 			return nil, fmt.Errorf("%s: gzip header cannot be read: %v", opt.Source, err)
