@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -19,7 +20,8 @@ verdict, the smallest adjusted p-value and the check that gave it, the entropy d
 the dimension estimate. A SOURCE is a file of digits (as for borel audit) or, when no such
 file exists, a built-in source made by borel in --base (see borel digits --help): pi, e,
 sqrtN, ln2, phi, champernowne, copeland-erdos, stoneham:B,C, rational:P/Q, liouville,
-iid:p0,p1,..., pcg:SEED, chacha8:SEED, lcg:SEED.
+iid:p0,p1,..., pcg:SEED, chacha8:SEED, lcg:SEED. When a file has a built-in's name, the file
+is taken and standard error says so: write builtin:NAME for the built-in (./NAME is the file).
 
 Built-in sources give --count digits (default 100000). Text, Markdown, CSV and LaTeX show the
 side-by-side table; json and html carry every audit in full.
@@ -73,7 +75,11 @@ func runCompare(e env, args []string) (int, error) {
 
 // compareOne audits one source: a file if it exists, else a built-in source.
 func compareOne(e env, name string, base, count int, af *auditFlags, opts audit.Options, quiet bool) (*audit.Result, error) {
-	if st, err := os.Stat(name); err == nil && !st.IsDir() {
+	builtin, forced := strings.CutPrefix(name, "builtin:")
+	if st, err := os.Stat(name); !forced && err == nil && !st.IsDir() {
+		if _, err := expand.ParseSource(name); err == nil {
+			fmt.Fprintf(e.stderr, "borel: %s is a file here and a built-in source; the file is audited (write builtin:%s for the built-in)\n", name, name)
+		}
 		ns, err := af.nullFor(base)
 		if err != nil {
 			return nil, err
@@ -98,7 +104,7 @@ func compareOne(e env, name string, base, count int, af *auditFlags, opts audit.
 		}
 		return plan.Finish(t, src)
 	}
-	src, err := expand.ParseSource(name)
+	src, err := expand.ParseSource(builtin)
 	if err != nil {
 		return nil, usagef("%q is neither a file nor a built-in source: %v", name, err)
 	}
@@ -118,6 +124,6 @@ func compareOne(e env, name string, base, count int, af *auditFlags, opts audit.
 		return nil, err
 	}
 	opts.Null = ns
-	return audit.Digits(d, b, audit.Source{Name: name, Kind: "built-in", Bytes: -1,
+	return audit.Digits(d, b, audit.Source{Name: builtin, Kind: "built-in", Bytes: -1,
 		Parameters: fmt.Sprintf("%d digits in base %d; %s", count, b, src.Detail), Checks: checks}, opts)
 }

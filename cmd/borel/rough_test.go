@@ -1,6 +1,7 @@
 package main
 
 import (
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -93,5 +94,23 @@ func TestRawStartingLikeGzip(t *testing.T) {
 	}
 	if code, _, errs := borel(t, "", "audit", "-", "--gzip", "maybe"); code != 2 || !strings.Contains(errs, "--gzip \"maybe\"") {
 		t.Errorf("--gzip maybe: exit %d %s", code, errs)
+	}
+}
+
+// A file named like a built-in source is taken, with a warning; builtin:NAME
+// takes the built-in (before: the file was taken silently).
+func TestCompareFileOrBuiltin(t *testing.T) {
+	wd, _ := os.Getwd()
+	t.Cleanup(func() { os.Chdir(wd) })
+	dir := t.TempDir()
+	os.Chdir(dir)
+	os.WriteFile("e", []byte(strings.Repeat("0123456789", 500)), 0o644)
+	code, out, errs := borel(t, "", "compare", "e", "--count", "5000", "-q", "--format", "json")
+	if code != 0 || !strings.Contains(errs, "e is a file here and a built-in source") || !strings.Contains(out, `"kind": "file"`) {
+		t.Errorf("file e: exit %d, %q", code, errs)
+	}
+	code, out, errs = borel(t, "", "compare", "builtin:e", "--count", "5000", "-q", "--format", "json")
+	if code != 0 || errs != "" || !strings.Contains(out, `"kind": "built-in"`) {
+		t.Errorf("builtin:e: exit %d, %q", code, errs)
 	}
 }
