@@ -114,3 +114,28 @@ func TestCompareFileOrBuiltin(t *testing.T) {
 		t.Errorf("builtin:e: exit %d, %q", code, errs)
 	}
 }
+
+// compare takes audit's input options: two generator outputs as raw bytes
+// (four views each), bits, and constants in several bases.
+func TestCompareInputOptions(t *testing.T) {
+	a := writeFile(t, "a.bin", []byte(strings.Repeat("\x07\xf3\x11\x80\x55\xaa\x01\xfe\x33\x9c", 500)))
+	b := writeFile(t, "b.bin", []byte(strings.Repeat("\x8e\x21\x4d\xb0\x69\x17\xc2\x3a", 600)))
+	rows := func(out string) int { return strings.Count(out, "\"verdict\"") - strings.Count(out, "\"inputs\"") }
+	for _, c := range []struct {
+		args []string
+		rows int
+	}{
+		{[]string{"compare", a, b, "--raw"}, 8},
+		{[]string{"compare", a, b, "--raw", "--bases", "2,256"}, 4},
+		{[]string{"compare", a, "--bits"}, 1},
+		{[]string{"compare", "pi", "e", "sqrt2", "--bases", "2,3,10,16", "--count", "3000"}, 12},
+	} {
+		code, out, errs := borel(t, "", append(c.args, "-q", "--format", "json")...)
+		if code != 0 || rows(out) != c.rows {
+			t.Errorf("%v: exit %d %s; %d audits, want %d", c.args, code, errs, rows(out), c.rows)
+		}
+	}
+	if code, _, errs := borel(t, "", "compare", a, "--raw", "--bases", "8"); code != 2 || !strings.Contains(errs, "regroups exactly") {
+		t.Errorf("--raw --bases 8: exit %d %s", code, errs)
+	}
+}
