@@ -59,6 +59,16 @@ func TestLaTeXCompiles(t *testing.T) {
 	if err != nil {
 		t.Skip("pdflatex is not installed (apt-get install texlive-latex-base texlive-latex-recommended); LaTeX output not compiled")
 	}
+	// A TeX installation that cannot compile an empty article (pdflatex
+	// without its format file, a missing booktabs) cannot judge ours: skip,
+	// saying why.
+	probe := t.TempDir()
+	os.WriteFile(filepath.Join(probe, "probe.tex"), []byte("\\documentclass{article}\n\\usepackage{booktabs}\n\\begin{document}x\\end{document}\n"), 0o644)
+	pc := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "probe.tex")
+	pc.Dir = probe
+	if log, err := pc.CombinedOutput(); err != nil {
+		t.Skipf("pdflatex cannot compile an empty article with booktabs here (%v: %s); LaTeX output not compiled", err, lastLine(log))
+	}
 	code, out, errs := runBorel(t, smallInput(t), append(reportArgs, "--format", "tex")...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -172,4 +182,10 @@ func TestCSVMatchesJSON(t *testing.T) {
 			t.Errorf("row %d differs from the JSON finding %+v: %v", i+1, f, row)
 		}
 	}
+}
+
+// lastLine returns the last non-empty line of a log.
+func lastLine(log []byte) string {
+	lines := strings.Split(strings.TrimSpace(string(log)), "\n")
+	return lines[len(lines)-1]
 }
