@@ -139,3 +139,31 @@ func TestCompareInputOptions(t *testing.T) {
 		t.Errorf("--raw --bases 8: exit %d %s", code, errs)
 	}
 }
+
+// tally reads raw bytes (it had --bits but no --raw): two stretches of
+// bytes merge into the findings of one audit of the bytes.
+func TestTallyRaw(t *testing.T) {
+	data := []byte(strings.Repeat("\x07\xf3\x11\x80\x55\xaa\x01\xfe\x33\x9c\x42", 700))
+	dir := t.TempDir()
+	a, b := filepath.Join(dir, "a.shard"), filepath.Join(dir, "b.shard")
+	if code, _, errs := borel(t, string(data[:3000]), "tally", "-", "--raw", "--offset", "0", "--max-block", "2", "-q", "-o", a); code != 0 {
+		t.Fatalf("tally a: %d %s", code, errs)
+	}
+	if code, _, errs := borel(t, string(data[3000:]), "tally", "-", "--raw", "--offset", "3000", "--max-block", "2", "-q", "-o", b); code != 0 {
+		t.Fatalf("tally b: %d %s", code, errs)
+	}
+	_, merged, _ := borel(t, "", "merge", a, b, "-q", "--format", "csv")
+	_, direct, _ := borel(t, string(data), "audit", "-", "--raw", "--base", "256", "--max-block", "2", "-q", "--format", "csv")
+	body := func(s string) string { // the findings, without the provenance comments and the source column
+		var out []string
+		for _, l := range strings.Split(s, "\n") {
+			if l != "" && !strings.HasPrefix(l, "#") {
+				out = append(out, l[strings.Index(l, ","):])
+			}
+		}
+		return strings.Join(out, "\n")
+	}
+	if body(merged) == "" || body(merged) != body(direct) {
+		t.Errorf("merged raw shards differ from the direct audit:\n%s\n---\n%s", body(merged), body(direct))
+	}
+}

@@ -15,7 +15,7 @@ import (
 	"borel/stats/seq"
 )
 
-const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits] [--null ...] [--workers N] [--quiet] -o SHARD
+const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits | --raw] [--null ...] [--workers N] [--quiet] -o SHARD
 
 Tallies one stretch of a long sequence — the digits at global positions N, N+1, … — and
 writes its shard: the one-pass sufficient statistics of the stretch, which borel merge joins
@@ -34,6 +34,7 @@ func runTally(e env, args []string) (int, error) {
 	base := fs.String("base", "10", "base of the text digits, 2..36")
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
 	gz := fs.String("gzip", "auto", gzipUsage)
+	raw := fs.Bool("raw", false, "read bytes as base-256 digits (one view: the bytes; tally bits with --bits)")
 	var af auditFlags
 	af.register(fs, flNull|flMaxBlock|flWorkers, map[string]string{
 		"null":      "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...",
@@ -62,10 +63,17 @@ func runTally(e env, args []string) (int, error) {
 	if opt.Gzip, err = parseGzip(*gz); err != nil {
 		return 0, err
 	}
-	if *bits {
+	switch {
+	case *raw && *bits:
+		return 0, usagef("--raw and --bits exclude each other: bytes are read either as base-256 digits or as bits")
+	case *raw:
+		opt.Format, opt.Base = seq.Raw, 256
+	case *bits:
 		opt.Format, opt.Base = seq.Bits, 2
-	} else if opt.Base, err = parseBase(*base, 2, seq.MaxTextBase, "text digits are 0-9 then a-z"); err != nil {
-		return 0, err
+	default:
+		if opt.Base, err = parseBase(*base, 2, seq.MaxTextBase, "text digits are 0-9 then a-z"); err != nil {
+			return 0, err
+		}
 	}
 	opts, err := af.options()
 	if err != nil {
