@@ -86,3 +86,16 @@ func TestSummaryFrom(t *testing.T) {
 		}
 	}
 }
+
+// The p-value histogram bins the tenths of [0, 1] whatever the values span:
+// two findings at 0.31 and 0.35 fall in one bin [0.3, 0.4), not in a
+// zero-width bar between them.
+func TestPHistogramTenths(t *testing.T) {
+	bins := tenths([]float64{0.31, 0.35, 0, 1, 0.999, 0.1})
+	want := []float64{1, 1, 0, 2, 0, 0, 0, 0, 0, 2}
+	for i, b := range bins {
+		if math.Abs(b.Min-float64(i)/10) > 1e-12 || math.Abs(b.Max-float64(i+1)/10) > 1e-12 || b.Weight != want[i] {
+			t.Errorf("bin %d: [%g, %g) holds %g, want [%g, %g) with %g", i, b.Min, b.Max, b.Weight, float64(i)/10, float64(i+1)/10, want[i])
+		}
+	}
+}

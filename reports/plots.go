@@ -200,10 +200,10 @@ func pHistogramFigure(r *audit.Result) (Figure, bool, error) {
 		return Figure{}, false, nil
 	}
 	p := newPlot(fmt.Sprintf("p-values of the %d findings", len(ps)), "p-value (upper tail)", "number of findings")
-	h, err := plotter.NewHist(plotter.Values(ps), 10)
-	if err != nil {
-		return Figure{}, false, err
-	}
+	// The tenths of [0, 1], whatever the p-values span (binning from the
+	// smallest to the largest p made edges such as 0.010, 0.102, …, and
+	// one zero-width bar for two findings).
+	h := &plotter.Histogram{Bins: tenths(ps), Width: 0.1, LineStyle: plotter.DefaultLineStyle}
 	h.FillColor = color.Gray{190}
 	h.LineStyle.Color = ink[0]
 	p.Add(h)
@@ -390,4 +390,16 @@ func segmentFigure(r *audit.Result) (Figure, bool, error) {
 	legendRoom(p, len(r.SegmentPValues))
 	p.X.Tick.Marker = integerTicks{}
 	return Figure{Name: "segments", Title: "Segment p-values", plot: p}, true, nil
+}
+
+// tenths counts p-values in the bins [0, 0.1), …, [0.9, 1] (1 in the last).
+func tenths(ps []float64) []plotter.HistogramBin {
+	bins := make([]plotter.HistogramBin, 10)
+	for i := range bins {
+		bins[i].Min, bins[i].Max = float64(i)/10, float64(i+1)/10
+	}
+	for _, p := range ps {
+		bins[min(9, max(0, int(p*10)))].Weight++
+	}
+	return bins
 }

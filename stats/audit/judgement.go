@@ -6,6 +6,7 @@ package audit
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"sync"
 
@@ -106,6 +107,12 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		res.Null = checks.FittedNull(t.DigitCounts())
 	default:
 		res.Null = checks.UniformNull(t.Base)
+	}
+	// The trace ends at n: its checkpoints are fixed positions ⌈2^(j/8)⌉,
+	// and the last one before n can be 8% short of it (a digit that ends
+	// inside the envelope was drawn outside it).
+	if tr := res.Trace; len(tr) == 0 || tr[len(tr)-1].Pos != t.N {
+		res.Trace = append(slices.Clone(tr), tally.TracePoint{Pos: t.N, Counts: slices.Clone(res.DigitCounts)})
 	}
 	res.Curves = curves(res)
 	if res.Null.Symbols() < 2 {

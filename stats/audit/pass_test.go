@@ -39,3 +39,26 @@ func TestPassStopsOnCancelledContext(t *testing.T) {
 		}
 	}
 }
+
+// The trace (and so the running-deviation plot) ends at n: 30 000 digits
+// had their last checkpoint at 27 547, so a digit ending inside the
+// envelope was drawn outside it.
+func TestTraceEndsAtN(t *testing.T) {
+	d := make([]byte, 30000)
+	for i := range d {
+		d[i] = byte((i*7 + i/13) % 10)
+	}
+	r, err := Digits(d, 10, Source{Name: "t", Bytes: -1}, DefaultOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := r.Trace[len(r.Trace)-1]
+	if last.Pos != 30000 || len(r.Curves.Deviation) != len(r.Trace) || len(r.Curves.Envelope) != len(r.Trace) {
+		t.Fatalf("trace ends at %d with %d points, curves %d", last.Pos, len(r.Trace), len(r.Curves.Deviation))
+	}
+	for j, c := range last.Counts {
+		if c != r.DigitCounts[j] {
+			t.Fatalf("last trace point counts %v, digit counts %v", last.Counts, r.DigitCounts)
+		}
+	}
+}
