@@ -92,6 +92,12 @@ func (preciseTicks) Ticks(lo, hi float64) []plot.Tick {
 	if step > 0 && !math.IsInf(step, 1) {
 		decimals = max(0, int(math.Ceil(-math.Log10(step)+1e-9)))
 	}
+	// Then as many more as the values need to be printed exactly: ticks at
+	// 0.0985, 0.1005 read "0.099, 0.101" at the spacing's 3 decimals, and
+	// 2.5 read "2" at 0 (the label must say where the tick is).
+	for decimals < 12 && !exactLabels(ts, decimals) {
+		decimals++
+	}
 	for i := range ts {
 		if ts[i].Label != "" {
 			ts[i].Label = strconv.FormatFloat(ts[i].Value, 'f', decimals, 64)
@@ -402,4 +408,19 @@ func tenths(ps []float64) []plotter.HistogramBin {
 		bins[min(9, max(0, int(p*10)))].Weight++
 	}
 	return bins
+}
+
+// exactLabels reports whether every labelled tick value prints exactly with
+// the given decimals (to 1e-9 of its size).
+func exactLabels(ts []plot.Tick, decimals int) bool {
+	for _, t := range ts {
+		if t.Label == "" {
+			continue
+		}
+		v, _ := strconv.ParseFloat(strconv.FormatFloat(t.Value, 'f', decimals, 64), 64)
+		if math.Abs(v-t.Value) > 1e-9*math.Max(1e-9, math.Abs(t.Value)) && math.Abs(v-t.Value) > 1e-12 {
+			return false
+		}
+	}
+	return true
 }
