@@ -53,7 +53,11 @@ func entropyTable(r *audit.Result) (header []string, rows [][]string) {
 
 func mdCell(s string) string {
 	s = strings.ReplaceAll(s, `\`, `\\`)
-	s = strings.ReplaceAll(s, "|", `\|`)
+	// Emphasis and code marks in names and details are text (a file named
+	// my*odd*name.txt rendered in italics).
+	for _, c := range []string{"|", "*", "_", "`"} {
+		s = strings.ReplaceAll(s, c, `\`+c)
+	}
 	return strings.ReplaceAll(s, "\n", " ")
 }
 

@@ -96,6 +96,9 @@ func comparisonLaTeX(w io.Writer, doc Document) error {
 		cells := make([]string, len(r))
 		for i, c := range r {
 			cells[i] = texEscape(c)
+			if exp, ok := strings.CutPrefix(c, "10^"); ok { // a p-value below 1e-10, in math mode
+				cells[i] = "$10^{" + exp + "}$"
+			}
 		}
 		fmt.Fprintf(w, "%s \\\\\n", strings.Join(cells, " & "))
 	}

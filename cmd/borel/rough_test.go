@@ -167,3 +167,22 @@ func TestTallyRaw(t *testing.T) {
 		t.Errorf("merged raw shards differ from the direct audit:\n%s\n---\n%s", body(merged), body(direct))
 	}
 }
+
+// Markdown escapes emphasis and code marks in names: a file named
+// my*odd*name.txt rendered in italics.
+func TestMarkdownEscapesNames(t *testing.T) {
+	f := writeFile(t, "my*odd*name_`x`.txt", []byte(strings.Repeat("31415926535897932384", 60)))
+	_, out, _ := borel(t, "", "audit", f, "-q", "--format", "md")
+	if !strings.Contains(out, `my\*odd\*name\_\`+"`"+`x\`+"`"+`.txt`) || strings.Contains(out, "my*odd*") {
+		t.Errorf("the name is not escaped:\n%s", out[:min(len(out), 400)])
+	}
+}
+
+// compare --format tex sets small p-values in math mode, not a literal
+// caret (10\textasciicircum{}-14213.89).
+func TestCompareLaTeXPValues(t *testing.T) {
+	_, out, _ := borel(t, "", "compare", "champernowne", "--count", "20000", "-q", "--format", "tex")
+	if strings.Contains(out, "textasciicircum") || !strings.Contains(out, "$10^{-") {
+		t.Errorf("p-values in the LaTeX comparison:\n%s", out)
+	}
+}
