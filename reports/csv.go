@@ -21,7 +21,22 @@ var CSVHeader = []string{"sequence", "base", "digits", "null", "verdict", "check
 	"adjusted_p_upper", "adjusted_p_lower", "log10_adjusted_p_upper", "log10_adjusted_p_lower",
 	"holm_p_upper", "holm_p_lower", "bh_p_upper", "bh_p_lower", "mark"}
 
-func full(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+// full writes a number at full precision, never as "-0".
+func full(v float64) string {
+	if v == 0 {
+		v = 0 // -0 → 0
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+// fullDF writes degrees of freedom, empty for a statistic that has none
+// (z scores, runs, excursions: DF 0).
+func fullDF(df float64) string {
+	if df == 0 {
+		return ""
+	}
+	return full(df)
+}
 
 func fullLog10(lnP float64) string {
 	if math.IsInf(lnP, -1) {
@@ -61,7 +76,7 @@ func CSV(w io.Writer, doc Document) error {
 		for _, f := range r.Findings {
 			row := []string{r.Source.Name, strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), r.Verdict,
 				f.Check, f.Statistic, csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
-				full(f.Value), full(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
+				full(f.Value), fullDF(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
 				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),
 				full(math.Exp(f.LogHolmUpper)), full(math.Exp(f.LogHolmLower)), full(math.Exp(f.LogBHUpper)), full(math.Exp(f.LogBHLower)),

@@ -118,3 +118,13 @@ func TestTickLabelsMatchPositions(t *testing.T) {
 		}
 	}
 }
+
+// CSV: df is empty for statistics without one, and no number prints as -0.
+func TestCSVNumbers(t *testing.T) {
+	if fullDF(0) != "" || fullDF(9) != "9" {
+		t.Errorf("df: %q, %q", fullDF(0), fullDF(9))
+	}
+	if full(math.Copysign(0, -1)) != "0" || fullLog10(0) != "0" {
+		t.Errorf("-0 printed: %q, %q", full(math.Copysign(0, -1)), fullLog10(0))
+	}
+}
