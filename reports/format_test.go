@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"bytes"
 	"math"
 	"strconv"
 	"strings"
@@ -126,5 +127,18 @@ func TestCSVNumbers(t *testing.T) {
 	}
 	if full(math.Copysign(0, -1)) != "0" || fullLog10(0) != "0" {
 		t.Errorf("-0 printed: %q, %q", full(math.Copysign(0, -1)), fullLog10(0))
+	}
+}
+
+// The Markdown provenance is a list, not a table under an empty header row.
+func TestMarkdownProvenanceIsAList(t *testing.T) {
+	var buf bytes.Buffer
+	r := &audit.Result{Source: audit.Source{Name: "x", Kind: "file", Format: "text", Bytes: -1}, Base: 10, Digits: 10,
+		Null: checks.UniformNull(10), Alpha: 0.01, Adjustment: audit.Holm, Verdict: audit.Consistent}
+	if err := Markdown(&buf, Document{Version: "t", Results: []*audit.Result{r}}); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(buf.String(), "|  |  |") || !strings.Contains(buf.String(), "- **program**: borel t") {
+		t.Errorf("provenance:\n%s", buf.String())
 	}
 }

@@ -98,11 +98,11 @@ func Markdown(w io.Writer, doc Document) error {
 	for _, r := range doc.Results {
 		fmt.Fprintf(bw, "### borel audit of %s in base %d: %s\n\n", mdCell(r.Source.Name), r.Base, r.Verdict)
 		fmt.Fprintf(bw, "%s\n\n", mdCell(verdictReason(r)))
-		rows := [][]string{}
+		// The provenance as a list: a table needs a header row, and an
+		// empty one rendered as a blank bar.
 		for _, p := range provenance(doc, r) {
-			rows = append(rows, []string{p[0], p[1]})
+			fmt.Fprintf(bw, "- **%s**: %s\n", mdCell(p[0]), mdCell(p[1]))
 		}
-		mdTable(bw, []string{"", ""}, rows, nil)
 		fmt.Fprintln(bw)
 		header, frows, notes := findingTable(r)
 		mdTable(bw, header, frows, findingAlign)

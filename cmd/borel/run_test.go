@@ -305,7 +305,7 @@ func TestAppendToPaper(t *testing.T) {
 	if !bytes.HasPrefix(second, []byte(before+"<!-- borel:begin pi-table -->\n")) || !bytes.HasSuffix(second, []byte("<!-- borel:end pi-table -->\n"+after)) {
 		t.Errorf("second append moved bytes outside the section:\n%s", second)
 	}
-	if !bytes.Contains(second, []byte("| alpha | 0.05 |")) {
+	if !bytes.Contains(second, []byte("- **alpha**: 0.05")) {
 		t.Errorf("the section was not replaced")
 	}
 	if st, _ := os.Stat(paper); st.Mode().Perm() != 0o600 {
