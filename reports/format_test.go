@@ -142,3 +142,19 @@ func TestMarkdownProvenanceIsAList(t *testing.T) {
 		t.Errorf("provenance:\n%s", buf.String())
 	}
 }
+
+// The frequency plot of base 36 labels its digits 0-9 then a-z.
+func TestDigitTicks(t *testing.T) {
+	ts := (digitTicks{base: 36}).Ticks(-0.5, 35.5)
+	for _, tk := range ts {
+		if tk.Label != strconv.FormatInt(int64(tk.Value), 36) || len(tk.Label) != 1 {
+			t.Errorf("base-36 tick at %v labelled %q", tk.Value, tk.Label)
+		}
+	}
+	if len(ts) < 10 {
+		t.Errorf("only %d ticks", len(ts))
+	}
+	if tk := (digitTicks{base: 10}).Ticks(-0.5, 9.5); tk[len(tk)-1].Label != "9" {
+		t.Errorf("base-10 labels end with %q", tk[len(tk)-1].Label)
+	}
+}

@@ -72,6 +72,23 @@ func (integerTicks) Ticks(lo, hi float64) []plot.Tick {
 	return ts
 }
 
+// digitTicks labels the digits of a base as the input writes them: 0-9
+// then a-z up to base 36 (base 36 showed 10..35 for a..z), numbers above.
+type digitTicks struct{ base int }
+
+func (d digitTicks) Ticks(lo, hi float64) []plot.Tick {
+	ts := integerTicks{}.Ticks(lo, hi)
+	if d.base <= 10 || d.base > 36 {
+		return ts
+	}
+	for i, t := range ts {
+		if v := int(t.Value); v >= 0 && v < d.base {
+			ts[i].Label = strconv.FormatInt(int64(v), 36)
+		}
+	}
+	return ts
+}
+
 // preciseTicks keeps gonum's tick positions but labels them with as many
 // decimals as their spacing needs (the default rounds 1.0004 to "1").
 type preciseTicks struct{}
@@ -186,7 +203,7 @@ func frequencyFigure(r *audit.Result) (Figure, bool, error) {
 	p.Legend.Add("observed", sc)
 	p.Legend.Add("null ("+r.Null.Kind.String()+")", nl)
 	p.Legend.Add(fmt.Sprintf("%g%% band (binomial, normal approx.)", 100*audit.BandLevel), band[0])
-	p.X.Tick.Marker = integerTicks{}
+	p.X.Tick.Marker = digitTicks{base: r.Base}
 	p.X.Min, p.X.Max = -0.5, float64(r.Base)-0.5
 	legendRoom(p, 3)
 	return Figure{Name: "frequencies", Title: "Digit frequencies against the null", plot: p}, true, nil
