@@ -239,6 +239,7 @@ func pHistogramFigure(r *audit.Result) (Figure, bool, error) {
 	p.Legend.Add("findings per tenth", h)
 	p.Legend.Add("expected under the null", flat)
 	p.X.Min, p.X.Max = 0, 1
+	legendRoom(p, 2) // above the bars, not on them
 	return Figure{Name: "p-histogram", Title: "Histogram of p-values", plot: p}, true, nil
 }
 
@@ -268,6 +269,7 @@ func pQQFigure(r *audit.Result) (Figure, bool, error) {
 	p.Legend.Add("findings", sc)
 	p.Legend.Add("uniform (null)", diag)
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 1, 0, 1
+	p.Legend.Left = true // the top left stays empty when the points follow the diagonal
 	return Figure{Name: "p-qq", Title: "Q–Q plot of p-values", plot: p}, true, nil
 }
 
