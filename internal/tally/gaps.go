@@ -32,6 +32,14 @@ func (s *GapSpec) gapCap() int {
 	return s.Cap
 }
 
+// ClassOf returns the gap class of digit d.
+func (s *GapSpec) ClassOf(d int) int {
+	if s.Class == nil {
+		return d
+	}
+	return s.Class[d]
+}
+
 func (s *GapSpec) classes(b int) int {
 	if s.Class == nil {
 		return b
@@ -199,11 +207,7 @@ func (r *Gaps) check(t *Tally) error {
 	}
 	occ := make([]int64, classes)
 	for d, n := range t.dig.Counts {
-		c := d
-		if r.Class != nil {
-			c = r.Class[d]
-		}
-		occ[c] += n
+		occ[r.ClassOf(d)] += n
 	}
 	for c, g := range r.Classes {
 		if len(g.Hist) != r.gapCap()+1 {

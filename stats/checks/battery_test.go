@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"borel/internal/tally"
+	"borel/stats/expand"
 )
 
 // Poker probabilities, Knuth's formula (TAOCP §3.3.2 D); numbers
@@ -160,18 +161,7 @@ func TestBatteryOnPi(t *testing.T) {
 // null's mean 1 instead of the sample mean 1.3, lag 1 gave z ≈ 30 at this
 // length).
 func TestLagcorrIgnoresFrequencyBias(t *testing.T) {
-	rng := rand.New(rand.NewPCG(13, 3))
-	d := make([]byte, 100_000)
-	for i := range d {
-		switch u := rng.Float64(); {
-		case u < 0.2:
-			d[i] = 0
-		case u < 0.5:
-			d[i] = 1
-		default:
-			d[i] = 2
-		}
-	}
+	d := expand.IID(100_000, []float64{0.2, 0.3, 0.5}, rand.New(rand.NewPCG(13, 3)))
 	in := input(t, d, 3, 2, UniformNull(3))
 	var r Result
 	lagcorrCheck{}.Run(in, &r)

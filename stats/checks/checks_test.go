@@ -347,7 +347,7 @@ func TestCouponCDFGrouped(t *testing.T) {
 			t.Errorf("r = %d: grouped %v, subsets %v", r, got[r], s)
 		}
 	}
-	if _, _, ok := groupedTerms([]float64{0.2, 0.3, 0.5}); ok {
-		t.Error("distinct probabilities grouped")
+	if base, _ := groupedTerms([]float64{0.2, 0.3, 0.5}); len(base) != 8 {
+		t.Errorf("distinct probabilities give %d terms, want the 8 subsets", len(base))
 	}
 }

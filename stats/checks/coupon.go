@@ -3,7 +3,6 @@ package checks
 import (
 	"fmt"
 	"math"
-	"math/bits"
 
 	"borel/internal/tally"
 )
@@ -55,77 +54,28 @@ func (couponCheck) Needs(s Setting) Needs {
 }
 
 // CouponCDF returns P(T ≤ r) for r = 0..maxR, for classes with
-// probabilities q (d ≤ 20).
+// probabilities q (d ≤ 32):
+//
+//	P(T ≤ r) = Σ_J (−1)^|J| (1 − q_J)^r
+//
+// over the subsets J of classes, q_J their total probability
+// (inclusion–exclusion). Classes of equal probability make equal terms, so
+// the subsets are grouped by how many classes of each distinct value they
+// hold, with binomial weights (groupedTerms): d + 1 terms for equal
+// classes, 81 instead of 65 536 for base 36's 16 classes of 2 or 3 digits,
+// 2^d for distinct ones. Each term is advanced one power at a time.
 func CouponCDF(q []float64, maxR int) []float64 {
-	d := len(q)
 	cdf := make([]float64, maxR+1)
-	equal := true
-	for _, v := range q {
-		if math.Abs(v-q[0]) > 1e-12 {
-			equal = false
-		}
-	}
-	if equal {
-		for r := 0; r <= maxR; r++ {
-			s := 0.0
-			binom := 1.0
-			for j := 0; j <= d; j++ {
-				term := binom * math.Pow(math.Max(0, 1-float64(j)*q[0]), float64(r))
-				if j%2 == 1 {
-					s -= term
-				} else {
-					s += term
-				}
-				binom = binom * float64(d-j) / float64(j+1)
-			}
-			cdf[r] = math.Min(1, math.Max(0, s))
-		}
-		return cdf
-	}
-	// Unequal classes: P(T ≤ r) = Σ_J (−1)^|J| (1 − q_J)^r over the subsets
-	// J of classes, q_J their total probability (inclusion–exclusion). Each
-	// term is advanced one power at a time. Classes of equal probability
-	// make equal terms: when they are few distinct values (base 36 has 16
-	// classes of 2 or 3 digits), the subsets are grouped by how many of
-	// each value they hold, with binomial weights — 81 terms instead of
-	// 65 536.
-	if base, weight, ok := groupedTerms(q); ok {
-		val := make([]float64, len(base))
-		for i := range val {
-			val[i] = 1
-		}
-		for r := 0; r <= maxR; r++ {
-			s := 0.0
-			for i := range val {
-				s += weight[i] * val[i]
-				val[i] *= base[i]
-			}
-			cdf[r] = math.Min(1, math.Max(0, s))
-		}
-		return cdf
-	}
-	base := make([]float64, 1<<d)
-	val := make([]float64, 1<<d)
-	sign := make([]float64, 1<<d)
-	for mask := range base {
-		qj := 0.0
-		for c := 0; c < d; c++ {
-			if mask&(1<<c) != 0 {
-				qj += q[c]
-			}
-		}
-		base[mask] = math.Max(0, 1-qj)
-		val[mask] = 1
-		sign[mask] = 1
-		if bits.OnesCount(uint(mask))%2 == 1 {
-			sign[mask] = -1
-		}
+	base, weight := groupedTerms(q)
+	val := make([]float64, len(base))
+	for i := range val {
+		val[i] = 1
 	}
 	for r := 0; r <= maxR; r++ {
 		s := 0.0
-		for mask := range val {
-			s += sign[mask] * val[mask]
-			val[mask] *= base[mask]
+		for i := range val {
+			s += weight[i] * val[i]
+			val[i] *= base[i]
 		}
 		cdf[r] = math.Min(1, math.Max(0, s))
 	}
@@ -135,9 +85,8 @@ func CouponCDF(q []float64, maxR int) []float64 {
 // groupedTerms returns the inclusion–exclusion terms of CouponCDF grouped
 // by equal class probabilities: for each choice of a_i classes among the
 // c_i of the i-th distinct value v_i, the base 1 − Σ a_i v_i and the
-// weight (−1)^Σa_i Π C(c_i, a_i). ok is false when grouping does not make
-// fewer terms than the 2^d subsets.
-func groupedTerms(q []float64) (base, weight []float64, ok bool) {
+// weight (−1)^Σa_i Π C(c_i, a_i).
+func groupedTerms(q []float64) (base, weight []float64) {
 	var vals []float64
 	var counts []int
 	for _, v := range q {
@@ -152,13 +101,6 @@ func groupedTerms(q []float64) (base, weight []float64, ok bool) {
 		if !found {
 			vals, counts = append(vals, v), append(counts, 1)
 		}
-	}
-	terms := 1
-	for _, c := range counts {
-		terms *= c + 1
-	}
-	if terms >= 1<<len(q) {
-		return nil, nil, false
 	}
 	a := make([]int, len(vals))
 	for {
@@ -178,7 +120,7 @@ func groupedTerms(q []float64) (base, weight []float64, ok bool) {
 			i++
 		}
 		if i == len(a) {
-			return base, weight, true
+			return base, weight
 		}
 		a[i]++
 	}

@@ -48,11 +48,7 @@ func (gapCheck) Run(in Input, out *Result) {
 	classes := len(rec.Classes)
 	q := make([]float64, classes)
 	for d, p := range in.Null.P {
-		c := d
-		if rec.Class != nil {
-			c = rec.Class[d]
-		}
-		q[c] += p
+		q[rec.ClassOf(d)] += p
 	}
 	paramName := "digit"
 	if rec.Class != nil {
