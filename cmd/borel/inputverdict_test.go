@@ -42,7 +42,7 @@ func TestInputVerdictCalibration(t *testing.T) {
 				args = append(args, "--bases", "3,7", "--from-base", "10")
 			}
 			path := filepath.Join(dir, "in")
-			if err := writeBytes(path, data); err != nil {
+			if err := os.WriteFile(path, data, 0o644); err != nil {
 				t.Fatal(err)
 			}
 			args[1] = path
@@ -73,5 +73,3 @@ func TestInputVerdictCalibration(t *testing.T) {
 		t.Logf("%s: input verdicts %v; inputs with some view not consistent: %d", mode, counts, anyView)
 	}
 }
-
-func writeBytes(path string, data []byte) error { return os.WriteFile(path, data, 0o644) }

@@ -138,7 +138,7 @@ var valueNames = map[string]string{
 	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "bases": "LIST", "checks": "LIST",
 	"count": "N", "format": "FORMAT", "from": "B", "from-base": "B", "max-block": "K", "memory": "SIZE",
 	"null": "NULL", "offset": "N", "output": "FILE", "plots": "DIR", "section": "NAME", "seed": "N",
-	"segments": "M", "source": "NAME", "to": "B", "workers": "N", "wrap": "W", "p": "P", "k-max": "K",
+	"segments": "M", "source": "NAME", "to": "B", "workers": "N", "wrap": "W", "gzip": "MODE",
 }
 
 // flagUsages lists a flag set's options for --help: the option, its value
@@ -177,7 +177,7 @@ func flagUsages(fs *pflag.FlagSet, cols int) string {
 	var b strings.Builder
 	for _, r := range rows {
 		pad := width + 3
-		lines := strings.Split(wrapWords(r.right, cols-pad), "\n")
+		lines := strings.Split(wrap(r.right, max(20, cols-pad)), "\n")
 		fmt.Fprintf(&b, "%-*s%s\n", pad+len(r.left)-len([]rune(r.left)), r.left, lines[0])
 		for _, l := range lines[1:] {
 			fmt.Fprintf(&b, "%s%s\n", strings.Repeat(" ", pad), l)
@@ -185,6 +185,3 @@ func flagUsages(fs *pflag.FlagSet, cols int) string {
 	}
 	return b.String()
 }
-
-// wrapWords breaks text into lines of at most width runes at spaces.
-func wrapWords(text string, width int) string { return wrap(text, max(20, width)) }

@@ -264,25 +264,6 @@ func Merge(a, b *Tally) (*Tally, error) {
 	return t, nil
 }
 
-// Equal reports whether two tallies hold the same stretch and the same
-// values in every record (what a merge must reproduce).
-func Equal(a, b *Tally) bool {
-	a.settle()
-	b.settle()
-	if !a.Spec.Equal(b.Spec) || a.Offset != b.Offset || a.N != b.N ||
-		!slices.Equal(a.Head, b.Head) || !slices.Equal(a.Tail, b.Tail) || len(a.recs) != len(b.recs) {
-		return false
-	}
-	for i := range a.recs {
-		ea, _ := json.Marshal(a.recs[i].entry())
-		eb, _ := json.Marshal(b.recs[i].entry())
-		if string(ea) != string(eb) {
-			return false
-		}
-	}
-	return true
-}
-
 func addInto(dst, src []int64) {
 	for i, v := range src {
 		dst[i] += v
