@@ -60,7 +60,12 @@ func WalkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64, ok 
 			// The whole convolution, digit by digit over contiguous cells
 			// (T from off to off+len(cur)+b−2), then split into the window
 			// and what left it.
-			full = append(full[:0], make([]float64, len(cur)+b-1)...)
+			if need := len(cur) + b - 1; cap(full) < need {
+				full = make([]float64, need)
+			} else {
+				full = full[:need]
+				clear(full)
+			}
 			for j, pj := range p {
 				if pj == 0 {
 					continue
