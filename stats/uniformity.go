@@ -133,14 +133,17 @@ func KSLogTails(m int, d float64) (upper, lower float64) {
 
 // AndersonDarling returns A² = -m - (1/m) Σ (2i-1)[ln p_(i) + ln(1 - p_(m+1-i))]
 // for m p-values given with both logs (Anderson & Darling, Ann. Math.
-// Statist. 23 (1952) 193–212).
+// Statist. 23 (1952) 193–212). A p-value of exactly 0 or 1 (a degenerate
+// segment, e.g. a constant one) enters as the nearest positive double, ln =
+// −744.4, so that A² stays finite: it is then huge and its p-value 0.
 func AndersonDarling(ps []LogPPair) float64 {
 	s := append([]LogPPair(nil), ps...)
 	sort.Slice(s, func(i, j int) bool { return s[i].LogP < s[j].LogP })
 	m := len(s)
+	floor := math.Log(math.SmallestNonzeroFloat64)
 	sum := 0.0
 	for i := 0; i < m; i++ {
-		sum += float64(2*i+1) * (s[i].LogP + s[m-1-i].LogQ)
+		sum += float64(2*i+1) * (math.Max(s[i].LogP, floor) + math.Max(s[m-1-i].LogQ, floor))
 	}
 	return -float64(m) - sum/float64(m)
 }

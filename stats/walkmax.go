@@ -1,6 +1,11 @@
 package stats
 
-import "math"
+import (
+	"fmt"
+	"math"
+	"strings"
+	"sync"
+)
 
 // WalkMaxCost is the largest number of cell updates WalkMaxLogTails spends
 // (n steps × window width × digits): beyond it the caller uses the
@@ -26,15 +31,60 @@ const WalkMaxCost = 1e7
 // lattice walk (Feller, vol. 1, ch. XIV).
 func WalkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64, ok bool) {
 	b := len(p)
+	if float64(n)*(2*e+2)*float64(b) > WalkMaxCost || n < 1 {
+		return 0, 0, false
+	}
+	var kb strings.Builder
+	fmt.Fprintf(&kb, "%d %x", n, math.Float64bits(e))
+	for _, v := range p {
+		fmt.Fprintf(&kb, " %x", math.Float64bits(v))
+	}
+	key := kb.String()
+	if t, hit := walkTails.get(key); hit {
+		return t[0], t[1], true
+	}
+	upper, lower = walkMaxLogTails(n, p, e)
+	walkTails.put(key, [2]float64{upper, lower})
+	return upper, lower, true
+}
+
+// walkTails remembers recent tails: the segments of a second-level audit
+// share one length and, in a small base, a few dozen excursions, so most
+// segments find theirs here instead of rerunning the program.
+var walkTails = &tailCache{max: 1 << 12}
+
+type tailCache struct {
+	mu    sync.Mutex
+	max   int
+	items map[string][2]float64
+}
+
+func (c *tailCache) get(k string) ([2]float64, bool) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	t, ok := c.items[k]
+	return t, ok
+}
+
+// put stores a result; a full cache starts afresh (simpler than an
+// eviction order, and a second-level audit refills it in one pass).
+func (c *tailCache) put(k string, t [2]float64) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.items == nil || len(c.items) >= c.max {
+		c.items = make(map[string][2]float64)
+	}
+	c.items[k] = t
+}
+
+// walkMaxLogTails is WalkMaxLogTails without the cost test and the cache.
+func walkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64) {
+	b := len(p)
 	mu := 0.0
 	for j, v := range p {
 		mu += float64(j) * v
 	}
 	tol := 1e-9 * math.Max(1, e)
-	width := 2*e + 2
-	if float64(n)*width*float64(b) > WalkMaxCost || n < 1 {
-		return 0, 0, false
-	}
 	// Window of T_k for the lower tail (|T_k − kμ| ≤ e, inclusive) and for
 	// the upper tail (|T_k − kμ| < e: reaching e is an exit).
 	bounds := func(k int64, strict bool) (lo, hi int64) {
@@ -102,7 +152,7 @@ func WalkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64, ok 
 	}
 	stay, _ := run(false)
 	_, exit := run(true)
-	return math.Min(0, exit), math.Min(0, stay), true
+	return math.Min(0, exit), math.Min(0, stay)
 }
 
 func logAddExp(a, b float64) float64 {

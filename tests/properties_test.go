@@ -65,6 +65,9 @@ func TestReportProperties(t *testing.T) {
 		doc := reports.Document{Version: "test", Results: []*audit.Result{r}}
 		var first bytes.Buffer
 		if err := reports.JSON(&first, doc); err != nil {
+			for _, f := range r.Findings {
+				t.Logf("%s %v %v %v %v", f.Label(), f.Value, f.LogPUpper, f.LogPLower, f.LogPAtom)
+			}
 			t.Fatal(err)
 		}
 		var decoded reports.JSONDocument

@@ -35,6 +35,34 @@ type Finding struct {
 	// Of names, for a second-level finding, the first-level statistic whose
 	// segment p-values it tests (e.g. "freq X2 k=1").
 	Of string
+	// Discrete marks tails taken from the statistic's own discrete law
+	// (exact, or a lattice approximation said so in Detail): LogPUpper is
+	// ln P(T ≥ t), LogPLower ln P(T ≤ t) and LogPAtom ln P(T = t). A
+	// statistic whose p-values come from a continuous limit law leaves it
+	// false (and LogPAtom unused).
+	Discrete bool
+	LogPAtom float64
+}
+
+// setDiscrete sets a finding's tails from its discrete law.
+func (f *Finding) setDiscrete(up, lo, atom float64) {
+	f.LogPUpper, f.LogPLower, f.LogPAtom, f.Discrete = up, lo, atom, true
+}
+
+// atomFromTails returns ln P(T = t) = ln(P(T ≥ t) + P(T ≤ t) − 1) for exact
+// tails of an integer-valued statistic (−∞ when rounding leaves nothing).
+func atomFromTails(up, lo float64) float64 {
+	switch {
+	case lo == 0: // P(T ≤ t) = 1: the atom is the whole upper tail
+		return up
+	case up == 0:
+		return lo
+	}
+	v := math.Exp(up) + math.Exp(lo) - 1
+	if !(v > 0) {
+		return math.Inf(-1)
+	}
+	return math.Log(v)
 }
 
 // Label identifies a finding's statistic: check, statistic and parameters,
@@ -73,18 +101,21 @@ func Clamp(f Finding) Finding {
 
 // RandomizedP returns the randomized upper-tail p-value
 // P(T > t) + u·P(T = t) of a finding, u uniform on [0, 1): uniform under the
-// null even for a discrete statistic (the randomized test of Tocher,
-// Biometrika 37 (1950) 130–144, citation from memory). Both tails give
-// P(T = t) = P(T ≥ t) + P(T ≤ t) - 1; for a continuous statistic it is the
-// upper-tail p-value. The pair carries ln p and ln(1 - p).
+// null when P(T = t) is the statistic's true atom (the randomized test of
+// Tocher, Biometrika 37 (1950) 130–144, citation from memory). The atom is
+// the finding's LogPAtom from its discrete law; it is never inferred from
+// the two tails, whose lower one may carry a continuity shift. A statistic
+// with a continuous law gives its upper-tail p-value. The pair carries ln p
+// and ln(1 − p).
 func RandomizedP(f Finding, u float64) stats.LogPPair {
-	up, lo := math.Exp(f.LogPUpper), math.Exp(f.LogPLower)
-	atom := up + lo - 1
-	if atom <= 1e-12 {
-		return stats.LogPPair{LogP: f.LogPUpper, LogQ: f.LogPLower}
+	if !f.Discrete {
+		return stats.LogPPair{LogP: f.LogPUpper, LogQ: math.Log(-math.Expm1(f.LogPUpper))}
 	}
-	p := (1 - lo) + u*atom
-	return stats.LogPPair{LogP: math.Log(p), LogQ: math.Log1p(-p)}
+	// ln p = ln P(T ≥ t) + ln(1 − (1−u)·P(T = t)/P(T ≥ t)), in logs so that
+	// a far tail keeps its digits.
+	r := math.Min(1, math.Exp(f.LogPAtom-f.LogPUpper))
+	lp := math.Min(0, f.LogPUpper+math.Log1p(-(1-u)*r))
+	return stats.LogPPair{LogP: lp, LogQ: math.Log(-math.Expm1(lp))}
 }
 
 // Skip records a check, or one parameter of it, that was not run, and why.

@@ -83,7 +83,7 @@ func (driftCheck) Run(in Input, out *Result) {
 		f.Detail = "fitted null: the walk is a bridge; Kolmogorov's law of sup|B|"
 	} else {
 		if up, lo, ok := stats.WalkMaxLogTails(t.N, in.Null.P, excursion); ok {
-			f.LogPUpper, f.LogPLower = up, lo
+			f.setDiscrete(up, lo, atomFromTails(up, lo))
 		} else {
 			f.LogPUpper, f.LogPLower = stats.BrownianMaxLogSF(M), stats.BrownianMaxLogCDF(M)
 		}

@@ -3,6 +3,8 @@ package checks
 import (
 	"fmt"
 	"math"
+
+	"borel/stats"
 )
 
 // freqCheck tests the digit frequencies.
@@ -20,7 +22,11 @@ import (
 // the block and serial checks see order. Under a fitted null the frequencies
 // are the estimate, so there is nothing to test. Validity: every E_j ≥ 5
 // (rule of thumb); below it X² is kept with a note and G is skipped
-// (Koehler & Larntz, JASA 75 (1980) 336–344).
+// (Koehler & Larntz, JASA 75 (1980) 336–344). X² is discrete: when its
+// count vectors number at most stats.MaxExactOutcomes (short sequences in
+// few digits, such as segments of bits or base-3 digits), its p-values come
+// from the exact multinomial law instead of the chi-square limit, and the
+// second level randomizes with its true atoms.
 // Reference: Knuth, TAOCP vol. 2, §3.3.1.
 type freqCheck struct{}
 
@@ -56,6 +62,13 @@ func (freqCheck) Run(in Input, out *Result) {
 	if sparse {
 		x2.Notes = append(x2.Notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square approximation is rough; a sequence of %d digits or more makes it valid",
 			cs.minExp, in.Opts.MinExpected, digitsNeeded(in.Opts.MinExpected, in.Null.MinProb())))
+	}
+	if law, ok := stats.MultinomialX2Law(t.N, in.Null.P); ok {
+		x2.setDiscrete(law.LogTails(cs.x2))
+		x2.Detail = fmt.Sprintf("p-values from the exact multinomial law of X² (%d count vectors)", law.Outcomes())
+		if sparse {
+			x2.Notes = nil // the exact law needs no rule of thumb
+		}
 	}
 	out.Findings = append(out.Findings, x2)
 	if sparse {

@@ -42,8 +42,8 @@ func (maxrunCheck) Run(in Input, out *Result) {
 	t := in.Tally
 	add := func(stat string, params map[string]int, class int, l int64) {
 		up, lo, approx := stats.LongestRunLogTails(t.N, in.Null.P, class, l)
-		f := Finding{Check: "maxrun", Statistic: stat, Params: params, Value: float64(l),
-			LogPUpper: up, LogPLower: lo}
+		f := Finding{Check: "maxrun", Statistic: stat, Params: params, Value: float64(l)}
+		f.setDiscrete(up, lo, atomFromTails(up, lo))
 		if approx {
 			f.Notes = append(f.Notes, "a tail beyond the exact chain uses the Poisson approximation (Erdős–Rényi)")
 		}

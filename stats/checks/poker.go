@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"borel/internal/tally"
+	"borel/stats"
 )
 
 // pokerCheck is the poker (partition) test: disjoint hands of h digits,
@@ -19,7 +20,10 @@ import (
 // expected count is at least 5; X² is χ² with classes - 1 df. Under a fitted
 // null p̂ comes from the same digits and the law lies between χ² with
 // classes - 1 - (b-1) and classes - 1 df (Chernoff & Lehmann 1954); borel
-// reports classes - 1 and says so.
+// reports classes - 1 and says so. Under a stated null, when the pooled
+// class counts have at most stats.MaxExactOutcomes possible vectors (a few
+// hundred hands), the p-values come from the exact multinomial law of X²
+// over the pooled classes instead (the second level needs its atoms).
 // References: Knuth, TAOCP vol. 2 §3.3.2 D (and its exercises for the
 // Stirling-number law).
 type pokerCheck struct{}
@@ -91,6 +95,7 @@ func (pokerCheck) Run(in Input, out *Result) {
 	for r, pr := range probs {
 		exp[r] = float64(hands) * pr
 	}
+	_, pe := poolClasses(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
 	x2, classes, smallest := pooledChiSquare(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
 	if classes < 2 {
 		out.Skips = append(out.Skips, Skip{Check: "poker", Params: params,
@@ -100,6 +105,16 @@ func (pokerCheck) Run(in Input, out *Result) {
 	}
 	f := chiSquareFinding("poker", "X2", params, x2, float64(classes-1), smallest)
 	f.Detail = fmt.Sprintf("%d hands, %d classes of distinct-digit counts after pooling", hands, classes)
+	if in.Null.Kind != Fitted {
+		probs := make([]float64, len(pe))
+		for i, e := range pe {
+			probs[i] = e / float64(hands)
+		}
+		if law, ok := stats.MultinomialX2Law(hands, probs); ok {
+			f.setDiscrete(law.LogTails(x2))
+			f.Detail += fmt.Sprintf("; p-values from the exact multinomial law of X² (%d count vectors)", law.Outcomes())
+		}
+	}
 	if in.Null.Kind == Fitted {
 		f.Notes = append(f.Notes, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)")
 	}

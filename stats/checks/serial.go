@@ -3,6 +3,8 @@ package checks
 import (
 	"fmt"
 	"math"
+
+	"borel/stats"
 )
 
 // serialCheck is Good's serial test on overlapping cyclic k-blocks.
@@ -25,7 +27,10 @@ import (
 // ∇ψ²_k is asymptotically the likelihood ratio of an order-(k-1) Markov chain
 // against i.i.d. digits (Anderson & Goodman 1957). Validity: n·min_w p(w) ≥ 5
 // at the top order (a working rule by analogy with the chi-square test,
-// common practice).
+// common practice). In base 2 at k = 2 the statistics are discrete with
+// atoms that matter for short sequences (segments): up to about 2000 bits
+// their p-values come from the exact law of the cyclic counts
+// (stats.CyclicBitPairLaw).
 // References: Good, Proc. Camb. Phil. Soc. 49 (1953) 276–284; Good, Ann.
 // Math. Statist. 28 (1957) 262–264.
 type serialCheck struct{}
@@ -93,6 +98,17 @@ func (serialCheck) Run(in Input, out *Result) {
 		}
 		d := chiSquareFinding("serial", "dpsi2", params, at(k)-at(k-1), dfD, minExp)
 		d.Notes = notes
+		bitLaw := func(second bool, f *Finding) {
+			if k != 2 || fitted || len(in.Null.P) != 2 {
+				return
+			}
+			if law, ok := stats.CyclicBitPairLaw(n, [2]float64{in.Null.P[0], in.Null.P[1]}, second); ok {
+				f.setDiscrete(law.LogTails(f.Value))
+				f.Detail = fmt.Sprintf("p-values from the exact law of the cyclic bit and pair counts (%d outcomes)", law.Outcomes())
+				f.Notes = nil
+			}
+		}
+		bitLaw(false, &d)
 		out.Findings = append(out.Findings, d)
 		if fitted && k == 2 {
 			out.Skips = append(out.Skips, Skip{Check: "serial", Params: params,
@@ -102,6 +118,7 @@ func (serialCheck) Run(in Input, out *Result) {
 		dfD2 := math.Pow(S, float64(k-2)) * (S - 1) * (S - 1)
 		d2 := chiSquareFinding("serial", "d2psi2", params, at(k)-2*at(k-1)+at(k-2), dfD2, minExp)
 		d2.Notes = notes
+		bitLaw(true, &d2)
 		out.Findings = append(out.Findings, d2)
 	}
 }

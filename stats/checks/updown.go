@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"borel/internal/tally"
+	"borel/stats"
 )
 
 // updownCheck counts runs up and down (Levene & Wolfowitz 1944). Digits
@@ -16,7 +17,11 @@ import (
 //	E[R] = (2m - 1)/3,   Var[R] = (16m - 29)/90,   z = (R - E[R])/√Var[R] ~ N(0, 1).
 //
 // Both tails deviate: too few runs (long monotone stretches) and too many
-// (alternation). The test is rank-based, so the same law holds under every
+// (alternation). R is an integer whose atoms are not small (P(R = r) ≈
+// 0.13 at m = 500), so the p-values come from its exact law for m ≤
+// stats.MaxExactRunsUpDown (André's recurrence, stats.RunsUpDownLaw) and from
+// the continuity-corrected normal lattice law beyond; both give the second
+// level its atoms. z is reported as the usual summary. The test is rank-based, so the same law holds under every
 // null provided ties are negligible: the expected number of ties,
 // (m-1)(Σ_j p_j²)^L, must be ≪ 1 (Knuth, TAOCP vol. 2 §3.3.2 G, on ties in
 // runs tests); L is chosen as large as a
@@ -24,6 +29,11 @@ import (
 // References: Levene & Wolfowitz, Ann. Math. Statist. 15 (1944) 58–69;
 // Knuth, TAOCP vol. 2 §3.3.2 G.
 type updownCheck struct{}
+
+// minUpDownValues: the exact law is valid for any m ≥ 2, but below 5 values
+// the run count takes at most 3 values and the test has no power to speak
+// of (5 keeps it in the second level's shortest segments: 512 bits hold 8).
+const minUpDownValues = 5
 
 var _ Check = updownCheck{}
 
@@ -44,15 +54,20 @@ func (updownCheck) Run(in Input, out *Result) {
 	L := ud.Digits
 	m := ud.Values
 	params := map[string]int{"digits": L}
-	if m < 100 {
+	if m < minUpDownValues {
 		out.Skips = append(out.Skips, Skip{Check: "updown", Params: params,
-			Reason: fmt.Sprintf("%d values of %d digits are too few for the normal law of the run count (needs 100 values: %d digits)", m, L, 100*L)})
+			Reason: fmt.Sprintf("%d values of %d digits are too few for a runs test (needs %d values: %d digits)", m, L, minUpDownValues, minUpDownValues*L)})
 		return
 	}
 	mf := float64(m)
 	runs := float64(ud.Turns + 1)
 	z := (runs - (2*mf-1)/3) / math.Sqrt((16*mf-29)/90)
 	f := normalFinding("updown", "z", params, z)
+	if law, ok := stats.RunsUpDownLaw(int(m)); ok {
+		f.setDiscrete(law.LogTails(runs))
+	} else {
+		f.setDiscrete(stats.RunsUpDownLatticeLogTails(m, ud.Turns+1))
+	}
 	f.Detail = fmt.Sprintf("%d runs up and down in %d values of %d digits (expected %.1f)", ud.Turns+1, m, L, (2*mf-1)/3)
 	sq := 0.0
 	for _, p := range in.Null.P {
