@@ -73,3 +73,22 @@ func TestNoncentralityInterval(t *testing.T) {
 		t.Errorf("lower end for stat 5 on 9 df = %g, want 0", lo)
 	}
 }
+
+// Check values from mpmath 1.2.1 at 30 digits, from the definition
+// 2·Σ_{x=1}^{N} C(N,x) f^x (1−f)^(N−x) x ln(x/(N f)).
+func TestBinomialGMean(t *testing.T) {
+	lf := LnFactorials(400)
+	for _, c := range []struct {
+		N    int64
+		f    float64
+		want float64
+	}{{10, 0.3, 0.779732536584955202810745277976}, {17, 1.0 / 3, 0.698317228559920360358795312905},
+		{50, 0.5, 0.505140970480615048761609489602}, {400, 0.01, 1.05423134706965844933565375575}} {
+		if got := BinomialGMean(c.N, c.f, lf); math.Abs(got-c.want) > 1e-12*c.want {
+			t.Errorf("N=%d f=%g: %.15g, want %.15g", c.N, c.f, got, c.want)
+		}
+	}
+	if BinomialGMean(0, 0.5, lf) != 0 || BinomialGMean(5, 1, lf) != 0 {
+		t.Error("degenerate cells must give 0")
+	}
+}
