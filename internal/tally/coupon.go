@@ -7,10 +7,16 @@ import (
 )
 
 // CouponRestart is the default spacing of the global positions at which coupon
-// segments restart: the partial segment before each multiple is discarded,
-// like the trailing one, so that a stretch starting at a multiple can be
-// tallied on its own and merged exactly. One segment in every 65 536 digits
-// is lost (E[T] is 29 for d = 10).
+// segments restart, so that a stretch starting at a multiple can be tallied
+// on its own and merged exactly. A segment is started only where its
+// outcome — its length, or "Cap or more" — is decided before the next
+// restart and before the end of the input: at position s only if s + Cap
+// does not pass either. Every segment started is then counted, and since
+// each start is a stopping time of the digits before it, the counted
+// lengths are i.i.d. with the capped law of T. (Dropping the segment still
+// open at a restart, as a plain restart would, keeps the short segments
+// only: a bias that matters when E[T] is not small against the spacing.)
+// At most Cap digits before each restart go unused.
 const CouponRestart = 1 << 16
 
 // Beyond these a decoded shard is damaged.
@@ -49,7 +55,8 @@ func (s *CouponSpec) validate(b int) error {
 	return nil
 }
 
-func (s *CouponSpec) every() int64 {
+// Spacing is the distance between restart positions (Every, or CouponRestart).
+func (s *CouponSpec) Spacing() int64 {
 	if s.Every > 0 {
 		return int64(s.Every)
 	}
@@ -59,14 +66,18 @@ func (s *CouponSpec) every() int64 {
 func (s *CouponSpec) span() int         { return 1 }
 func (s *CouponSpec) cells(int) float64 { return float64(s.Cap + CouponRestart/8) }
 func (s *CouponSpec) newRecord(_ *Spec, offset int64) record {
-	return &Coupons{CouponSpec: *s, Hist: make([]int64, s.Cap+1), Head: []byte{}, Restarted: offset%s.every() == 0}
+	return &Coupons{CouponSpec: *s, Hist: make([]int64, s.Cap+1), Head: []byte{}, Restarted: offset%s.Spacing() == 0}
 }
 
-// Coupons is the coupon record: Hist[r] counts completed segments of length
-// r (Hist[Cap] those of Cap or more). Head holds the stretch's digits
-// before its first restart position, which only the merge with the
-// preceding stretch can process; Seen and Len are the state of the segment
-// open at the end.
+// Coupons is the coupon record: Hist[r] counts the counted segments of
+// length r (Hist[Cap] those of Cap or more; one still open at the end is
+// in Counted, not in Hist). Head holds the stretch's digits before its first restart
+// position, which only the merge with the preceding stretch can process.
+// Seen and Len are the state of the segment open at the end; Idle says that
+// none is open and none may start before the next restart. Pending holds
+// the segments that completed shorter than Cap but started fewer than Cap
+// digits before the end: each counts once the sequence reaches its Due
+// position, and not at all if the sequence ends first.
 type Coupons struct {
 	CouponSpec
 	Hist      []int64
@@ -74,7 +85,13 @@ type Coupons struct {
 	Restarted bool
 	Seen      uint32
 	Len       int64
+	Idle      bool
+	Pending   []PendingSegment
 }
+
+// PendingSegment is a completed coupon segment of Len digits that counts
+// once the sequence reaches global position Due (its start plus Cap).
+type PendingSegment struct{ Due, Len int64 }
 
 // Coupons returns the coupon record, or nil when the tally has none.
 func (t *Tally) Coupons() *Coupons { t.settle(); r, _ := t.find("coupon").(*Coupons); return r }
@@ -85,97 +102,186 @@ func (r *Coupons) kernels(t *Tally) []kernel {
 	return []kernel{{"coupon", 4.5, func(d []byte) { r.add(d, t.Offset+t.N) }}}
 }
 
-// step feeds one digit to the open segment.
-func (r *Coupons) step(x byte) {
-	r.Seen |= 1 << r.Class[x]
-	r.Len++
-	if r.Seen == 1<<r.Classes-1 {
-		r.Hist[min(r.Len, int64(r.Cap))]++
-		r.Seen, r.Len = 0, 0
-	}
-}
-
-// add runs the coupon collector over d (d[0] at global position pos0):
-// segments restart at global positions that are multiples of every; before
-// the stretch's first restart the digits are kept in Head (a merge
-// completes that segment). The loop between restarts keeps its state in
-// locals.
+// add runs the coupon collector over d (d[0] at global position pos0),
+// window by window between the restart positions; before the stretch's
+// first restart the digits are kept in Head (a merge processes them).
 func (r *Coupons) add(d []byte, pos0 int64) {
-	every := r.every()
-	i := 0
-	for i < len(d) {
-		// Digits up to the next restart position (exclusive).
-		next := len(d)
-		if rem := (pos0 + int64(i)) % every; rem == 0 {
-			r.Restarted, r.Seen, r.Len = true, 0, 0
-			next = min(len(d), i+int(every))
+	every := r.Spacing()
+	end := pos0 + int64(len(d))
+	for i := 0; i < len(d); {
+		pos := pos0 + int64(i)
+		rem := pos % every
+		if rem == 0 {
+			r.close(pos)
+			r.Restarted, r.Seen, r.Len, r.Idle = true, 0, 0, false
+		}
+		next := min(len(d), i+int(every-rem))
+		if r.Restarted {
+			r.run(d[i:next], pos, pos-rem+every, end)
 		} else {
-			next = min(len(d), i+int(every-rem))
-		}
-		if !r.Restarted {
 			r.Head = append(r.Head, d[i:next]...)
-			i = next
-			continue
 		}
-		seen, n := r.Seen, r.Len
-		full := uint32(1)<<r.Classes - 1
-		class, hist, capLen := r.Class, r.Hist, int64(r.Cap)
-		for _, x := range d[i:next] {
-			seen |= 1 << class[x]
-			n++
-			if seen == full {
-				hist[min(n, capLen)]++
-				seen, n = 0, 0
-			}
-		}
-		r.Seen, r.Len = seen, n
 		i = next
 	}
+	r.confirm(end)
 }
 
-// merge completes the open segment with next's head, then takes next's
+// run feeds seg (seg[0] at global position pos, no restart inside it) to
+// the collector; restart is the next restart position and end the end of
+// the digits known so far. A segment starts only where its Cap digits fit
+// before restart. One that completes shorter than Cap counts at once if
+// its start plus Cap is within the known digits, else it waits in Pending;
+// one of Cap or more counts when it completes or its window closes. The
+// loop keeps its state in locals and tests one condition per digit.
+func (r *Coupons) run(seg []byte, pos, restart, end int64) {
+	capLen := int64(r.Cap)
+	lastStart := restart - capLen
+	if r.Idle || (r.Len == 0 && pos > lastStart) {
+		r.Idle = true
+		return
+	}
+	seen, n := r.Seen, r.Len
+	full := uint32(1)<<r.Classes - 1
+	var mask [256]uint32
+	for d, c := range r.Class {
+		mask[d] = 1 << c
+	}
+	// Completions at k ≤ kSafe are the common case: the next segment may
+	// start and this one's start plus Cap is within the known digits.
+	// couponScan counts them; it stops at any other.
+	kSafe := int(max(-1, min(int64(len(seg)), min(lastStart, end-capLen)-pos-1)))
+	for k := 0; k < len(seg); k++ {
+		k, seen, n = couponScan(seg, k, &mask, r.Hist, full, capLen, kSafe, seen, n)
+		if k == len(seg) {
+			break
+		}
+		next := pos + int64(k) + 1 // where the next segment would start
+		if n >= capLen {
+			r.Hist[capLen]++
+		} else if due := next - n + capLen; due <= end {
+			r.Hist[n]++
+		} else {
+			r.Pending = append(r.Pending, PendingSegment{due, n})
+		}
+		seen, n = 0, 0
+		if next > lastStart {
+			r.Idle = true
+			break
+		}
+	}
+	r.Seen, r.Len = seen, n
+}
+
+// couponScan runs the collector over seg from index k and state (seen, n),
+// counting the segments that complete at an index up to kSafe into hist
+// (lengths of Cap or more in the last cell). It returns the index of the
+// first completion after kSafe, or len(seg), and the state there (that
+// segment not yet counted or reset). Its few live values stay in
+// registers: this loop is the coupon record's whole cost.
+func couponScan(seg []byte, k int, mask *[256]uint32, hist []int64, full uint32, capLen int64, kSafe int,
+	seen uint32, n int64) (int, uint32, int64) {
+	for ; k < len(seg); k++ {
+		seen |= mask[seg[k]]
+		n++
+		if seen == full {
+			if k > kSafe {
+				return k, seen, n
+			}
+			hist[min(n, capLen)]++
+			seen, n = 0, 0
+		}
+	}
+	return k, seen, n
+}
+
+// close ends the window at restart position at: every pending segment is
+// due, and an open one of Cap digits or more counts.
+func (r *Coupons) close(at int64) {
+	r.confirm(at)
+	if r.Len >= int64(r.Cap) {
+		r.Hist[r.Cap]++
+	}
+}
+
+// Counted returns the counted segments by length (the last cell: Cap or
+// more) of the stretch as it ends: Hist with the open segment if it has
+// Cap digits already. The pending ones do not count: they started too
+// close to the end.
+func (r *Coupons) Counted() []int64 {
+	h := slices.Clone(r.Hist)
+	if r.Len >= int64(r.Cap) {
+		h[r.Cap]++
+	}
+	return h
+}
+
+// confirm counts the pending segments due at or before global position at.
+func (r *Coupons) confirm(at int64) {
+	k := 0
+	for k < len(r.Pending) && r.Pending[k].Due <= at {
+		r.Hist[r.Pending[k].Len]++
+		k++
+	}
+	r.Pending = append(r.Pending[:0], r.Pending[k:]...)
+}
+
+// merge continues the open segment over next's head, then takes next's
 // segments and state.
-func (r *Coupons) merge(next record, _ *seam) {
+func (r *Coupons) merge(next record, sm *seam) {
 	n := next.(*Coupons)
 	if !r.Restarted {
 		r.Head = append(r.Head, n.Head...)
-		r.Restarted, r.Seen, r.Len = n.Restarted, n.Seen, n.Len
-		r.Hist = slices.Clone(n.Hist)
+		r.Restarted, r.Seen, r.Len, r.Idle = n.Restarted, n.Seen, n.Len, n.Idle
+		r.Hist, r.Pending = slices.Clone(n.Hist), slices.Clone(n.Pending)
 		return
 	}
-	for _, x := range n.Head {
-		r.step(x)
-	}
+	r.add(n.Head, sm.b.Offset) // no restart position inside next's head
 	addInto(r.Hist, n.Hist)
-	if n.Restarted {
-		r.Seen, r.Len = n.Seen, n.Len
+	if n.Restarted { // r's window ended at next's first restart
+		r.close(sm.b.Offset + int64(len(n.Head)))
+		r.Seen, r.Len, r.Idle = n.Seen, n.Len, n.Idle
+		r.Pending = slices.Clone(n.Pending)
 	}
 }
 
 func (r *Coupons) clone() record {
 	u := *r
-	u.Hist, u.Head = slices.Clone(r.Hist), slices.Clone(r.Head)
+	u.Hist, u.Head, u.Pending = slices.Clone(r.Hist), slices.Clone(r.Head), slices.Clone(r.Pending)
 	return &u
 }
 
 func (r *Coupons) settle(*Tally) {}
 
+// couponEntry is the record in a shard; a pending segment is the pair
+// [due, length].
 type couponEntry struct {
-	Hist      table  `json:"hist"`
-	Head      []byte `json:"head"`
-	Restarted bool   `json:"restarted"`
-	Seen      uint32 `json:"seen"`
-	Len       int64  `json:"len"`
+	Hist      table      `json:"hist"`
+	Head      []byte     `json:"head"`
+	Restarted bool       `json:"restarted"`
+	Seen      uint32     `json:"seen"`
+	Len       int64      `json:"len"`
+	Idle      bool       `json:"idle,omitempty"`
+	Pending   [][2]int64 `json:"pending,omitempty"`
 }
 
-func (r *Coupons) entry() any { return couponEntry{r.Hist, r.Head, r.Restarted, r.Seen, r.Len} }
+func (r *Coupons) entry() any {
+	e := couponEntry{Hist: r.Hist, Head: r.Head, Restarted: r.Restarted, Seen: r.Seen, Len: r.Len, Idle: r.Idle}
+	for _, p := range r.Pending {
+		e.Pending = append(e.Pending, [2]int64{p.Due, p.Len})
+	}
+	return e
+}
 
 func (r *Coupons) decode(data json.RawMessage) error {
 	var e couponEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err
 	}
-	r.Hist, r.Head, r.Restarted, r.Seen, r.Len = e.Hist, e.Head, e.Restarted, e.Seen, e.Len
+	r.Hist, r.Head, r.Restarted, r.Seen, r.Len, r.Idle = e.Hist, e.Head, e.Restarted, e.Seen, e.Len, e.Idle
+	r.Pending = nil
+	for _, p := range e.Pending {
+		r.Pending = append(r.Pending, PendingSegment{p[0], p[1]})
+	}
 	if r.Head == nil {
 		r.Head = []byte{}
 	}
@@ -183,8 +289,9 @@ func (r *Coupons) decode(data json.RawMessage) error {
 }
 
 // check: Cap+1 cells, no segment shorter than the class count, at most one
-// segment per Classes digits, the open segment's state, and a head that
-// ends at the stretch's first restart position.
+// segment per Classes digits, the open segment's state, pending segments
+// in order and due within Cap digits of the end, and a head that ends at
+// the stretch's first restart position.
 func (r *Coupons) check(t *Tally) error {
 	if len(r.Hist) != r.Cap+1 {
 		return fmt.Errorf("coupon histogram of %d cells, want %d", len(r.Hist), r.Cap+1)
@@ -198,10 +305,20 @@ func (r *Coupons) check(t *Tally) error {
 			return fmt.Errorf("coupon segment of length %d, shorter than the %d classes", l, r.Classes)
 		}
 	}
-	every := r.every()
+	every := r.Spacing()
 	if uint64(r.Seen) >= uint64(1)<<r.Classes || r.Len < 0 || r.Len > min(t.N, every) || (r.Len == 0) != (r.Seen == 0) ||
 		sum*int64(r.Classes) > t.N {
 		return fmt.Errorf("coupon state does not fit %d digits", t.N)
+	}
+	end, due := t.Offset+t.N, int64(0)
+	if r.Idle && r.Len != 0 || int64(len(r.Pending))*int64(r.Classes) > min(t.N, int64(r.Cap)) {
+		return fmt.Errorf("coupon state does not fit %d digits", t.N)
+	}
+	for _, p := range r.Pending {
+		if p.Len < int64(r.Classes) || p.Len >= int64(r.Cap) || p.Due <= max(end, due) || p.Due > end+int64(r.Cap) {
+			return fmt.Errorf("coupon pending segment (due %d, length %d) does not fit the stretch's end %d", p.Due, p.Len, end)
+		}
+		due = p.Due
 	}
 	first := (t.Offset + every - 1) / every * every
 	restarted := t.Offset%every == 0 || first < t.Offset+t.N

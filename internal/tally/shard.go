@@ -16,19 +16,21 @@ import (
 // ShardVersion is the version of the shard format this borel writes and
 // reads. It goes up when an entry changes meaning or disappears.
 //
-// Format 2: the header line
+// Format 3: the header line
 //
-//	borel-tally 2 sha256:<hex> bytes:<n>
+//	borel-tally 3 sha256:<hex> bytes:<n>
 //
 // then n bytes of gzip-compressed JSON whose SHA-256 the header states: a
 // stream of JSON values, first the shard header (format, version, writer,
 // null, source, the tally's spec with its record list, offset, length,
 // head and tail), then one entry per record in the spec's order, each
 // {"record": kind, "data": …} in the record's own encoding (count tables
-// as base64 varints, table.go). Format 1 (one JSON object that was the Go
-// Tally field by field) was written by borel 0.1.0 before the records; it
-// is refused with that said.
-const ShardVersion = 2
+// as base64 varints, table.go). Format 2 had the same layout, but its
+// coupon record dropped the segment open at each restart (a bias for long
+// segments, CouponRestart): its shards are refused, to be tallied again.
+// Format 1 (one JSON object that was the Go Tally field by field) was
+// written by borel 0.1.0 before the records; it is refused with that said.
+const ShardVersion = 3
 
 // Shard is one stretch's tally as written by `borel tally`: the tally, the
 // null it was planned for (which fixes part of its spec), and where its
@@ -128,6 +130,8 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	switch {
 	case version > ShardVersion:
 		return nil, fmt.Errorf("%s: shard format %d was written by a newer borel; this borel reads format %d: upgrade borel", name, version, ShardVersion)
+	case version == 2:
+		return nil, fmt.Errorf("%s: shard format 2 counts coupon segments by an earlier rule that biased them short; this borel reads format %d: tally that stretch again with this borel", name, ShardVersion)
 	case version == 1:
 		return nil, fmt.Errorf("%s: shard format 1 was written by borel 0.1.0 before its tallies were split into records; this borel reads format %d: tally that stretch again with this borel", name, ShardVersion)
 	case version < 1:

@@ -294,21 +294,39 @@ func TestExtrasAgainstDefinition(t *testing.T) {
 			}
 		}
 
+		// Coupon segments: one starts at s only if s + Cap reaches neither
+		// the next restart R nor the end; it counts as its length, or as
+		// Cap once it has Cap digits, and the next starts where it
+		// completes (at R if it does not complete before).
 		hist := make([]int64, cs.Cap+1)
-		var seen uint32
-		var length int64
-		for i, x := range d {
-			if i%cs.Every == 0 {
-				seen, length = 0, 0
+		for s := 0; s < n; {
+			R := (s/cs.Every + 1) * cs.Every
+			if s+cs.Cap > min(R, n) {
+				s = R
+				continue
 			}
-			seen |= 1 << cs.Class[x]
-			length++
-			if seen == 1<<cs.Classes-1 {
-				hist[min(length, int64(cs.Cap))]++
-				seen, length = 0, 0
+			var seen uint32
+			length, j, done := 0, s, false
+			for ; j < min(R, n) && !done; j++ {
+				seen |= 1 << cs.Class[d[j]]
+				length++
+				if length == cs.Cap {
+					hist[cs.Cap]++
+				}
+				if seen == 1<<cs.Classes-1 {
+					if length < cs.Cap {
+						hist[length]++
+					}
+					done = true
+				}
+			}
+			if done {
+				s = j
+			} else {
+				s = R
 			}
 		}
-		if got := tl.Coupons().Hist; !slices.Equal(got, hist) {
+		if got := tl.Coupons().Counted(); !slices.Equal(got, hist) {
 			t.Fatalf("trial %d: coupon %v, want %v", trial, got, hist)
 		}
 	}
@@ -360,15 +378,17 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	}
 	damaged := append([]byte(nil), good...)
 	damaged[len(damaged)-10] ^= 0x40
-	future := []byte(strings.Replace(string(good), "borel-tally 2 ", "borel-tally 3 ", 1))
-	old := []byte(strings.Replace(string(good), "borel-tally 2 ", "borel-tally 1 ", 1))
+	future := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 4 ", 1))
+	old := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 1 ", 1))
+	format2 := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 2 ", 1))
 	cases := map[string][]byte{
-		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 3 was written by a newer borel": future,
+		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 4 was written by a newer borel": future,
+		"shard format 2 counts coupon segments by an earlier rule that biased them short":      format2,
 		"shard format 1 was written by borel 0.1.0 before its tallies were split into records": old,
 		"not a borel shard": []byte("hello\nworld"),
 		// A damaged header that claims a terabyte must not allocate it
 		// (FuzzReadShard hung on this before the payload was read incrementally).
-		"the 1000000000000 bytes the header states": []byte("borel-tally 2 sha256:00 bytes:1000000000000\nabc"),
+		"the 1000000000000 bytes the header states": []byte("borel-tally 3 sha256:00 bytes:1000000000000\nabc"),
 	}
 	for want, data := range cases {
 		if _, err := ReadShard(bytes.NewReader(data), "s1"); err == nil || !strings.Contains(err.Error(), want) {

@@ -97,10 +97,16 @@ func TestDamagedShardsRefused(t *testing.T) {
 		"trace points out of order":         func(x *Tally) { x.dig.Trace[1], x.dig.Trace[2] = x.dig.Trace[2], x.dig.Trace[1] },
 		"coupon head digit above the base":  func(x *Tally) { x.Coupons().Head = append(x.Coupons().Head[:0:0], 9) },
 		"coupon state seen beyond classes":  func(x *Tally) { x.Coupons().Seen = 1 << 20 },
-		"up/down values off":                func(x *Tally) { x.UpDown().Values++ },
-		"offset negative":                   func(x *Tally) { x.Offset = -1 },
-		"length beyond the counts":          func(x *Tally) { x.N++ },
-		"gap cap absurd":                    func(x *Tally) { x.Spec = x.Spec.With(&GapSpec{Cap: 1 << 30}) },
+		"coupon pending beyond the end": func(x *Tally) {
+			x.Coupons().Pending = []PendingSegment{{Due: x.Offset + x.N + int64(x.Coupons().Cap) + 1, Len: int64(x.Coupons().Classes)}}
+		},
+		"coupon pending already due": func(x *Tally) {
+			x.Coupons().Pending = []PendingSegment{{Due: x.Offset + x.N, Len: int64(x.Coupons().Classes)}}
+		},
+		"up/down values off":       func(x *Tally) { x.UpDown().Values++ },
+		"offset negative":          func(x *Tally) { x.Offset = -1 },
+		"length beyond the counts": func(x *Tally) { x.N++ },
+		"gap cap absurd":           func(x *Tally) { x.Spec = x.Spec.With(&GapSpec{Cap: 1 << 30}) },
 		"coupon class beyond the count": func(x *Tally) {
 			c := *x.Spec.Record("coupon").(*CouponSpec)
 			c.Class = append([]int{31}, c.Class[1:]...)

@@ -174,3 +174,74 @@ func TestLagcorrIgnoresFrequencyBias(t *testing.T) {
 		t.Errorf("Q = %.2f, p = %.2g on independent biased digits", f.Value, math.Exp(f.LogPUpper))
 	}
 }
+
+// Moments of the coupon segment length. Equal classes: E[T] = d H_d and
+// Var T = d² Σ_{k≤d} 1/k² − d H_d (textbook; for d = 10, E[T] =
+// 29.2896825396825…, E[T²] = 983.572593852355…). Unequal classes: Σ_r P(T >
+// r) and Σ_r (2r+1) P(T > r) summed with mpmath 1.2 (nsum, 40 digits) from
+// the inclusion–exclusion tail: q = (0.2, 0.3, 0.5) gives 6.654761904761904
+// and 60.36082766439909; q = (1e-4, 0.4999, 0.5) gives 10000.00069999003 and
+// 199990000.0052999.
+func TestCouponMoments(t *testing.T) {
+	ten := make([]float64, 10)
+	for i := range ten {
+		ten[i] = 0.1
+	}
+	for _, c := range []struct {
+		q      []float64
+		m1, m2 float64
+		tol    float64
+	}{
+		{ten, 29.289682539682538, 983.5725938523557, 1e-12},
+		{[]float64{0.2, 0.3, 0.5}, 6.654761904761904, 60.36082766439909, 1e-12},
+		{[]float64{1e-4, 0.4999, 0.5}, 10000.00069999003, 199990000.0052999, 1e-10},
+	} {
+		m1, m2 := CouponMoments(c.q)
+		if math.Abs(m1-c.m1) > c.tol*c.m1 || math.Abs(m2-c.m2) > c.tol*c.m2 {
+			t.Errorf("q %v: moments %.16g %.16g, want %.16g %.16g", c.q, m1, m2, c.m1, c.m2)
+		}
+	}
+}
+
+// E[N] of couponExpectedSegments against the count of segments in
+// simulated windows: geometric-like lengths (the rare class) make the
+// renewal formula exact; equal classes make it asymptotic. 200 seeded
+// sequences of 3·65 536 + 20 000 digits; the mean count must agree within
+// 4 standard errors.
+func TestCouponExpectedSegments(t *testing.T) {
+	for _, q := range [][]float64{{1e-4, 0.4999, 0.5}, {0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1}} {
+		mu, m2 := CouponMoments(q)
+		const every, capLen, n = 65536, 4096, 3*65536 + 20000
+		want := couponExpectedSegments(0, n, every, capLen, mu, m2)
+		rng := rand.New(rand.NewPCG(3, uint64(len(q))))
+		var sum, sum2 float64
+		const runs = 200
+		for range runs {
+			d := expand.IID(n, q, rng)
+			count := 0.0
+			for w := 0; w < n; w += every {
+				end := min(n, w+every)
+				for s := w; s+capLen <= end; {
+					seen, full := 0, 1<<len(q)-1
+					j := s
+					for j < end && seen != full {
+						seen |= 1 << d[j]
+						j++
+					}
+					count++
+					if seen != full {
+						break
+					}
+					s = j
+				}
+			}
+			sum, sum2 = sum+count, sum2+count*count
+		}
+		mean := sum / runs
+		se := math.Sqrt((sum2/runs - mean*mean) / runs)
+		if math.Abs(mean-want) > 4*se+1e-9 {
+			t.Errorf("q %v: %.4f segments expected, %.4f ± %.4f counted", q, want, mean, se)
+		}
+		t.Logf("q of %d classes: E[N] %.4f, simulated %.4f ± %.4f", len(q), want, mean, se)
+	}
+}

@@ -307,19 +307,25 @@ func normalFinding(check, stat string, params map[string]int, z float64) Finding
 // class has an expected count of at least minExp; a short last group joins
 // the one before it. It returns the pooled observed and expected counts.
 func poolClasses(obs []int64, exp []float64, minExp float64) ([]int64, []float64) {
+	return poolClassesBy(obs, exp, exp, minExp)
+}
+
+// poolClassesBy pools as poolClasses does, but by the reference
+// expectations ref (fixed in advance, so that the pooling does not depend
+// on the data), summing obs and exp over each pooled class.
+func poolClassesBy(obs []int64, exp, ref []float64, minExp float64) ([]int64, []float64) {
 	var po []int64
 	var pe []float64
 	var o int64
-	e := 0.0
+	e, r := 0.0, 0.0
 	for i := range obs {
-		o += obs[i]
-		e += exp[i]
-		if e >= minExp {
+		o, e, r = o+obs[i], e+exp[i], r+ref[i]
+		if r >= minExp {
 			po, pe = append(po, o), append(pe, e)
-			o, e = 0, 0
+			o, e, r = 0, 0, 0
 		}
 	}
-	if e > 0 || o > 0 {
+	if r > 0 || o > 0 {
 		if len(po) == 0 {
 			po, pe = append(po, o), append(pe, e)
 		} else {
@@ -330,13 +336,26 @@ func poolClasses(obs []int64, exp []float64, minExp float64) ([]int64, []float64
 	return po, pe
 }
 
-// pooledChiSquare pools the classes and returns X², the number of classes
-// and the smallest pooled expectation.
-func pooledChiSquare(obs []int64, exp []float64, minExp float64) (x2 float64, classes int, smallest float64) {
-	po, pe := poolClasses(obs, exp, minExp)
+// poolGroups returns how many classes poolClasses leaves for expectations
+// ref.
+func poolGroups(ref []float64, minExp float64) int {
+	_, pe := poolClasses(make([]int64, len(ref)), ref, minExp)
+	return len(pe)
+}
+
+// pooledChiSquareBy pools the classes by ref (poolClassesBy) and returns
+// X² of obs against exp, the number of classes and the smallest pooled exp.
+func pooledChiSquareBy(obs []int64, exp, ref []float64, minExp float64) (x2 float64, classes int, smallest float64) {
+	po, pe := poolClassesBy(obs, exp, ref, minExp)
 	cs := newCellStat()
 	for i := range po {
 		cs.add(po[i], pe[i])
 	}
 	return cs.x2, len(po), cs.minExp
+}
+
+// pooledChiSquare pools the classes and returns X², the number of classes
+// and the smallest pooled expectation.
+func pooledChiSquare(obs []int64, exp []float64, minExp float64) (x2 float64, classes int, smallest float64) {
+	return pooledChiSquareBy(obs, exp, exp, minExp)
 }
