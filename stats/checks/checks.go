@@ -314,26 +314,38 @@ func poolClasses(obs []int64, exp []float64, minExp float64) ([]int64, []float64
 // expectations ref (fixed in advance, so that the pooling does not depend
 // on the data), summing obs and exp over each pooled class.
 func poolClassesBy(obs []int64, exp, ref []float64, minExp float64) ([]int64, []float64) {
-	var po []int64
-	var pe []float64
-	var o int64
-	e, r := 0.0, 0.0
-	for i := range obs {
-		o, e, r = o+obs[i], e+exp[i], r+ref[i]
-		if r >= minExp {
-			po, pe = append(po, o), append(pe, e)
-			o, e, r = 0, 0, 0
-		}
-	}
-	if r > 0 || o > 0 {
-		if len(po) == 0 {
-			po, pe = append(po, o), append(pe, e)
-		} else {
-			po[len(po)-1] += o
-			pe[len(pe)-1] += e
-		}
+	group, groups := poolIndex(ref, minExp)
+	po, pe := make([]int64, groups), make([]float64, groups)
+	for i, g := range group {
+		po[g] += obs[i]
+		pe[g] += exp[i]
 	}
 	return po, pe
+}
+
+// poolIndex returns the pooled class of each class and the number of
+// pooled classes: adjacent classes merge, left to right, until the pooled
+// ref reaches minExp; a short last group joins the one before it.
+func poolIndex(ref []float64, minExp float64) (group []int, groups int) {
+	group = make([]int, len(ref))
+	r := 0.0
+	for i, v := range ref {
+		group[i] = groups
+		r += v
+		if r >= minExp {
+			groups++
+			r = 0
+		}
+	}
+	if groups == 0 {
+		return group, min(1, len(ref))
+	}
+	if r > 0 || (len(ref) > 0 && group[len(ref)-1] == groups) {
+		for i := len(ref) - 1; i >= 0 && group[i] == groups; i-- {
+			group[i] = groups - 1
+		}
+	}
+	return group, groups
 }
 
 // poolGroups returns how many classes poolClasses leaves for expectations

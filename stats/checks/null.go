@@ -39,6 +39,10 @@ func (k NullKind) String() string {
 type Null struct {
 	Kind NullKind
 	P    []float64 // digit probabilities, len = base
+	// Digits, for a fitted null, is the number of digits P was estimated
+	// from: a check of a tally of exactly these digits sees the estimate's
+	// own fluctuations (Chernoff–Lehmann); one of a segment does not.
+	Digits int64
 }
 
 // UniformNull returns the uniform null of a base.
@@ -79,7 +83,7 @@ func FittedNull(counts []int64) Null {
 	for i, c := range counts {
 		p[i] = float64(c) / float64(n)
 	}
-	return Null{Kind: Fitted, P: p}
+	return Null{Kind: Fitted, P: p, Digits: n}
 }
 
 // Symbols returns the number of digits with positive null probability.
