@@ -3,6 +3,7 @@ package tests
 import (
 	"math"
 	"math/rand/v2"
+	"os"
 	"sort"
 	"testing"
 
@@ -24,8 +25,21 @@ import (
 // law, Marsaglia–Tsang–Wang). The count of "not consistent" verdicts at
 // alpha = 0.01 must lie within the central 99.9% binomial interval of
 // Binomial(300, 0.01), and so must the count of "too uniform" verdicts.
+//
+// BOREL_CALIBRATION=long runs ten times as many sequences in these tests,
+// the coupon-restart and the fitted-poker ones (about 10 minutes on two
+// cores instead of one): the same bounds, with ten times the power to see
+// a rate off alpha.
 
-const calibrationRuns = 300
+var calibrationRuns = calibrationScale(300)
+
+// calibrationScale returns n, or 10n when BOREL_CALIBRATION=long.
+func calibrationScale(n int) int {
+	if os.Getenv("BOREL_CALIBRATION") == "long" {
+		return 10 * n
+	}
+	return n
+}
 
 var calibrationLengths = []int{10_000, 30_000, 100_000}
 
@@ -332,7 +346,7 @@ func TestCalibrationSkewedVector(t *testing.T) {
 //     the 99.9% binomial interval of 0.01, and passes KS. Before, the
 //     share was 2.3% at 10^6 digits and 13.6% at 10^5 for the first vector.
 func TestCalibrationCouponRestarts(t *testing.T) {
-	const runs, n = 300, 300_000
+	runs, n := calibrationScale(300), 300_000
 	for vi, p := range [][]float64{{1e-4, 0.4999, 0.5}, {0.002, 0.499, 0.499}} {
 		opts := audit.DefaultOptions()
 		opts.Null = audit.NullSpec{Kind: checks.Vector, P: p}
@@ -415,7 +429,7 @@ func TestCalibrationCouponRestarts(t *testing.T) {
 // at 0.001. With classes − 1 df (the code before the weights) the KS p on
 // these sequences was 2·10^-4 for (0.2, 0.3, 0.5) and 2·10^-19 for (0.3, 0.7).
 func TestCalibrationFittedPoker(t *testing.T) {
-	const runs = 1000
+	runs := calibrationScale(1000)
 	for vi, p := range [][]float64{{0.2, 0.3, 0.5}, {0.3, 0.7}} {
 		opts := audit.DefaultOptions()
 		opts.Null = audit.NullSpec{Kind: checks.Fitted}

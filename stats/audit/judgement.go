@@ -174,8 +174,19 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		res.SegmentPValues = series
 		out.Findings = append(out.Findings, fs...)
 		out.Skips = append(out.Skips, skips...)
-		res.Notes = append(res.Notes, fmt.Sprintf("second level: %d segments of about %d digits; discrete statistics enter with randomized p-values (seed %d)",
-			opts.Segments, t.N/int64(opts.Segments), opts.Seed))
+		shortest, longest := segs[0].N, segs[0].N
+		for _, sg := range segs {
+			shortest, longest = min(shortest, sg.N), max(longest, sg.N)
+		}
+		size := fmt.Sprintf("of %d digits", shortest)
+		if longest != shortest {
+			// One pass of unknown length is cut at power-of-two sub-tallies:
+			// each segment's statistics use its own length, so the p-values
+			// stay uniform; only the lengths differ.
+			size = fmt.Sprintf("of %d to %d digits", shortest, longest)
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("second level: %d segments %s; discrete statistics enter with randomized p-values (seed %d)",
+			opts.Segments, size, opts.Seed))
 	}
 	res.Skips = out.Skips
 	res.Entropy = out.Entropy
