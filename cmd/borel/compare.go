@@ -138,7 +138,7 @@ func compareSource(e env, name string, ci compareInput, af *auditFlags, opts aud
 		if _, err := expand.ParseSource(builtin); err != nil {
 			return nil, usagef("%q is neither a file nor a built-in source: %v", name, err)
 		}
-		return auditSource(builtin, ci.bases, ci.count, opts)
+		return auditSource(e, builtin, ci.bases, ci.count, opts, quiet)
 	}
 	r, err := compareOne(e, name, ci, isFile, builtin, af, opts, quiet)
 	if err != nil {
@@ -193,7 +193,7 @@ func compareOne(e env, name string, ci compareInput, isFile bool, builtin string
 	if err := checkDigitMemory(src, count, b, digitMemory()); err != nil {
 		return nil, err
 	}
-	d, checks, err := checkedDigits(src, count, 0, b)
+	d, checks, err := checkedDigits(e, quiet, src, count, 0, b)
 	if err != nil {
 		return nil, err
 	}

@@ -86,7 +86,7 @@ func runDigits(e env, args []string) (int, error) {
 		return 0, err
 	}
 	start := time.Now()
-	d, checks, err := checkedDigits(src, *count, *offset, b)
+	d, checks, err := checkedDigits(e, *quiet, src, *count, *offset, b)
 	if err != nil {
 		return 0, err
 	}

@@ -57,7 +57,14 @@ func sizeString(b int64) string {
 // (the collector would otherwise let dead products of the computation pile
 // up to twice the live memory: 4.8–6.7 GB at 10^8 decimals of π, against
 // 4.6 GB with the limit, in the same time); the limit is restored after.
-func checkedDigits(src expand.Source, count, offset, base int) ([]byte, []string, error) {
+// On a terminal (unless quiet) a computation shows its phase and the
+// fraction done on standard error.
+func checkedDigits(e env, quiet bool, src expand.Source, count, offset, base int) ([]byte, []string, error) {
+	if p := newProgress(e, quiet, -1); p != nil && src.Computed() {
+		what := fmt.Sprintf("computing %s: %s digits in base %d", src.Name, human(float64(count+offset)), base)
+		src = src.WithMeter(func(phase string, done float64) { p.phase(what, phase, done) })
+		defer p.done()
+	}
 	need := int64(src.MemoryEstimate(count+offset, base))
 	old := debug.SetMemoryLimit(-1)
 	debug.SetMemoryLimit(max(need/8*7, 64<<20)) // a margin: the heap overshoots the soft limit a little

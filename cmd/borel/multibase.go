@@ -76,7 +76,7 @@ func powerNotes(results []*audit.Result) {
 }
 
 // auditSource audits a built-in source in each base.
-func auditSource(name string, bases []int, count int, opts audit.Options) ([]*audit.Result, error) {
+func auditSource(e env, name string, bases []int, count int, opts audit.Options, quiet bool) ([]*audit.Result, error) {
 	src, err := expand.ParseSource(name)
 	if err != nil {
 		return nil, usageError{err.Error()}
@@ -89,7 +89,7 @@ func auditSource(name string, bases []int, count int, opts audit.Options) ([]*au
 		if err := checkDigitMemory(src, count, b, digitMemory()); err != nil {
 			return nil, err
 		}
-		d, checks, err := checkedDigits(src, count, 0, b)
+		d, checks, err := checkedDigits(e, quiet, src, count, 0, b)
 		if err != nil {
 			return nil, err
 		}
@@ -318,7 +318,7 @@ func runAuditAcross(e env, fs interface {
 	}
 	switch {
 	case a.source != "":
-		results, err = auditSource(a.source, bases, a.count, opts)
+		results, err = auditSource(e, a.source, bases, a.count, opts, a.out.quiet)
 	case a.raw:
 		results, err = auditRegrouped(e, input, bases, opts, a.out.quiet, a.gzip)
 	default:

@@ -51,6 +51,22 @@ func (p *progress) update(digits, bytesRead int64) {
 	p.shown = true
 }
 
+// phase shows a digit computation's phase, the fraction done when it is
+// measured, and the time so far (from the start, without the one-second
+// wait of a pass: a computation's phases are its only sign of life).
+func (p *progress) phase(what, phase string, done float64) {
+	if p == nil {
+		return
+	}
+	line := fmt.Sprintf("borel: %s: %s", what, phase)
+	if done > 0 {
+		line += fmt.Sprintf(" %.0f%%", 100*done)
+	}
+	line += fmt.Sprintf(", %s", time.Since(p.start).Round(time.Second))
+	fmt.Fprintf(p.w, "\r%s\033[K", line)
+	p.shown = true
+}
+
 // done clears the line.
 func (p *progress) done() {
 	if p != nil && p.shown {

@@ -62,7 +62,7 @@ func TestTermsAtLargeIndices(t *testing.T) {
 // and the combined T matches a direct sum of the terms' contributions.
 func TestBinarySplitAcrossOverflow(t *testing.T) {
 	lo, hi := int64(1<<21-32), int64(1<<21+32)
-	r := binarySplit(chudnovskyTerm, lo, hi, 0, true)
+	r := binarySplit(chudnovskyTerm, lo, hi, 0, true, nil)
 	c3 := new(big.Int).Exp(bigInt(640320), bigInt(3), nil)
 	c3.Quo(c3, bigInt(24))
 	P, Q, T := big.NewInt(1), big.NewInt(1), new(big.Int)
@@ -184,11 +184,11 @@ func TestChecksRefuseWrongValues(t *testing.T) {
 	// one digit changed, anywhere.
 	const n = 20000
 	prec := bitsFor(n, 10)
-	fv, err := sqrtFixed(2)(prec)
+	fv, err := sqrtFixed(2)(prec, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, ok := fastDigits(fv.V, fv.Err, prec, n, 10)
+	d, ok := fastDigits(fv.V, fv.Err, prec, n, 10, nil)
 	if !ok {
 		t.Fatal("fast path not taken")
 	}
@@ -215,7 +215,7 @@ func TestChecksRefuseWrongValues(t *testing.T) {
 	}
 	// The extraction check refuses a value one unit off at the end of its
 	// window's agreeing bits.
-	fp, err := piFixed(prec)
+	fp, err := piFixed(prec, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -86,9 +86,11 @@ func extractionPos(prec uint, align uint64) uint64 {
 // π = 426880 √10005 · Q / T. The fractional part π - 3 is returned, checked
 // by Bailey–Borwein–Plouffe extraction of the hexadecimal digits at the
 // end of the precision (piExtract).
-func piFixed(prec uint) (fixedValue, error) {
+func piFixed(prec uint, mt *meter) (fixedValue, error) {
 	terms := int64(float64(prec)/47.11) + 2 // log2(640320³/1728) ≈ 47.11 bits per term
-	r := binarySplit(hooked("pi", chudnovskyTerm), 0, terms, 0, false)
+	mt.begin("series", splitCost(terms))
+	r := binarySplit(hooked("pi", chudnovskyTerm), 0, terms, 0, false, mt)
+	mt.begin("division", 0)
 	// π = 426880 √10005 Q / T, all scaled by 2^prec.
 	// √10005 = 10005/√10005 from the division-free inverse square root:
 	// |10005·X − √10005·2^wide| ≤ 10005·invSqrtErr, which becomes at most
@@ -115,6 +117,7 @@ func piFixed(prec uint) (fixedValue, error) {
 		return fixedValue{}, checkError("π", "the value is not between 3 and 4")
 	}
 	pos := extractionPos(prec, 4)
+	mt.begin("value check", 0)
 	F, bound := piExtract(pos / 4)
 	check, err := checkExtraction("π", "Bailey–Borwein–Plouffe digit extraction", v, errUnits, prec, pos, F, bound)
 	return fixedValue{V: v, Err: errUnits, Check: check}, err
@@ -124,12 +127,14 @@ func piFixed(prec uint) (fixedValue, error) {
 // k < N, then checked twice: the root's Q = (N−1)! and T = Σ_{k<N} (N−1)!/k!
 // against a term-by-term evaluation modulo the prime 2^62 − 57, and the
 // quotient by multiplying it back (checkedQuo).
-func eFixed(prec uint) (fixedValue, error) {
+func eFixed(prec uint, mt *meter) (fixedValue, error) {
 	n := int64(2)
 	for lg := 0.0; lg < float64(prec)+4; n++ {
 		lg += math.Log2(float64(n))
 	}
-	r := binarySplit(hooked("e", expTerm), 0, n, 0, false)
+	mt.begin("series", splitCost(n))
+	r := binarySplit(hooked("e", expTerm), 0, n, 0, false, mt)
+	mt.begin("division", 0)
 	if q, t := expSumsMod(n); modP(r.Q) != q || modP(r.T) != t || !isOne(r.B) {
 		return fixedValue{}, checkError("e", fmt.Sprintf("the binary-splitting sums of Σ_{k<%d} 1/k! differ from a term-by-term evaluation modulo %s", n, checkPrimeName))
 	}
@@ -156,9 +161,9 @@ func expSumsMod(n int64) (q, t uint64) {
 // atanhInvFixed returns floor(atanh(1/m)·2^prec) within three units (the
 // quotient's two and the tail's one), by binary splitting of
 // atanh(1/m) = Σ_k 1/((2k+1) m^(2k+1)).
-func atanhInvFixed(m int64, prec uint) (*big.Int, error) {
+func atanhInvFixed(m int64, prec uint, mt *meter) (*big.Int, error) {
 	n := int64(float64(prec)/(2*math.Log2(float64(m)))) + 2
-	r := binarySplit(hooked(fmt.Sprintf("atanh(1/%d)", m), atanhInvTerm(m)), 0, n, 0, false)
+	r := binarySplit(hooked(fmt.Sprintf("atanh(1/%d)", m), atanhInvTerm(m)), 0, n, 0, false, mt)
 	return seriesQuo(r, prec, "ln 2")
 }
 
@@ -166,11 +171,17 @@ func atanhInvFixed(m int64, prec uint) (*big.Int, error) {
 // (a Machin-like formula, as used by record computations of ln 2), checked
 // by extracting the binary digits at the end of the precision from
 // ln 2 = Σ 1/(k·2^k) (ln2Extract), a series it does not share.
-func ln2Fixed(prec uint) (fixedValue, error) {
+func ln2Fixed(prec uint, mt *meter) (fixedValue, error) {
 	w := prec + 8
 	var parts [3]*big.Int
-	for i, m := range [3]int64{26, 4801, 8749} {
-		p, err := atanhInvFixed(m, w)
+	ms := [3]int64{26, 4801, 8749}
+	total := 0.0
+	for _, m := range ms {
+		total += splitCost(int64(float64(w)/(2*math.Log2(float64(m)))) + 2)
+	}
+	mt.begin("series", total) // the three series, their divisions not measured
+	for i, m := range ms {
+		p, err := atanhInvFixed(m, w, mt)
 		if err != nil {
 			return fixedValue{}, err
 		}
@@ -184,6 +195,7 @@ func ln2Fixed(prec uint) (fixedValue, error) {
 	v.Rsh(v, 8)
 	const errUnits = 2
 	pos := extractionPos(prec, 1)
+	mt.begin("value check", 0)
 	F, bound := ln2Extract(pos)
 	check, err := checkExtraction("ln 2", "digit extraction from ln 2 = Σ 1/(k·2^k)", v, errUnits, prec, pos, F, bound)
 	return fixedValue{V: v, Err: errUnits, Check: check}, err
@@ -192,8 +204,9 @@ func ln2Fixed(prec uint) (fixedValue, error) {
 // sqrtFixed: frac(√n), exact: floor(√n·2^prec) = isqrt(n·4^prec), checked
 // by squaring back (checkedRoot).
 func sqrtFixed(n int64) fixedFunc {
-	return func(prec uint) (fixedValue, error) {
+	return func(prec uint, mt *meter) (fixedValue, error) {
 		name := fmt.Sprintf("√%d", n)
+		mt.begin("square root", 0)
 		N := new(big.Int).Lsh(big.NewInt(n), 2*prec)
 		v := isqrt(N)
 		if err := checkRoot(name, v, N); err != nil {
@@ -210,7 +223,8 @@ func rootCheck(n int64) string {
 
 // phiFixed: frac(φ) = (√5 - 1)/2, from the exact floor(√5·2^prec), checked
 // by squaring back.
-func phiFixed(prec uint) (fixedValue, error) {
+func phiFixed(prec uint, mt *meter) (fixedValue, error) {
+	mt.begin("square root", 0)
 	N := new(big.Int).Lsh(big.NewInt(5), 2*prec)
 	v := isqrt(N) // floor(√5 · 2^prec)
 	if err := checkRoot("φ", v, N); err != nil {
@@ -227,8 +241,9 @@ func phiFixed(prec uint) (fixedValue, error) {
 // back, and each denominator modulo a prime, so the sum is exact to one
 // unit a term.
 func stonehamFixed(b, c int64) fixedFunc {
-	return func(prec uint) (fixedValue, error) {
+	return func(prec uint, mt *meter) (fixedValue, error) {
 		name := fmt.Sprintf("α_{%d,%d}", b, c)
+		mt.begin("series", 0)
 		sum := new(big.Int)
 		var terms int64
 		ck := new(big.Int).SetInt64(c) // c^k

@@ -134,12 +134,13 @@ const leafDigits = 4096
 
 // powerCache holds base^(leaf·2^j) and their reciprocals for conversion.
 type powerCache struct {
-	base int64
-	mu   sync.Mutex
-	pows map[int]*big.Int
-	invs map[int]*big.Int
-	prec map[int]uint
-	spec map[[2]int]*spectrum // spectra of powers: (h, transform length)
+	base  int64
+	mu    sync.Mutex
+	pows  map[int]*big.Int
+	invs  map[int]*big.Int
+	prec  map[int]uint
+	spec  map[[2]int]*spectrum // spectra of powers: (h, transform length)
+	meter *meter               // progress of the conversion, by digits written
 }
 
 func newPowerCache(base int) *powerCache {
@@ -231,6 +232,7 @@ func convert(v *big.Int, out []byte, base int, c *powerCache, depth int) {
 	n := len(out)
 	if n <= 2*leafDigits {
 		writeDigits(v, out, base)
+		c.meter.add(float64(n))
 		return
 	}
 	h := leafDigits

@@ -18,7 +18,7 @@ type fixedValue struct {
 
 // A fixedFunc computes a constant at a binary precision and checks it; an
 // error means the check failed and the value must not be used.
-type fixedFunc func(prec uint) (fixedValue, error)
+type fixedFunc func(prec uint, m *meter) (fixedValue, error)
 
 // guardBits are added to the precision a request needs; a result too close
 // to a digit boundary doubles them and tries again.
@@ -36,7 +36,7 @@ func bitsFor(n int, base int) uint {
 // precision. The value itself is checked by f; the digits are then
 // confirmed against the value by checkDigits, so every digit it returns is
 // correct, and a defect in any step is an error instead of a wrong digit.
-func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, error) {
+func digitsFrom(constant string, f fixedFunc, n, base int, m *meter) ([]byte, []string, error) {
 	if n < 0 {
 		return nil, nil, fmt.Errorf("digit count %d is negative", n)
 	}
@@ -46,12 +46,13 @@ func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, er
 	var scale *big.Int
 	for extra := uint(0); extra <= 4096; extra = 2*extra + guardBits {
 		prec := bitsFor(n, base) + extra
-		fv, err := f(prec)
+		fv, err := f(prec, m)
 		if err != nil {
 			return nil, nil, err
 		}
 		v, e := fv.V, fv.Err
-		d, ok := fastDigits(v, e, prec, n, base)
+		m.begin("digits", float64(n))
+		d, ok := fastDigits(v, e, prec, n, base, m)
 		if !ok {
 			if scale == nil {
 				scale = pow(int64(base), n)
@@ -63,8 +64,9 @@ func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, er
 			if lo.Cmp(hi) != 0 {
 				continue
 			}
-			d = toDigits(lo, n, base)
+			d = toDigits(lo, n, base, m)
 		}
+		m.begin("digit check", 0)
 		if err := checkDigits(constant, fv, prec, d, base); err != nil {
 			return nil, nil, err
 		}
@@ -80,7 +82,7 @@ func digitsFrom(constant string, f fixedFunc, n, base int) ([]byte, []string, er
 // 64), so both ends have the same n digits when the bound plus 2e+1 stays
 // below 1. Otherwise (or for powers of two, or a value too close to 0) it
 // reports false and digitsFrom takes the exact integer path.
-func fastDigits(v *big.Int, e int64, prec uint, n, base int) ([]byte, bool) {
+func fastDigits(v *big.Int, e int64, prec uint, n, base int, m *meter) ([]byte, bool) {
 	if base&(base-1) == 0 || prec < fracBits(n, base) || n <= 2*leafDigits {
 		return nil, false
 	}
@@ -90,6 +92,7 @@ func fastDigits(v *big.Int, e int64, prec uint, n, base int) ([]byte, bool) {
 	}
 	d := make([]byte, n)
 	c := newPowerCache(base)
+	c.meter = m
 	c.warm(n)
 	left, ok := fracDigits(V, prec, d, base, c, 0)
 	if !ok || left >= math.MaxUint64-uint64(2*e+1) {
@@ -99,7 +102,7 @@ func fastDigits(v *big.Int, e int64, prec uint, n, base int) ([]byte, bool) {
 }
 
 // toDigits writes v (0 ≤ v < base^n) as exactly n base-b digits.
-func toDigits(v *big.Int, n, base int) []byte {
+func toDigits(v *big.Int, n, base int, m *meter) []byte {
 	d := make([]byte, n)
 	if base == 256 {
 		b := v.Bytes()
@@ -121,7 +124,9 @@ func toDigits(v *big.Int, n, base int) []byte {
 		}
 		return d
 	}
-	convert(v, d, base, newPowerCache(base), 0)
+	c := newPowerCache(base)
+	c.meter = m
+	convert(v, d, base, c, 0)
 	return d
 }
 
@@ -144,22 +149,24 @@ type bsResult struct{ P, Q, B, T *big.Int }
 // transform domain: P_l and Q_r are transformed once for their two uses
 // and T's two products are added before one inverse transform (9
 // transforms where separate products take 12).
-func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool) bsResult {
+func binarySplit(term bsTerm, n1, n2 int64, depth int, needP bool, mt *meter) bsResult {
 	if n2-n1 == 1 {
 		a, b, p, q := term(n1)
+		mt.add(nodeCost(1))
 		return bsResult{P: p, Q: q, B: b, T: new(big.Int).Mul(a, p)}
 	}
+	defer mt.add(nodeCost(n2 - n1))
 	m := (n1 + n2) / 2
 	var l, r bsResult
 	if depth < 2 {
 		var wg sync.WaitGroup
 		wg.Add(1)
-		go func() { defer wg.Done(); l = binarySplit(term, n1, m, depth+1, true) }()
-		r = binarySplit(term, m, n2, depth+1, needP)
+		go func() { defer wg.Done(); l = binarySplit(term, n1, m, depth+1, true, mt) }()
+		r = binarySplit(term, m, n2, depth+1, needP, mt)
 		wg.Wait()
 	} else {
-		l = binarySplit(term, n1, m, depth+1, true)
-		r = binarySplit(term, m, n2, depth+1, needP)
+		l = binarySplit(term, n1, m, depth+1, true, mt)
+		r = binarySplit(term, m, n2, depth+1, needP, mt)
 	}
 	if nttWords && isOne(l.B) && isOne(r.B) && min(len(l.T.Bits()), len(r.T.Bits()), len(l.Q.Bits()), len(r.Q.Bits()), len(l.P.Bits())) >= nttMinWords {
 		return fusedNode(l, r, needP)

@@ -57,6 +57,7 @@ func fracTree(F *big.Int, Q uint, out []byte, base int, c *powerCache, depth int
 		rem := new(big.Int).Sub(y, new(big.Int).Lsh(new(big.Int).Rsh(y, Q), Q))
 		y.Rsh(y, Q)
 		writeDigits(y, out, base)
+		c.meter.add(float64(n))
 		top := fracTop(rem, Q)
 		if last != nil {
 			*last = max(top, 1) - 1

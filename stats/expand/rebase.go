@@ -107,7 +107,7 @@ func rebaseExact(M *big.Int, n, from, to, j int) []byte {
 		hi.Sub(scale, one)
 	}
 	// Both are below to^j; write them with j digits and compare.
-	a, b := toDigits(lo, j, to), toDigits(hi, j, to)
+	a, b := toDigits(lo, j, to, nil), toDigits(hi, j, to, nil)
 	c := 0
 	for c < j && a[c] == b[c] {
 		c++

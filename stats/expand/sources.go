@@ -18,7 +18,19 @@ type Source struct {
 	symbol string                            // the constant's name in messages: "π", "√2", …
 	direct func(n, base int) ([]byte, error) // sequences defined digit by digit
 	base   int                               // a source with a base of its own (iid), else 0
+	meter  Meter                             // progress of a constant's computation, or nil
 }
+
+// WithMeter returns the source reporting the progress of its computations
+// to m (constants only: the other sources are immediate).
+func (s Source) WithMeter(m Meter) Source {
+	s.meter = m
+	return s
+}
+
+// Computed reports whether the source's digits come from a computation of
+// a constant (which WithMeter can follow).
+func (s Source) Computed() bool { return s.fixed != nil }
 
 // Names lists the source names, for messages and help.
 const Names = "pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, stoneham:B,C, rational:P/Q, liouville, iid:p0,p1,..., pcg:SEED, chacha8:SEED, lcg:SEED"
@@ -121,7 +133,7 @@ func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 	var checks []string
 	var err error
 	if s.fixed != nil {
-		d, checks, err = digitsFrom(s.symbol, s.fixed, n+offset, base)
+		d, checks, err = digitsFrom(s.symbol, s.fixed, n+offset, base, newMeter(s.meter))
 	} else {
 		d, err = s.direct(n+offset, base)
 	}

@@ -170,13 +170,13 @@ func TestDirectSources(t *testing.T) {
 // claiming an error of 1 unit.
 func TestDigitBoundaryRetry(t *testing.T) {
 	calls := 0
-	half := func(prec uint) (fixedValue, error) {
+	half := func(prec uint, _ *meter) (fixedValue, error) {
 		calls++
 		return fixedValue{V: new(big.Int).Lsh(big.NewInt(1), prec-1), Err: 1}, nil
 	}
 	// 0.5 in base 10 is 0.5000…: the interval [0.5 - ε, 0.5 + ε] straddles the
 	// boundary between 4999… and 5000…, so no precision can decide it.
-	if _, _, err := digitsFrom("1/2", half, 5, 10); err == nil {
+	if _, _, err := digitsFrom("1/2", half, 5, 10, nil); err == nil {
 		t.Error("an undecidable digit string was printed")
 	}
 	if calls < 3 {
