@@ -23,8 +23,12 @@ import (
 // upper-tail p-values (randomized for discrete statistics, Tocher 1950)
 // must pass a Kolmogorov–Smirnov uniformity test at 0.001 (exact finite-m
 // law, Marsaglia–Tsang–Wang). The count of "not consistent" verdicts at
-// alpha = 0.01 must lie within the central 99.9% binomial interval of
-// Binomial(300, 0.01), and so must the count of "too uniform" verdicts.
+// alpha = 0.01 must not exceed the end of the central 99.9% binomial
+// interval of Binomial(300, 0.01), and nor must the count of "too uniform"
+// verdicts. Only the upper end: Holm holds the family's rate at most alpha,
+// and over a family of dependent and discrete statistics it sits below
+// (7 to 12 in 3000 instead of 30 under BOREL_CALIBRATION=long); a rate
+// below alpha is the conservatism the README states, not a defect.
 //
 // BOREL_CALIBRATION=long runs ten times as many sequences in these tests,
 // the coupon-restart and the fitted-poker ones (about 10 minutes on two
@@ -122,10 +126,10 @@ func checkCalibration(t *testing.T, name string, c calibration) {
 	if tested < 10 {
 		t.Errorf("%s: only %d statistics tested", name, tested)
 	}
-	lo, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
+	_, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
 	for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
-		if k := c.verdicts[v]; k < lo || k > hi {
-			t.Errorf("%s: %d of %d verdicts %q, outside the 99.9%% binomial interval [%d, %d] of rate 0.01", name, k, calibrationRuns, v, lo, hi)
+		if k := c.verdicts[v]; k > hi {
+			t.Errorf("%s: %d of %d verdicts %q, above the 99.9%% binomial interval's end %d for rate 0.01", name, k, calibrationRuns, v, hi)
 		}
 	}
 	t.Logf("%s: %d statistics tested; verdicts %v", name, tested, c.verdicts)
@@ -166,7 +170,7 @@ func TestBinomialInterval(t *testing.T) {
 // occurs made "too uniform" 5.6% of verdicts at n = 30 in base 10 before
 // P(L ≤ 0) = (1 − q)^n was used.
 func TestCalibrationShortInputs(t *testing.T) {
-	lo, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
+	_, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
 	for _, c := range []struct{ base, n int }{{2, 30}, {2, 100}, {2, 1000}, {10, 30}, {10, 100}, {10, 1000},
 		{36, 30}, {36, 100}, {36, 1000}, {256, 200}} {
 		p := make([]float64, c.base)
@@ -197,8 +201,8 @@ func TestCalibrationShortInputs(t *testing.T) {
 			}
 		}
 		for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
-			if k := verdicts[v]; k < lo || k > hi {
-				t.Errorf("base %d, n = %d: %d of %d verdicts %q, outside [%d, %d]", c.base, c.n, k, calibrationRuns, v, lo, hi)
+			if k := verdicts[v]; k > hi {
+				t.Errorf("base %d, n = %d: %d of %d verdicts %q, above %d (the 99.9%% binomial interval's end for rate 0.01)", c.base, c.n, k, calibrationRuns, v, hi)
 			}
 		}
 		// The statistics with exact laws at these lengths (drift's lattice
@@ -459,4 +463,42 @@ func TestCalibrationFittedPoker(t *testing.T) {
 		}
 		t.Logf("p = %v: KS D = %.4f, p = %.3g", p, d, math.Exp(lp))
 	}
+}
+
+// freq with a digit that expects about one occurrence: (1e-4, 0.4999,
+// 0.5) at 10^4 digits. Pearson's X² over the three digits is far from its
+// χ² law there (the rare cell alone gives X² = 9 for 4 occurrences); the
+// digits are pooled until every class expects 5. 2000 seeded sequences:
+// the X² p upper must pass KS at 0.001 (with the unpooled cells, the code
+// before, KS p was 6·10^-44 on these sequences).
+func TestCalibrationSparseFrequencies(t *testing.T) {
+	p := []float64{1e-4, 0.4999, 0.5}
+	opts := audit.DefaultOptions()
+	opts.Null = audit.NullSpec{Kind: checks.Vector, P: p}
+	opts.Checks = []string{"freq"}
+	runs := calibrationScale(2000)
+	var up []float64
+	for i := range runs {
+		var key [32]byte
+		key[0], key[1], key[2] = 'r', byte(i), byte(i>>8)
+		d := expand.IID(10_000, p, rand.New(rand.NewChaCha8(key)))
+		r, err := audit.Digits(d, 3, audit.Source{Name: "calibration", Kind: "built-in", Bytes: -1}, opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range r.Findings {
+			if f.Label() == "freq X2 k=1" {
+				up = append(up, math.Exp(f.LogPUpper))
+			}
+		}
+	}
+	if len(up) != runs {
+		t.Fatalf("freq X² in %d of %d sequences", len(up), runs)
+	}
+	d := stats.KSStatistic(up)
+	lp, _ := stats.KSLogTails(len(up), d)
+	if math.Exp(lp) < 0.001 {
+		t.Errorf("sparse freq X² p-values not uniform: KS D = %.4f, p = %.2g", d, math.Exp(lp))
+	}
+	t.Logf("KS D = %.4f, p = %.3g over %d sequences", d, math.Exp(lp), len(up))
 }

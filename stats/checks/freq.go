@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"borel/stats"
 )
@@ -21,8 +22,10 @@ import (
 // the exact integers b·N_j - n. Order is ignored: a sorted sequence passes;
 // the block and serial checks see order. Under a fitted null the frequencies
 // are the estimate, so there is nothing to test. Validity: every E_j ≥ 5
-// (rule of thumb); below it X² is kept with a note and G is skipped
-// (Koehler & Larntz, JASA 75 (1980) 336–344). X² is discrete: when its
+// (rule of thumb; Koehler & Larntz, JASA 75 (1980) 336–344); below it the
+// digits are pooled with their neighbours into classes that expect 5 or
+// more, X² and G (without Williams' factor) have pooled classes − 1 df,
+// and a note says how many digits test every digit. X² is discrete: when its
 // count vectors number at most stats.MaxExactOutcomes (short sequences in
 // few digits, such as segments of bits or base-3 digits), its p-values come
 // from the exact multinomial law instead of the chi-square limit, and the
@@ -49,32 +52,63 @@ func (freqCheck) Run(in Input, out *Result) {
 	}
 	t := in.Tally
 	n := float64(t.N)
+	counts, exps := t.DigitCounts(), make([]float64, len(in.Null.P))
+	for j, p := range in.Null.P {
+		exps[j] = n * p
+	}
 	cs := newCellStat()
-	for j, c := range t.DigitCounts() {
-		cs.add(c, n*in.Null.P[j])
+	for j, c := range counts {
+		cs.add(c, exps[j])
 	}
 	if in.Null.IsUniform() {
-		cs.x2 = uniformX2(t.DigitCounts(), t.N)
+		cs.x2 = uniformX2(counts, t.N)
 	}
 	df := float64(in.Null.Symbols() - 1)
-	x2 := chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp)
 	sparse := cs.minExp < in.Opts.MinExpected
-	if sparse {
-		x2.Notes = append(x2.Notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square approximation is rough; a sequence of %d digits or more makes it valid",
-			cs.minExp, in.Opts.MinExpected, digitsNeeded(in.Opts.MinExpected, in.Null.MinProb())))
-	}
 	if law, ok := stats.MultinomialX2Law(t.N, in.Null.P); ok {
+		x2 := chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp)
 		x2.setDiscrete(law.LogTails(cs.x2))
 		x2.Detail = fmt.Sprintf("p-values from the exact multinomial law of X² (%d count vectors)", law.Outcomes())
+		out.Findings = append(out.Findings, x2)
 		if sparse {
-			x2.Notes = nil // the exact law needs no rule of thumb
+			out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
+				Reason: "G-test not reported: expected counts below 5 make its chi-square law unreliable (Pearson's X² is exact here)"})
+			return
 		}
-	}
-	out.Findings = append(out.Findings, x2)
-	if sparse {
-		out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
-			Reason: "G-test not reported: expected counts below 5 make its chi-square law unreliable (Pearson's X² is kept)"})
+	} else if sparse {
+		// Digits of small expected count are pooled with their neighbours
+		// (in digit order) until every class expects 5: the chi-square law
+		// holds for the pooled classes, not for a cell expecting 1.
+		var nonzero []int64
+		var nzExp []float64
+		for j, e := range exps {
+			if e > 0 {
+				nonzero, nzExp = append(nonzero, counts[j]), append(nzExp, e)
+			}
+		}
+		po, pe := poolClasses(nonzero, nzExp, in.Opts.MinExpected)
+		need := digitsNeeded(in.Opts.MinExpected, in.Null.MinProb())
+		if len(po) < 2 {
+			out.Skips = append(out.Skips, Skip{Check: "freq", Params: params,
+				Reason: fmt.Sprintf("%d digits leave fewer than 2 classes of expected count %g even pooled; needs about %d digits",
+					t.N, in.Opts.MinExpected, int64(math.Ceil(2*in.Opts.MinExpected/(1-slices.Max(in.Null.P)))))})
+			return
+		}
+		pcs := newCellStat()
+		for i := range po {
+			pcs.add(po[i], pe[i])
+		}
+		pdf := float64(len(po) - 1)
+		note := fmt.Sprintf("digits pooled into %d classes of expected count %g or more (the smallest digit expects %.3g); %d digits test every digit", len(po), in.Opts.MinExpected, cs.minExp, need)
+		x2 := chiSquareFinding("freq", "X2", params, pcs.x2, pdf, pcs.minExp)
+		x2.Notes = append(x2.Notes, note)
+		g := chiSquareFinding("freq", "G", params, pcs.g, pdf, pcs.minExp)
+		g.Notes = append(g.Notes, note)
+		g.Detail = "pooled classes; no Williams correction"
+		out.Findings = append(out.Findings, x2, g)
 		return
+	} else {
+		out.Findings = append(out.Findings, chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp))
 	}
 	invSum := 0.0
 	for _, p := range in.Null.P {
