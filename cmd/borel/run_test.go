@@ -8,6 +8,8 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -207,12 +209,35 @@ func TestHelpExamplesRun(t *testing.T) {
 	}
 	tmp := t.TempDir()
 	os.WriteFile(filepath.Join(tmp, "lab.txt"), bytes.Repeat([]byte("0120210122"), 300), 0o644)
+	claim := regexp.MustCompile(`(?:^Example: |\()(\d[\d ]*\d|\d) (?:[a-z]+ )?digits`)
+	checked := 0
 	for _, c := range subcommands() {
 		_, help, _ := borel(t, "", c.name, "--help")
-		for _, line := range strings.Split(help, "\n") {
+		lines := strings.Split(help, "\n")
+		for li, line := range lines {
 			line = strings.TrimSpace(line)
 			if !strings.HasPrefix(line, "$ borel ") {
 				continue
+			}
+			// What the text claims: a digit count in the description
+			// ("Example: 1000 digits of …", "(2 095 902 ternary digits)"),
+			// and the output lines it shows under the command.
+			wantCount := -1
+			for j := li - 1; j >= 0 && strings.TrimSpace(lines[j]) != ""; j-- {
+				if m := claim.FindStringSubmatch(strings.TrimSpace(lines[j])); m != nil && strings.HasSuffix(strings.TrimSpace(lines[j]), ":") {
+					wantCount, _ = strconv.Atoi(strings.ReplaceAll(m[1], " ", ""))
+					break
+				}
+			}
+			var shown []string
+			for _, l := range lines[li+1:] {
+				l = strings.TrimSpace(l)
+				if l == "" || strings.HasPrefix(l, "$ ") {
+					break
+				}
+				if l != "..." && !strings.HasPrefix(l, "borel ") {
+					shown = append(shown, l)
+				}
 			}
 			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
 			for i, a := range args { // examples name files in the working folder
@@ -223,10 +248,39 @@ func TestHelpExamplesRun(t *testing.T) {
 					args[i] = filepath.Join(tmp, "part0.shard")
 				}
 			}
-			if code, _, errs := borel(t, "", args...); code != 0 {
+			code, out, errs := borel(t, "", args...)
+			if code != 0 {
 				t.Errorf("example %q: exit %d: %s", line, code, errs)
+				continue
+			}
+			for _, l := range shown {
+				checked++
+				l = strings.TrimSpace(strings.TrimSuffix(l, "...")) // a line shown in part
+				if !strings.Contains(out, l) {
+					t.Errorf("example %q: the help shows %q, the output does not have it", line, l)
+				}
+			}
+			if wantCount >= 0 {
+				checked++
+				digits := out
+				if i := strings.IndexByte(digits, '.'); i >= 0 {
+					digits = digits[i+1:] // the integer part is not counted
+				}
+				n := 0
+				for _, r := range digits {
+					if r >= '0' && r <= '9' || r >= 'a' && r <= 'z' {
+						n++
+					}
+				}
+				if n != wantCount {
+					t.Errorf("example %q: the help says %d digits, the output has %d", line, wantCount, n)
+				}
 			}
 		}
+	}
+	t.Logf("%d claims checked", checked)
+	if checked < 3 {
+		t.Errorf("only %d claims of the help examples checked", checked)
 	}
 }
 
