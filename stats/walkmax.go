@@ -8,9 +8,36 @@ import (
 )
 
 // WalkMaxCost is the largest number of cell updates WalkMaxLogTails spends
-// (n steps × window width × digits): beyond it the caller uses the
-// Brownian limit.
+// (n steps × window width × digits, or × 4 when the digits are equally
+// likely: see walkMaxCost): beyond it the caller uses the Brownian limit.
 const WalkMaxCost = 1e7
+
+// walkMaxCost is the work of the dynamic program in cell updates: each step
+// convolves about 2e+b cells with the digit law, b products a cell, or,
+// when every digit has the same probability (and b > 4), a box sum read
+// from prefix and suffix sums, about 4 operations a cell whatever b is (raw
+// bytes: 64 times cheaper, so 200 bytes take the exact law instead of the
+// limit).
+func walkMaxCost(n int64, p []float64, e float64) float64 {
+	if useBox(p) {
+		return float64(n) * (2*e + 2 + float64(len(p))) * 4
+	}
+	return float64(n) * (2*e + 2) * float64(len(p))
+}
+
+// useBox reports whether the program takes box sums: equal probabilities
+// in a base above 4 (in bases 2 to 4 the direct convolution is cheaper).
+func useBox(p []float64) bool { return len(p) > 4 && equalProbs(p) && !walkBoxOff }
+
+// equalProbs reports whether every digit has the same positive probability.
+func equalProbs(p []float64) bool {
+	for _, v := range p {
+		if v <= 0 || v != p[0] {
+			return false
+		}
+	}
+	return len(p) > 0
+}
 
 // WalkMaxLogTails returns the exact ln P(M ≥ e) and ln P(M ≤ e) for the
 // maximal excursion M = max_{0≤k≤n} |T_k − kμ| of the digit-sum walk
@@ -30,8 +57,7 @@ const WalkMaxCost = 1e7
 // the program is the standard one for first-passage probabilities of a
 // lattice walk (Feller, vol. 1, ch. XIV).
 func WalkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64, ok bool) {
-	b := len(p)
-	if float64(n)*(2*e+2)*float64(b) > WalkMaxCost || n < 1 {
+	if walkMaxCost(n, p, e) > WalkMaxCost || n < 1 {
 		return 0, 0, false
 	}
 	var kb strings.Builder
@@ -94,6 +120,8 @@ func walkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64) {
 		}
 		return int64(math.Ceil(c - e - tol)), int64(math.Floor(c + e + tol))
 	}
+	box := useBox(p)
+	sums := &boxSums{}
 	run := func(strict bool) (logStay, logExit float64) {
 		lo0, hi0 := bounds(0, strict)
 		logExit = math.Inf(-1)
@@ -116,13 +144,17 @@ func walkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64) {
 				full = full[:need]
 				clear(full)
 			}
-			for j, pj := range p {
-				if pj == 0 {
-					continue
-				}
-				dst := full[j : j+len(cur)]
-				for i, m := range cur {
-					dst[i] += m * pj
+			if box {
+				boxConvolve(full, cur, b, p[0], sums)
+			} else {
+				for j, pj := range p {
+					if pj == 0 {
+						continue
+					}
+					dst := full[j : j+len(cur)]
+					for i, m := range cur {
+						dst[i] += m * pj
+					}
 				}
 			}
 			exit, kept := 0.0, 0.0
@@ -153,6 +185,43 @@ func walkMaxLogTails(n int64, p []float64, e float64) (upper, lower float64) {
 	stay, _ := run(false)
 	_, exit := run(true)
 	return math.Min(0, exit), math.Min(0, stay)
+}
+
+// walkBoxOff, set by tests only, makes equal probabilities take the general
+// convolution: the reference the box sums are checked against.
+var walkBoxOff bool
+
+// boxSums holds the prefix and suffix sums boxConvolve reuses.
+type boxSums struct{ pre, suf []float64 }
+
+// boxConvolve writes into full (len(cur)+b−1 cells) the convolution of cur
+// with b equal weights w: full[i] = w Σ_{t=i−b+1}^{i} cur[t]. Each box sum
+// is a difference of prefix sums in the lower half and of suffix sums in
+// the upper half, so the small values near either edge of the window — the
+// mass that exits, which makes the upper tail — are differences of small
+// partial sums, not of two numbers near 1.
+func boxConvolve(full, cur []float64, b int, w float64, s *boxSums) {
+	L := len(cur)
+	if cap(s.pre) < L+1 {
+		s.pre, s.suf = make([]float64, L+1), make([]float64, L+1)
+	}
+	pre, suf := s.pre[:L+1], s.suf[:L+1]
+	pre[0], suf[L] = 0, 0
+	for i, v := range cur {
+		pre[i+1] = pre[i] + v
+	}
+	for i := L - 1; i >= 0; i-- {
+		suf[i] = suf[i+1] + cur[i]
+	}
+	half := len(full) / 2
+	for i := range full {
+		a, c := max(0, i-b+1), min(i, L-1)+1 // the box is cur[a:c]
+		if i < half {
+			full[i] = w * (pre[c] - pre[a])
+		} else {
+			full[i] = w * (suf[a] - suf[c])
+		}
+	}
 }
 
 func logAddExp(a, b float64) float64 {

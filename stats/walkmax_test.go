@@ -86,3 +86,29 @@ func TestWalkMaxTails(t *testing.T) {
 		t.Errorf("n = 20000: P(M ≥ √n/2) = %v, Brownian %v", math.Exp(up), lim)
 	}
 }
+
+// Equal digit probabilities take box sums instead of the b-term
+// convolution: both tails agree with the general program to 1e-10 in ln p,
+// into the far tails (ln p near −60), for bits, decimals and bytes.
+func TestWalkMaxBoxSums(t *testing.T) {
+	for _, c := range []struct {
+		n int64
+		b int
+	}{{300, 2}, {200, 10}, {60, 256}, {150, 36}} {
+		p := make([]float64, c.b)
+		for i := range p {
+			p[i] = 1 / float64(c.b)
+		}
+		sigma := math.Sqrt(float64(c.b*c.b-1) / 12)
+		for _, m := range []float64{0.3, 0.8, 1.5, 3, 5} {
+			e := math.Round(m * sigma * math.Sqrt(float64(c.n)))
+			walkBoxOff = true
+			wantUp, wantLo := walkMaxLogTails(c.n, p, e)
+			walkBoxOff = false
+			up, lo := walkMaxLogTails(c.n, p, e)
+			if math.Abs(up-wantUp) > 1e-10*math.Max(1, -wantUp) || math.Abs(lo-wantLo) > 1e-10*math.Max(1, -wantLo) {
+				t.Errorf("n %d, base %d, e %g: box sums give ln p %.12g %.12g, the convolution %.12g %.12g", c.n, c.b, e, up, lo, wantUp, wantLo)
+			}
+		}
+	}
+}
