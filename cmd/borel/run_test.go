@@ -311,7 +311,31 @@ func TestManualExamplesRun(t *testing.T) {
 			cmdline, stdin = cmdline[:i], string(bin)
 		}
 		args := strings.Fields(strings.TrimPrefix(cmdline, "$ borel "))
-		code, _, errs := borel(t, stdin, args...)
+		code, out, errs := borel(t, stdin, args...)
+		// What the manual's words claim of each kind of example.
+		switch {
+		case args[0] == "digits":
+			n := 0
+			for _, r := range out {
+				if r >= '0' && r <= '9' {
+					n++
+				}
+			}
+			for k, a := range args {
+				if a == "--count" && k+1 < len(args) && strconv.Itoa(n) != args[k+1] {
+					t.Errorf("manual example %q: %d digits written, --count says %s", line, n, args[k+1])
+				}
+			}
+		case args[0] == "dimension" && args[1] == "0.5,0,0.5":
+			// The middle-thirds Cantor set: ln 2 / ln 3 = 0.6309297536 (textbook).
+			if !strings.Contains(out, "dim F(p) = 0.630930 in base 3") {
+				t.Errorf("manual example %q: %q, want dimension 0.630930 (ln 2/ln 3)", line, out)
+			}
+		case args[0] == "audit" && !strings.Contains(line, "json"):
+			if !strings.Contains(out, "Verdict for ") {
+				t.Errorf("manual example %q: no verdict in the output", line)
+			}
+		}
 		want := 0
 		if strings.Contains(line, "--strict") {
 			want = code // the verdict decides; only a usage or read error fails here
