@@ -3,6 +3,7 @@ package tests
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -164,5 +165,58 @@ func TestTallyWorkersAndQuiet(t *testing.T) {
 	if code, _, errs := runBorel(t, digits[:1000], "tally", "-", "--offset", "0", "--max-block", "2", "--workers", "0", "-o", name); code != 2 ||
 		!strings.Contains(string(errs), "--workers 0: give 1 or more") {
 		t.Errorf("--workers 0: exit %d, stderr %q", code, errs)
+	}
+}
+
+// Merges in a tree: groups of shards merged into shards (--shard), the
+// groups merged into the report, give the same report as one flat merge
+// and as one audit of the whole; the group of a later stretch starts
+// where its first shard does. Options that make a report are refused with
+// --shard, and a shard named as its own output is refused.
+func TestMergeTree(t *testing.T) {
+	dir := t.TempDir()
+	digits := make([]byte, 60_000)
+	x := uint64(7)
+	for i := range digits {
+		x = x*6364136223846793005 + 1442695040888963407
+		digits[i] = '0' + byte((x>>33)%10)
+	}
+	var parts []string
+	for i := 0; i < 6; i++ {
+		p := filepath.Join(dir, fmt.Sprintf("p%d.shard", i))
+		if code, _, errs := runBorel(t, digits[i*10_000:(i+1)*10_000], "tally", "-", "--offset", fmt.Sprint(i*10_000), "--max-block", "3", "-q", "-o", p); code != 0 {
+			t.Fatalf("tally %d: exit %d %s", i, code, errs)
+		}
+		parts = append(parts, p)
+	}
+	g0, g1 := filepath.Join(dir, "g0.shard"), filepath.Join(dir, "g1.shard")
+	if code, _, errs := runBorel(t, nil, append([]string{"merge", "-q", "--shard", g1}, parts[3:]...)...); code != 0 {
+		t.Fatalf("group 1: exit %d %s", code, errs)
+	}
+	if code, _, errs := runBorel(t, nil, append([]string{"merge", "-q", "--shard", g0}, parts[2], parts[0], parts[1])...); code != 0 {
+		t.Fatalf("group 0: exit %d %s", code, errs)
+	}
+	body := func(b []byte) string { // the findings table (the names differ)
+		s := string(b)
+		i, j := strings.Index(s, "┌"), strings.Index(s, "┘")
+		if i < 0 || j < i {
+			return s
+		}
+		return s[i:j]
+	}
+	_, tree, _ := runBorel(t, nil, "merge", g1, g0)
+	_, flat, _ := runBorel(t, nil, append([]string{"merge"}, parts...)...)
+	_, whole, _ := runBorel(t, digits, "audit", "-", "--max-block", "3")
+	if body(tree) != body(flat) || body(flat) != body(whole) {
+		t.Errorf("tree, flat and whole differ:\n%s\n---\n%s\n---\n%s", body(tree), body(flat), body(whole))
+	}
+	if code, _, errs := runBorel(t, nil, "merge", parts[1], "--shard", parts[1]); code != 2 || !strings.Contains(string(errs), "is one of the shards merged") {
+		t.Errorf("own output: exit %d %s", code, errs)
+	}
+	if code, _, errs := runBorel(t, nil, "merge", parts[1], "--shard", filepath.Join(dir, "x.shard"), "--format", "json"); code != 2 || !strings.Contains(string(errs), "--shard writes a shard, not a report") {
+		t.Errorf("report option with --shard: exit %d %s", code, errs)
+	}
+	if code, _, errs := runBorel(t, nil, "merge", parts[1], parts[2]); code != 1 || !strings.Contains(string(errs), "no shard starts at digit 0") {
+		t.Errorf("later stretch without --shard: exit %d %s", code, errs)
 	}
 }

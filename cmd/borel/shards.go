@@ -125,11 +125,16 @@ func runTally(e env, args []string) (int, error) {
 }
 
 const mergeHelp = `Usage: borel merge SHARD... [--alpha A] [--adjust holm|bh] [--strict] [REPORT OPTIONS]
+       borel merge SHARD... --shard FILE
 
 Joins the shards written by borel tally, in offset order whatever the order given, into the
 tally of the whole sequence, and audits it: the findings are the same, bit for bit, as one
 borel audit of the whole input with the same --max-block. A missing or overlapping stretch, or
-shards of different bases, block lengths or nulls, are errors.
+shards of different bases, block lengths or nulls, are errors, found from the shards' headers
+before any table is read. The shards are then read and added one at a time, so the memory is
+that of two tallies however many shards there are. With --shard FILE the merged stretch (which
+need not start at digit 0) is written as one shard instead of a report: merges in a tree, a
+group of shards per job, then one merge of the groups.
 
 Example: one shard merged (with more, list them all):
   $ borel merge /tmp/borel-part0.shard
@@ -141,6 +146,7 @@ func runMerge(e env, args []string) (int, error) {
 	af.register(fs, flAlpha|flAdjust|flStrict, map[string]string{"adjust": "multiple-testing adjustment: holm or bh"})
 	var out output
 	out.register(fs)
+	into := fs.String("shard", "", "write the merged stretch as one shard FILE instead of a report (merges in a tree)")
 	if done, err := parseFlags(fs, args, mergeHelp, e.stdout); done || err != nil {
 		return exitOK, err
 	}
@@ -151,12 +157,26 @@ func runMerge(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	if err := out.check(""); err != nil {
+	if *into != "" {
+		if out.path != "" || out.plots != "" || out.appendTo != "" || fs.Changed("format") || af.strict {
+			return 0, usagef("--shard writes a shard, not a report: -o, --format, --plots, --append and --strict belong to the final merge")
+		}
+		for _, name := range fs.Args() {
+			if sameFile(name, *into) {
+				return 0, usagef("--shard %s is one of the shards merged; choose another name", *into)
+			}
+		}
+		if err := checkWritable(*into, "--shard"); err != nil {
+			return 0, err
+		}
+	} else if err := out.check(""); err != nil {
 		return 0, err
 	}
+	// First the headers only: order the shards and check that they fit
+	// together before any table is read.
 	type named struct {
 		name string
-		s    *tally.Shard
+		info *tally.ShardInfo
 	}
 	var shards []named
 	for _, name := range fs.Args() {
@@ -164,54 +184,90 @@ func runMerge(e env, args []string) (int, error) {
 		if err != nil {
 			return 0, fmt.Errorf("cannot open %s: %v", name, unwrapPathError(err))
 		}
-		s, err := tally.ReadShard(f, name)
+		info, err := tally.ReadShardInfo(f, name)
 		f.Close()
 		if err != nil {
 			return 0, err
 		}
-		shards = append(shards, named{name, s})
+		shards = append(shards, named{name, info})
 	}
-	sort.SliceStable(shards, func(i, j int) bool { return shards[i].s.Tally.Offset < shards[j].s.Tally.Offset })
+	sort.SliceStable(shards, func(i, j int) bool { return shards[i].info.Offset < shards[j].info.Offset })
 	first := shards[0]
-	if first.s.Tally.Offset != 0 {
-		return 0, fmt.Errorf("no shard starts at digit 0 (the first begins at %d in %s): a shard is missing", first.s.Tally.Offset, first.name)
+	if first.info.Offset != 0 && *into == "" {
+		return 0, fmt.Errorf("no shard starts at digit 0 (the first begins at %d in %s): a shard is missing (to merge a later stretch into one shard, use --shard FILE)", first.info.Offset, first.name)
 	}
-	describe := func(s *tally.Shard) string {
-		return fmt.Sprintf("base %d, block length %d, %s null", s.Tally.Base, s.Tally.MaxBlock, s.Null.Kind)
+	describe := func(s *tally.ShardInfo) string {
+		return fmt.Sprintf("base %d, block length %d, %s null", s.Spec.Base, s.Spec.MaxBlock, s.Null.Kind)
 	}
-	merged := first.s.Tally
-	for _, n := range shards[1:] {
-		t := n.s.Tally
-		if describe(n.s) != describe(first.s) || fmt.Sprint(n.s.Null.P) != fmt.Sprint(first.s.Null.P) {
+	end := first.info.Offset
+	var size int64
+	for _, n := range shards {
+		if describe(n.info) != describe(first.info) || fmt.Sprint(n.info.Null.P) != fmt.Sprint(first.info.Null.P) {
 			return 0, fmt.Errorf("%s was tallied with %s, but %s with %s: tally every shard with the same --base, --max-block and --null",
-				n.name, describe(n.s), first.name, describe(first.s))
+				n.name, describe(n.info), first.name, describe(first.info))
 		}
-		end := merged.Offset + merged.N
 		switch {
-		case t.Offset > end:
-			return 0, fmt.Errorf("digits %d to %d are in no shard (before %s): a shard is missing", end, t.Offset-1, n.name)
-		case t.Offset < end:
-			return 0, fmt.Errorf("%s overlaps the shards before it: digits %d to %d are tallied twice", n.name, t.Offset, min(end, t.Offset+t.N)-1)
+		case n.info.Offset > end:
+			return 0, fmt.Errorf("digits %d to %d are in no shard (before %s): a shard is missing", end, n.info.Offset-1, n.name)
+		case n.info.Offset < end:
+			return 0, fmt.Errorf("%s overlaps the shards before it: digits %d to %d are tallied twice", n.name, n.info.Offset, min(end, n.info.Offset+n.info.Length)-1)
 		}
-		if merged, err = tally.Merge(merged, t); err != nil {
+		end = n.info.Offset + n.info.Length
+		size += n.info.Source.Bytes
+	}
+	// Then the fold, one shard at a time: the merged tally and the shard
+	// being read are all that is held, whatever the number of shards.
+	var merged *tally.Tally
+	for _, n := range shards {
+		f, err := os.Open(n.name)
+		if err != nil {
+			return 0, fmt.Errorf("cannot open %s: %v", n.name, unwrapPathError(err))
+		}
+		s, err := tally.ReadShard(f, n.name)
+		f.Close()
+		if err != nil {
+			return 0, err
+		}
+		if s.Tally.Offset != n.info.Offset || s.Tally.N != n.info.Length {
+			return 0, fmt.Errorf("%s changed while it was being merged; merge again", n.name)
+		}
+		if merged == nil {
+			merged = s.Tally
+			continue
+		}
+		if err := merged.Append(s.Tally); err != nil {
 			return 0, err
 		}
 	}
-	switch first.s.Null.Kind {
+	var names []string
+	for _, n := range shards {
+		names = append(names, n.name)
+	}
+	if *into != "" {
+		sh := &tally.Shard{Writer: "borel " + version, Null: first.info.Null,
+			Source: tally.ShardInput{Name: "merge of " + strings.Join(names, ", "), Bytes: size},
+			Tally:  merged}
+		var buf bytes.Buffer
+		if err := tally.WriteShard(&buf, sh); err != nil {
+			return 0, err
+		}
+		if err := writeAtomic(*into, buf.Bytes()); err != nil {
+			return 0, err
+		}
+		if !out.quiet {
+			fmt.Fprintf(e.stderr, "borel: %s merged into %s (digits %d to %d)\n", plural(len(shards), "shard"), *into, merged.Offset, merged.Offset+merged.N-1)
+		}
+		return exitOK, nil
+	}
+	switch first.info.Null.Kind {
 	case "vector":
-		opts.Null = audit.NullSpec{Kind: checks.Vector, P: first.s.Null.P}
+		opts.Null = audit.NullSpec{Kind: checks.Vector, P: first.info.Null.P}
 	case "fitted":
 		opts.Null = audit.NullSpec{Kind: checks.Fitted}
 	}
 	plan, err := audit.PlanForSpec(merged.Spec, opts)
 	if err != nil {
 		return 0, usageError{err.Error()}
-	}
-	var names []string
-	var size int64
-	for _, n := range shards {
-		names = append(names, n.name)
-		size += n.s.Source.Bytes
 	}
 	src := audit.Source{Name: plural(len(shards), "shard"), Kind: "shards", Format: "tally", Bytes: -1,
 		Parameters: "merged in offset order: " + strings.Join(names, ", ")}

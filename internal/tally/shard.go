@@ -110,11 +110,9 @@ func WriteShard(w io.Writer, s *Shard) error {
 	return err
 }
 
-// ReadShard reads a shard, checking its version, length and checksum, and
-// that the tally inside is well formed, record by record. name is used in
-// errors.
-func ReadShard(r io.Reader, name string) (*Shard, error) {
-	br := bufio.NewReader(r)
+// readShardLine reads and checks a shard's first line, returning its four
+// fields (format name, version, checksum, payload length).
+func readShardLine(br *bufio.Reader, name string) ([]string, error) {
 	line, err := br.ReadString('\n')
 	if err != nil {
 		return nil, fmt.Errorf("%s: not a borel shard (no header line)", name)
@@ -137,11 +135,55 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	case version < 1:
 		return nil, fmt.Errorf("%s: unknown shard format %d", name, version)
 	}
+	return fields, nil
+}
+
+// ShardInfo is what a shard's header says: enough to order shards and
+// check that they fit together before any of their tables is read.
+type ShardInfo struct {
+	Writer         string
+	Null           ShardNull
+	Source         ShardInput
+	Spec           Spec
+	Offset, Length int64
+}
+
+// ReadShardInfo reads a shard's header line and the header inside its
+// payload (decompressing only that far). It checks the format, not the
+// checksum or the records: ReadShard does, when the shard is read whole.
+func ReadShardInfo(r io.Reader, name string) (*ShardInfo, error) {
+	br := bufio.NewReader(r)
+	if _, err := readShardLine(br, name); err != nil {
+		return nil, err
+	}
+	zr, err := gzip.NewReader(br)
+	if err != nil {
+		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
+	}
+	var h shardHeader
+	if err := json.NewDecoder(zr).Decode(&h); err != nil {
+		return nil, fmt.Errorf("%s: shard header cannot be read: %v", name, err)
+	}
+	if h.Format != "borel-tally" || h.Version != ShardVersion {
+		return nil, fmt.Errorf("%s: shard payload holds no tally of format %d", name, ShardVersion)
+	}
+	return &ShardInfo{Writer: h.Writer, Null: h.Null, Source: h.Source, Spec: h.Spec, Offset: h.Offset, Length: h.Length}, nil
+}
+
+// ReadShard reads a shard, checking its version, length and checksum, and
+// that the tally inside is well formed, record by record. name is used in
+// errors.
+func ReadShard(r io.Reader, name string) (*Shard, error) {
+	br := bufio.NewReader(r)
+	fields, err := readShardLine(br, name)
+	if err != nil {
+		return nil, err
+	}
 	wantSum, ok1 := strings.CutPrefix(fields[2], "sha256:")
 	nstr, ok2 := strings.CutPrefix(fields[3], "bytes:")
 	n, err := strconv.ParseInt(nstr, 10, 64)
 	if !ok1 || !ok2 || err != nil || n < 0 || n > 1<<40 {
-		return nil, fmt.Errorf("%s: shard header is damaged (%q)", name, strings.TrimSpace(line))
+		return nil, fmt.Errorf("%s: shard header is damaged (%q)", name, strings.Join(fields, " "))
 	}
 	// Read what is there (never allocate what a damaged header claims).
 	payload, err := io.ReadAll(io.LimitReader(br, n))

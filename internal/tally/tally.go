@@ -230,27 +230,56 @@ func Merge(a, b *Tally) (*Tally, error) {
 	if a.finished || b.finished {
 		panic("tally: Merge of a finished tally (after CyclicInPlace)")
 	}
+	if err := mergeable(a, b); err != nil {
+		return nil, err
+	}
+	t := a.Clone()
+	if err := t.Append(b); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+// mergeable says why a‖b cannot be merged, or nil.
+func mergeable(a, b *Tally) error {
 	if !a.Spec.Equal(b.Spec) {
-		return nil, fmt.Errorf("tally: cannot merge tallies of different specs (base %d, K %d vs base %d, K %d)",
+		return fmt.Errorf("tally: cannot merge tallies of different specs (base %d, K %d vs base %d, K %d)",
 			a.Base, a.MaxBlock, b.Base, b.MaxBlock)
 	}
 	if a.Offset+a.N != b.Offset {
-		return nil, fmt.Errorf("tally: stretches are not consecutive: the first ends at digit %d, the second starts at %d",
+		return fmt.Errorf("tally: stretches are not consecutive: the first ends at digit %d, the second starts at %d",
 			a.Offset+a.N, b.Offset)
 	}
+	return nil
+}
+
+// Append makes t the tally of t‖b in place (Merge without the copy of t):
+// a fold over many shards then holds one tally and the one being added,
+// whatever their number. b is not changed.
+func (t *Tally) Append(b *Tally) error {
+	if t.finished || b.finished {
+		panic("tally: Append of a finished tally (after CyclicInPlace)")
+	}
+	if err := mergeable(t, b); err != nil {
+		return err
+	}
 	b.settle()
-	t := a.Clone()
+	t.settle()
 	if b.N == 0 {
-		return t, nil
+		return nil
 	}
-	if a.N == 0 {
+	if t.N == 0 {
 		u := b.Clone()
-		u.Offset = a.Offset
-		return u, nil
+		t.Spec, t.N, t.Head, t.Tail, t.recs, t.settled = u.Spec, u.N, u.Head, u.Tail, u.recs, true
+		t.bind()
+		return nil
 	}
-	x := append(slices.Clone(a.Tail), b.Head...)
-	cut := len(a.Tail)
-	sm := &seam{a: a, b: b, x: x, xs: b.Offset - int64(cut), cut: cut}
+	x := append(slices.Clone(t.Tail), b.Head...)
+	cut := len(t.Tail)
+	// The seam's left side as it was: the records' merges read its length,
+	// ends and base while t's own records change.
+	left := &Tally{Spec: t.Spec, Offset: t.Offset, N: t.N, Head: t.Head, Tail: t.Tail, settled: true}
+	sm := &seam{a: left, b: b, x: x, xs: b.Offset - int64(cut), cut: cut}
 	for i, r := range t.recs {
 		r.merge(b.recs[i], sm)
 	}
@@ -258,10 +287,11 @@ func Merge(a, b *Tally) (*Tally, error) {
 	if len(t.Head) < keep {
 		t.Head = append(t.Head, b.Head[:min(len(b.Head), keep-len(t.Head))]...)
 	}
-	tail := append(slices.Clone(a.Tail), b.Tail...)
+	tail := append(slices.Clone(t.Tail), b.Tail...)
 	t.Tail = slices.Clone(tail[max(0, len(tail)-keep):])
 	t.N += b.N
-	return t, nil
+	t.settled = false
+	return nil
 }
 
 func addInto(dst, src []int64) {

@@ -75,6 +75,29 @@ func TestMergeEqualsWhole(t *testing.T) {
 		if tree := mergeTree(t, parts); !same(tree, whole) {
 			t.Fatalf("trial %d: tree merge differs from the whole", trial)
 		}
+		// The in-place fold (Append) gives the same, from either end of
+		// the cuts: a later stretch folds too (a tree's inner merge).
+		acc := parts[0].Clone()
+		for _, p := range parts[1:] {
+			if err := acc.Append(p); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if !same(acc, whole) {
+			t.Fatalf("trial %d: in-place fold differs from the whole", trial)
+		}
+		if len(parts) > 2 {
+			inner := parts[1].Clone()
+			for _, p := range parts[2:] {
+				if err := inner.Append(p); err != nil {
+					t.Fatal(err)
+				}
+			}
+			outer := parts[0].Clone()
+			if err := outer.Append(inner); err != nil || !same(outer, whole) {
+				t.Fatalf("trial %d: a folded later stretch merged after the first differs from the whole (%v)", trial, err)
+			}
+		}
 		// Streaming in several Add calls is the same as one.
 		inc := mustNew(t, spec, 0)
 		for i := 1; i < len(cuts); i++ {
