@@ -105,7 +105,7 @@ func TestShardErrors(t *testing.T) {
 	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "truncated") {
 		t.Errorf("truncated: exit %d %s", code, errs)
 	}
-	os.WriteFile(bad, bytes.Replace(data, []byte("borel-tally 3 "), []byte("borel-tally 9 "), 1), 0o644)
+	os.WriteFile(bad, bytes.Replace(data, []byte("borel-tally 4 "), []byte("borel-tally 9 "), 1), 0o644)
 	if code, errs := run(files[0], bad, files[2]); code != 1 || !strings.Contains(errs, "newer borel") {
 		t.Errorf("future version: exit %d %s", code, errs)
 	}

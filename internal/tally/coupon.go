@@ -264,7 +264,7 @@ type couponEntry struct {
 	Pending   [][2]int64 `json:"pending,omitempty"`
 }
 
-func (r *Coupons) entry() any {
+func (r *Coupons) entry(*blobs) any {
 	e := couponEntry{Hist: r.Hist, Head: r.Head, Restarted: r.Restarted, Seen: r.Seen, Len: r.Len, Idle: r.Idle}
 	for _, p := range r.Pending {
 		e.Pending = append(e.Pending, [2]int64{p.Due, p.Len})
@@ -272,7 +272,7 @@ func (r *Coupons) entry() any {
 	return e
 }
 
-func (r *Coupons) decode(data json.RawMessage) error {
+func (r *Coupons) decode(data json.RawMessage, _ *blobs) error {
 	var e couponEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

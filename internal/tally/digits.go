@@ -121,7 +121,7 @@ type traceEntry struct {
 	Counts table `json:"counts"`
 }
 
-func (r *DigitCounts) entry() any {
+func (r *DigitCounts) entry(*blobs) any {
 	e := digitsEntry{Counts: r.Counts, Trace: []traceEntry{}}
 	for _, tp := range r.Trace {
 		e.Trace = append(e.Trace, traceEntry{tp.Pos, tp.Counts})
@@ -129,7 +129,7 @@ func (r *DigitCounts) entry() any {
 	return e
 }
 
-func (r *DigitCounts) decode(data json.RawMessage) error {
+func (r *DigitCounts) decode(data json.RawMessage, _ *blobs) error {
 	var e digitsEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

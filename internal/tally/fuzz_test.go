@@ -16,7 +16,7 @@ func FuzzReadShard(f *testing.F) {
 	WriteShard(&buf, &Shard{Null: ShardNull{Kind: "uniform"}, Tally: tl})
 	f.Add(buf.Bytes())
 	f.Add([]byte("borel-tally 1 sha256:00 bytes:3\nabc"))
-	f.Add([]byte("borel-tally 3 sha256:00 bytes:3\nabc"))
+	f.Add([]byte("borel-tally 4 sha256:00 bytes:3\nabc"))
 	f.Add([]byte("borel-tally 99 sha256:00 bytes:0\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		s, err := ReadShard(bytes.NewReader(data), "fuzz")

@@ -178,7 +178,7 @@ type gapEntry struct {
 	Last  int64 `json:"last"`
 }
 
-func (r *Gaps) entry() any {
+func (r *Gaps) entry(*blobs) any {
 	e := []gapEntry{}
 	for _, g := range r.Classes {
 		e = append(e, gapEntry{g.Hist, g.Seen, g.First, g.Last})
@@ -186,7 +186,7 @@ func (r *Gaps) entry() any {
 	return e
 }
 
-func (r *Gaps) decode(data json.RawMessage) error {
+func (r *Gaps) decode(data json.RawMessage, _ *blobs) error {
 	var e []gapEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

@@ -103,9 +103,9 @@ type handsEntry struct {
 	Counts table `json:"counts"`
 }
 
-func (r *Hands) entry() any { return handsEntry{r.Counts} }
+func (r *Hands) entry(*blobs) any { return handsEntry{r.Counts} }
 
-func (r *Hands) decode(data json.RawMessage) error {
+func (r *Hands) decode(data json.RawMessage, _ *blobs) error {
 	var e handsEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

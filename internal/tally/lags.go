@@ -133,9 +133,9 @@ type lagsEntry struct {
 	Products table `json:"products"`
 }
 
-func (r *Lags) entry() any { return lagsEntry{r.Products} }
+func (r *Lags) entry(*blobs) any { return lagsEntry{r.Products} }
 
-func (r *Lags) decode(data json.RawMessage) error {
+func (r *Lags) decode(data json.RawMessage, _ *blobs) error {
 	var e lagsEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

@@ -138,11 +138,11 @@ type runsEntry struct {
 	Dig [3]int64 `json:"digit"`
 }
 
-func (r *Runs) entry() any {
+func (r *Runs) entry(*blobs) any {
 	return runsEntry{[3]int64{r.Any.Max, r.Any.Lead, r.Any.Trail}, [3]int64{r.Dig.Max, r.Dig.Lead, r.Dig.Trail}}
 }
 
-func (r *Runs) decode(data json.RawMessage) error {
+func (r *Runs) decode(data json.RawMessage, _ *blobs) error {
 	var e runsEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

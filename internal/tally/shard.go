@@ -3,8 +3,8 @@ package tally
 import (
 	"bufio"
 	"bytes"
-	"compress/gzip"
 	"crypto/sha256"
+	"encoding/binary"
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
@@ -16,21 +16,27 @@ import (
 // ShardVersion is the version of the shard format this borel writes and
 // reads. It goes up when an entry changes meaning or disappears.
 //
-// Format 3: the header line
+// Format 4: the header line
 //
-//	borel-tally 3 sha256:<hex> bytes:<n>
+//	borel-tally 4 sha256:<hex> bytes:<n>
 //
-// then n bytes of gzip-compressed JSON whose SHA-256 the header states: a
-// stream of JSON values, first the shard header (format, version, writer,
-// null, source, the tally's spec with its record list, offset, length,
-// head and tail), then one entry per record in the spec's order, each
-// {"record": kind, "data": …} in the record's own encoding (count tables
-// as base64 varints, table.go). Format 2 had the same layout, but its
-// coupon record dropped the segment open at each restart (a bias for long
-// segments, CouponRestart): its shards are refused, to be tallied again.
-// Format 1 (one JSON object that was the Go Tally field by field) was
-// written by borel 0.1.0 before the records; it is refused with that said.
-const ShardVersion = 3
+// then n bytes whose SHA-256 the header states: the length of a JSON
+// section (a uvarint), the JSON section, and the table section. The JSON
+// section is a stream of values, first the shard header (format, version,
+// writer, null, source, the tally's spec with its record list, offset,
+// length, head and tail), then one entry per record in the spec's order,
+// each {"record": kind, "data": …} in the record's own encoding (small
+// count tables inline as base64 varints, table.go; the window and block
+// tables as indices into the table section). The table section is a
+// uvarint count of tables, then each as a uvarint byte length and its
+// cells as zigzag varints. Nothing is compressed: count tables of random
+// digits shrink by about a third under gzip, which cost more time than
+// the disk it saved. Format 3 had the same entries as gzip-compressed JSON
+// with every table inline; format 2's coupon record dropped the segment
+// open at each restart (a bias for long segments, CouponRestart); format 1
+// (one JSON object that was the Go Tally field by field) was written by
+// borel 0.1.0 before the records. All three are refused with that said.
+const ShardVersion = 4
 
 // Shard is one stretch's tally as written by `borel tally`: the tally, the
 // null it was planned for (which fixes part of its spec), and where its
@@ -82,16 +88,16 @@ func WriteShard(w io.Writer, s *Shard) error {
 		return fmt.Errorf("tally: a shard needs a tally")
 	}
 	t.settle()
-	var payload bytes.Buffer
-	zw, _ := gzip.NewWriterLevel(&payload, gzip.BestSpeed)
-	enc := json.NewEncoder(zw)
+	var js bytes.Buffer
+	enc := json.NewEncoder(&js)
 	h := shardHeader{Format: "borel-tally", Version: ShardVersion, Writer: s.Writer, Null: s.Null, Source: s.Source,
 		Spec: t.Spec, Offset: t.Offset, Length: t.N, Head: t.Head, Tail: t.Tail}
 	if err := enc.Encode(h); err != nil {
 		return err
 	}
+	tables := &blobs{}
 	for _, r := range t.recs {
-		data, err := json.Marshal(r.entry())
+		data, err := json.Marshal(r.entry(tables))
 		if err != nil {
 			return err
 		}
@@ -99,8 +105,13 @@ func WriteShard(w io.Writer, s *Shard) error {
 			return err
 		}
 	}
-	if err := zw.Close(); err != nil {
-		return err
+	var payload bytes.Buffer
+	payload.Write(binary.AppendUvarint(nil, uint64(js.Len())))
+	payload.Write(js.Bytes())
+	payload.Write(binary.AppendUvarint(nil, uint64(len(tables.data))))
+	for _, d := range tables.data {
+		payload.Write(binary.AppendUvarint(nil, uint64(len(d))))
+		payload.Write(d)
 	}
 	sum := sha256.Sum256(payload.Bytes())
 	if _, err := fmt.Fprintf(w, "borel-tally %d sha256:%s bytes:%d\n", ShardVersion, hex.EncodeToString(sum[:]), payload.Len()); err != nil {
@@ -128,6 +139,8 @@ func readShardLine(br *bufio.Reader, name string) ([]string, error) {
 	switch {
 	case version > ShardVersion:
 		return nil, fmt.Errorf("%s: shard format %d was written by a newer borel; this borel reads format %d: upgrade borel", name, version, ShardVersion)
+	case version == 3:
+		return nil, fmt.Errorf("%s: shard format 3 was written by an earlier borel (gzip-compressed JSON tables, slow to read); this borel reads format %d: tally that stretch again with this borel", name, ShardVersion)
 	case version == 2:
 		return nil, fmt.Errorf("%s: shard format 2 counts coupon segments by an earlier rule that biased them short; this borel reads format %d: tally that stretch again with this borel", name, ShardVersion)
 	case version == 1:
@@ -148,20 +161,20 @@ type ShardInfo struct {
 	Offset, Length int64
 }
 
-// ReadShardInfo reads a shard's header line and the header inside its
-// payload (decompressing only that far). It checks the format, not the
+// ReadShardInfo reads a shard's header line and the header at the start
+// of its payload, nothing further. It checks the format, not the
 // checksum or the records: ReadShard does, when the shard is read whole.
 func ReadShardInfo(r io.Reader, name string) (*ShardInfo, error) {
 	br := bufio.NewReader(r)
 	if _, err := readShardLine(br, name); err != nil {
 		return nil, err
 	}
-	zr, err := gzip.NewReader(br)
+	jsonLen, err := binary.ReadUvarint(br)
 	if err != nil {
-		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
+		return nil, fmt.Errorf("%s: shard is truncated (no JSON section)", name)
 	}
 	var h shardHeader
-	if err := json.NewDecoder(zr).Decode(&h); err != nil {
+	if err := json.NewDecoder(io.LimitReader(br, int64(jsonLen))).Decode(&h); err != nil {
 		return nil, fmt.Errorf("%s: shard header cannot be read: %v", name, err)
 	}
 	if h.Format != "borel-tally" || h.Version != ShardVersion {
@@ -174,6 +187,16 @@ func ReadShardInfo(r io.Reader, name string) (*ShardInfo, error) {
 // that the tally inside is well formed, record by record. name is used in
 // errors.
 func ReadShard(r io.Reader, name string) (*Shard, error) {
+	return ReadShardReusing(r, name, nil)
+}
+
+// ReadShardReusing is ReadShard, writing the shard's large tables over
+// those of spent — a tally no longer needed, such as the shard a fold has
+// just added — where their sizes match, instead of allocating them: a
+// merge of many shards then touches no new memory for them (at K = 7,
+// 170 MB a shard, whose page faults and zeroing were a third of the
+// read). spent must not be used afterwards.
+func ReadShardReusing(r io.Reader, name string, spent *Tally) (*Shard, error) {
 	br := bufio.NewReader(r)
 	fields, err := readShardLine(br, name)
 	if err != nil {
@@ -197,15 +220,8 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 	if hex.EncodeToString(sum[:]) != wantSum {
 		return nil, fmt.Errorf("%s: shard is corrupted (its checksum does not match); tally that stretch again", name)
 	}
-	zr, err := gzip.NewReader(bytes.NewReader(payload))
-	if err != nil {
-		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
-	}
-	plain, err := io.ReadAll(zr)
-	if err != nil {
-		return nil, fmt.Errorf("%s: shard payload cannot be read: %v", name, err)
-	}
-	s, err := decodeShard(plain)
+	plain := payload
+	s, err := decodeShard(plain, spent)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", name, err)
 	}
@@ -213,8 +229,38 @@ func ReadShard(r io.Reader, name string) (*Shard, error) {
 }
 
 // decodeShard decodes and validates a shard's uncompressed payload.
-func decodeShard(plain []byte) (*Shard, error) {
-	dec := json.NewDecoder(bytes.NewReader(plain))
+func decodeShard(plain []byte, spent *Tally) (*Shard, error) {
+	jsonLen, n := binary.Uvarint(plain)
+	if n <= 0 || jsonLen > uint64(len(plain)-n) {
+		return nil, fmt.Errorf("shard payload is damaged (its JSON section overruns it)")
+	}
+	js, rest := plain[n:n+int(jsonLen)], plain[n+int(jsonLen):]
+	tables := &blobs{}
+	if spent != nil {
+		tables.spare = append(tables.spare, spent.win.Counts)
+		for _, c := range spent.blk.Counts {
+			if len(c) > 0 {
+				tables.spare = append(tables.spare, c)
+			}
+		}
+	}
+	count, n := binary.Uvarint(rest)
+	if n <= 0 || count > uint64(len(rest)) {
+		return nil, fmt.Errorf("shard payload is damaged (no table section)")
+	}
+	rest = rest[n:]
+	for i := uint64(0); i < count; i++ {
+		size, n := binary.Uvarint(rest)
+		if n <= 0 || size > uint64(len(rest)-n) {
+			return nil, fmt.Errorf("shard payload is damaged (count table %d overruns it)", i)
+		}
+		tables.data = append(tables.data, rest[n:n+int(size)])
+		rest = rest[n+int(size):]
+	}
+	if len(rest) > 0 {
+		return nil, fmt.Errorf("shard payload is damaged (bytes after its tables)")
+	}
+	dec := json.NewDecoder(bytes.NewReader(js))
 	var h shardHeader
 	if err := dec.Decode(&h); err != nil {
 		return nil, fmt.Errorf("shard header cannot be read: %v", err)
@@ -241,7 +287,7 @@ func decodeShard(plain []byte) (*Shard, error) {
 		if e.Record != r.kind() {
 			return nil, fmt.Errorf("shard holds a %q entry where its record list has %s (damaged shard)", e.Record, r.kind())
 		}
-		if err := r.decode(e.Data); err != nil {
+		if err := r.decode(e.Data, tables); err != nil {
 			return nil, fmt.Errorf("shard entry of the %s record cannot be read: %v (damaged shard)", r.kind(), err)
 		}
 	}

@@ -51,9 +51,11 @@ type record interface {
 	// the tally's order).
 	settle(t *Tally)
 	// entry returns the shard entry (a value json can encode); decode
-	// reads one back into the empty record.
-	entry() any
-	decode(data json.RawMessage) error
+	// reads one back into the empty record. A record with large tables
+	// puts them in b, the shard's table section, and writes their indices
+	// (b nil: the tables go inline, as comparisons of entries do).
+	entry(b *blobs) any
+	decode(data json.RawMessage, b *blobs) error
 	// check validates a decoded record against its stretch completely, so
 	// a record that passes merges and is audited without a panic.
 	check(t *Tally) error
@@ -290,7 +292,6 @@ func (t *Tally) Append(b *Tally) error {
 	tail := append(slices.Clone(t.Tail), b.Tail...)
 	t.Tail = slices.Clone(tail[max(0, len(tail)-keep):])
 	t.N += b.N
-	t.settled = false
 	return nil
 }
 

@@ -401,17 +401,19 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	}
 	damaged := append([]byte(nil), good...)
 	damaged[len(damaged)-10] ^= 0x40
-	future := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 4 ", 1))
-	old := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 1 ", 1))
-	format2 := []byte(strings.Replace(string(good), "borel-tally 3 ", "borel-tally 2 ", 1))
+	future := []byte(strings.Replace(string(good), "borel-tally 4 ", "borel-tally 5 ", 1))
+	old := []byte(strings.Replace(string(good), "borel-tally 4 ", "borel-tally 1 ", 1))
+	format2 := []byte(strings.Replace(string(good), "borel-tally 4 ", "borel-tally 2 ", 1))
+	format3 := []byte(strings.Replace(string(good), "borel-tally 4 ", "borel-tally 3 ", 1))
 	cases := map[string][]byte{
-		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 4 was written by a newer borel": future,
+		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 5 was written by a newer borel": future,
+		"shard format 3 was written by an earlier borel": format3,
 		"shard format 2 counts coupon segments by an earlier rule that biased them short":      format2,
 		"shard format 1 was written by borel 0.1.0 before its tallies were split into records": old,
 		"not a borel shard": []byte("hello\nworld"),
 		// A damaged header that claims a terabyte must not allocate it
 		// (FuzzReadShard hung on this before the payload was read incrementally).
-		"the 1000000000000 bytes the header states": []byte("borel-tally 3 sha256:00 bytes:1000000000000\nabc"),
+		"the 1000000000000 bytes the header states": []byte("borel-tally 4 sha256:00 bytes:1000000000000\nabc"),
 	}
 	for want, data := range cases {
 		if _, err := ReadShard(bytes.NewReader(data), "s1"); err == nil || !strings.Contains(err.Error(), want) {
@@ -458,8 +460,8 @@ func same(a, b *Tally) bool {
 		return false
 	}
 	for i := range a.recs {
-		ea, _ := json.Marshal(a.recs[i].entry())
-		eb, _ := json.Marshal(b.recs[i].entry())
+		ea, _ := json.Marshal(a.recs[i].entry(nil))
+		eb, _ := json.Marshal(b.recs[i].entry(nil))
 		if string(ea) != string(eb) {
 			return false
 		}

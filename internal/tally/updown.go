@@ -136,9 +136,9 @@ type updownEntry struct {
 	Turns  int64 `json:"turns"`
 }
 
-func (r *UpDown) entry() any { return updownEntry{r.Values, r.Ties, r.Turns} }
+func (r *UpDown) entry(*blobs) any { return updownEntry{r.Values, r.Ties, r.Turns} }
 
-func (r *UpDown) decode(data json.RawMessage) error {
+func (r *UpDown) decode(data json.RawMessage, _ *blobs) error {
 	var e updownEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

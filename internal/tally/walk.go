@@ -173,7 +173,7 @@ type walkEntry struct {
 	Lower [][2]int64 `json:"lower,omitempty"`
 }
 
-func (r *Walk) entry() any {
+func (r *Walk) entry(*blobs) any {
 	pts := func(h []Point) [][2]int64 {
 		var out [][2]int64
 		for _, p := range h {
@@ -184,7 +184,7 @@ func (r *Walk) entry() any {
 	return walkEntry{r.Sum, r.UMax, r.UMin, pts(r.Upper), pts(r.Lower)}
 }
 
-func (r *Walk) decode(data json.RawMessage) error {
+func (r *Walk) decode(data json.RawMessage, _ *blobs) error {
 	var e walkEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err

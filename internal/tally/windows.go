@@ -155,18 +155,33 @@ func (r *Windows) settle(*Tally) {
 	r.hot = nil
 }
 
+// windowsEntry holds the table inline, or its index in the shard's table
+// section.
 type windowsEntry struct {
-	Counts table `json:"counts"`
+	Counts table `json:"counts,omitempty"`
+	Table  *int  `json:"table,omitempty"`
 }
 
-func (r *Windows) entry() any { return windowsEntry{r.Counts} }
+func (r *Windows) entry(b *blobs) any {
+	if b == nil {
+		return windowsEntry{Counts: r.Counts}
+	}
+	i := b.put(r.Counts)
+	return windowsEntry{Table: &i}
+}
 
-func (r *Windows) decode(data json.RawMessage) error {
+func (r *Windows) decode(data json.RawMessage, b *blobs) error {
 	var e windowsEntry
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err
 	}
 	r.Counts = e.Counts
+	if e.Table != nil {
+		var err error
+		if r.Counts, err = b.get(*e.Table); err != nil {
+			return err
+		}
+	}
 	return nil
 }
 
