@@ -407,7 +407,7 @@ func TestShardRoundTripAndDamage(t *testing.T) {
 	format3 := []byte(strings.Replace(string(good), "borel-tally 4 ", "borel-tally 3 ", 1))
 	cases := map[string][]byte{
 		"corrupted": damaged, "truncated": good[:len(good)-100], "shard format 5 was written by a newer borel": future,
-		"shard format 3 was written by an earlier borel": format3,
+		"shard format 3 was written by an earlier borel":                                       format3,
 		"shard format 2 counts coupon segments by an earlier rule that biased them short":      format2,
 		"shard format 1 was written by borel 0.1.0 before its tallies were split into records": old,
 		"not a borel shard": []byte("hello\nworld"),
