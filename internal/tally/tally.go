@@ -91,14 +91,26 @@ type Tally struct {
 
 // New returns an empty Tally for a stretch starting at global position offset.
 func New(spec Spec, offset int64) (*Tally, error) {
+	return newTally(spec, offset, true)
+}
+
+// newTally is New; without tables (tables false) the window and block
+// records have none yet, for a shard's decoder to fill: a shard at K = 7
+// would otherwise allocate and clear 170 MB it then drops.
+func newTally(spec Spec, offset int64, tables bool) (*Tally, error) {
 	if err := spec.Validate(); err != nil {
 		return nil, err
 	}
 	spec.Records = slices.Clone(spec.Records)
 	t := &Tally{Spec: spec, Offset: offset, Head: []byte{}, Tail: []byte{}}
 	t.dig = newDigitCounts(spec.Base)
-	t.win = newWindows(spec.Base, spec.MaxBlock)
-	t.blk = newBlocks(&t.Spec)
+	if tables {
+		t.win = newWindows(spec.Base, spec.MaxBlock)
+		t.blk = newBlocks(&t.Spec)
+	} else {
+		t.win = &Windows{K: spec.MaxBlock, base: spec.Base}
+		t.blk = &Blocks{spec: &t.Spec, Counts: make([][]int64, spec.MaxBlock+1), hot: make([][]uint8, spec.MaxBlock+1)}
+	}
 	t.recs = []record{t.dig, t.win, t.blk}
 	for _, r := range spec.Records {
 		t.recs = append(t.recs, r.newRecord(&t.Spec, offset))
