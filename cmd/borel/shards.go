@@ -222,30 +222,27 @@ func runMerge(e env, args []string) (int, error) {
 	// 20 shards of 10^7 digits at K = 7 peaked at 930 MB with the default
 	// and 600 MB so, in the same time.
 	defer debug.SetGCPercent(debug.SetGCPercent(25))
-	var merged, spent *tally.Tally
+	var merged *tally.Tally
 	for _, n := range shards {
 		f, err := os.Open(n.name)
 		if err != nil {
 			return 0, fmt.Errorf("cannot open %s: %v", n.name, unwrapPathError(err))
 		}
-		s, err := tally.ReadShardReusing(f, n.name, spent)
+		if merged == nil {
+			s, err := tally.ReadShard(f, n.name)
+			f.Close()
+			if err != nil {
+				return 0, err
+			}
+			merged = s.Tally
+			continue
+		}
+		_, err = merged.AppendShard(f, n.name)
 		f.Close()
 		if err != nil {
 			return 0, err
 		}
-		if s.Tally.Offset != n.info.Offset || s.Tally.N != n.info.Length {
-			return 0, fmt.Errorf("%s changed while it was being merged; merge again", n.name)
-		}
-		if merged == nil {
-			merged = s.Tally
-			continue
-		}
-		if err := merged.Append(s.Tally); err != nil {
-			return 0, err
-		}
-		spent = s.Tally // added: the next shard's tables overwrite its own
 	}
-	spent = nil
 	var names []string
 	for _, n := range shards {
 		names = append(names, n.name)

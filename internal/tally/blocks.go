@@ -22,7 +22,8 @@ type Blocks struct {
 	Counts [][]int64
 
 	spec *Spec
-	hot  [][]uint8 // byte counters of the large tables (see Windows)
+	hot  [][]uint8  // byte counters of the large tables (see Windows)
+	raw  []rawTable // a shard being folded: the tables still encoded
 }
 
 func newBlocks(s *Spec) *Blocks {
@@ -156,7 +157,11 @@ func (c *blockCounter) count(idx []uint32, g0 int64) {
 func (r *Blocks) merge(next record, sm *seam) {
 	n := next.(*Blocks)
 	for k := 2; k <= r.spec.blocksMax(); k++ {
-		addInto(r.Counts[k], n.Counts[k])
+		if n.raw != nil {
+			n.raw[k].addTo(r.Counts[k])
+		} else {
+			addInto(r.Counts[k], n.Counts[k])
+		}
 		for s := 0; s < sm.cut && s+k <= len(sm.x); s++ {
 			if (sm.xs+int64(s))%int64(k) == 0 && s+k > sm.cut {
 				r.Counts[k][value(sm.x[s:s+k], r.spec.Base)]++
@@ -267,7 +272,17 @@ func (r *Blocks) decode(data json.RawMessage, b *blobs) error {
 	if err := json.Unmarshal(data, &e); err != nil {
 		return err
 	}
-	if e.Tables != nil {
+	if e.Tables != nil && b.fold {
+		r.Counts, r.raw = make([][]int64, len(e.Tables)), make([]rawTable, len(e.Tables))
+		for k, i := range e.Tables {
+			if i >= 0 {
+				var err error
+				if r.raw[k], err = b.raw(i); err != nil {
+					return err
+				}
+			}
+		}
+	} else if e.Tables != nil {
 		r.Counts = make([][]int64, len(e.Tables))
 		for k, i := range e.Tables {
 			if i >= 0 {
@@ -302,13 +317,20 @@ func (r *Blocks) check(t *Tally) error {
 		if t.HasBlocks(k) {
 			want = ipow(t.Base, k)
 		}
-		if len(r.Counts[k]) != want {
-			return fmt.Errorf("block table %d has %d cells, want %d", k, len(r.Counts[k]), want)
+		cells, sum, err := len(r.Counts[k]), int64(0), error(nil)
+		if r.raw != nil {
+			cells, sum, err = r.raw[k].scan("a block table")
+		}
+		if cells != want {
+			return fmt.Errorf("block table %d has %d cells, want %d", k, cells, want)
 		}
 		if want == 0 {
 			continue
 		}
-		if sum, err := nonNegative("a block table", r.Counts[k]); err != nil {
+		if r.raw == nil {
+			sum, err = nonNegative("a block table", r.Counts[k])
+		}
+		if err != nil {
 			return err
 		} else if sum != aligned(t.Offset, t.N, k) {
 			return fmt.Errorf("block table %d counts %d blocks, not the %d inside the stretch", k, sum, aligned(t.Offset, t.N, k))

@@ -209,16 +209,30 @@ func ReadShardInfo(r io.Reader, name string) (*ShardInfo, error) {
 // that the tally inside is well formed, record by record. name is used in
 // errors.
 func ReadShard(r io.Reader, name string) (*Shard, error) {
-	return ReadShardReusing(r, name, nil)
+	return readShard(r, name, false)
 }
 
-// ReadShardReusing is ReadShard, writing the shard's large tables over
-// those of spent — a tally no longer needed, such as the shard a fold has
-// just added — where their sizes match, instead of allocating them: a
-// merge of many shards then touches no new memory for them (at K = 7,
-// 170 MB a shard, whose page faults and zeroing were a third of the
-// read). spent must not be used afterwards.
-func ReadShardReusing(r io.Reader, name string, spent *Tally) (*Shard, error) {
+// AppendShard reads a shard and appends its stretch to t (as Append does)
+// without decoding its window and block tables into tables of their own:
+// each cell is decoded straight into t's, after the whole shard has been
+// checked as ReadShard checks it. A fold over many shards then holds t
+// and one shard's bytes (at K = 7: 170 MB and 21 MB), and reads each
+// shard's tables once. The shard is returned without its tally.
+func (t *Tally) AppendShard(r io.Reader, name string) (*Shard, error) {
+	s, err := readShard(r, name, t.N > 0) // an empty t takes the shard's own tables
+	if err != nil {
+		return nil, err
+	}
+	if err := t.Append(s.Tally); err != nil {
+		return nil, fmt.Errorf("%s: %v", name, err)
+	}
+	s.Tally = nil
+	return s, nil
+}
+
+// readShard is ReadShard; fold leaves the large tables encoded, for
+// AppendShard only (such a tally is not usable otherwise).
+func readShard(r io.Reader, name string, fold bool) (*Shard, error) {
 	br := bufio.NewReader(r)
 	fields, err := readShardLine(br, name)
 	if err != nil {
@@ -243,7 +257,7 @@ func ReadShardReusing(r io.Reader, name string, spent *Tally) (*Shard, error) {
 		return nil, fmt.Errorf("%s: shard is corrupted (its checksum does not match); tally that stretch again", name)
 	}
 	plain := payload
-	s, err := decodeShard(plain, spent)
+	s, err := decodeShard(plain, fold)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", name, err)
 	}
@@ -251,21 +265,13 @@ func ReadShardReusing(r io.Reader, name string, spent *Tally) (*Shard, error) {
 }
 
 // decodeShard decodes and validates a shard's uncompressed payload.
-func decodeShard(plain []byte, spent *Tally) (*Shard, error) {
+func decodeShard(plain []byte, fold bool) (*Shard, error) {
 	jsonLen, n := binary.Uvarint(plain)
 	if n <= 0 || jsonLen > uint64(len(plain)-n) {
 		return nil, fmt.Errorf("shard payload is damaged (its JSON section overruns it)")
 	}
 	js, rest := plain[n:n+int(jsonLen)], plain[n+int(jsonLen):]
-	tables := &blobs{}
-	if spent != nil {
-		tables.spare = append(tables.spare, spent.win.Counts)
-		for _, c := range spent.blk.Counts {
-			if len(c) > 0 {
-				tables.spare = append(tables.spare, c)
-			}
-		}
-	}
+	tables := &blobs{fold: fold}
 	count, n := binary.Uvarint(rest)
 	if n <= 0 || count > uint64(len(rest)) {
 		return nil, fmt.Errorf("shard payload is damaged (no table section)")

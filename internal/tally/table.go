@@ -49,8 +49,8 @@ func (t *table) UnmarshalJSON(data []byte) error {
 // base64 string inside JSON it was scanned three times (1.3 s a shard at
 // K = 7 in format 3).
 type blobs struct {
-	data  [][]byte
-	spare [][]int64 // tables of a spent tally, overwritten instead of allocated
+	data [][]byte
+	fold bool // leave the large tables encoded (rawTable)
 }
 
 // put adds a table and returns its index.
@@ -76,17 +76,7 @@ func (b *blobs) get(i int) ([]int64, error) {
 			cells++ // every varint ends with one byte below 0x80
 		}
 	}
-	var out []int64
-	for j, sp := range b.spare {
-		if len(sp) == cells {
-			out = sp
-			b.spare = append(b.spare[:j], b.spare[j+1:]...)
-			break
-		}
-	}
-	if out == nil {
-		out = make([]int64, cells)
-	}
+	out := make([]int64, cells)
 	k := 0
 	for j := 0; j < len(buf); k++ {
 		if c := buf[j]; c < 0x80 {
@@ -102,4 +92,74 @@ func (b *blobs) get(i int) ([]int64, error) {
 		j += n
 	}
 	return out, nil
+}
+
+// rawTable is a count table left in its shard encoding: a shard being
+// folded into a tally (Tally.AppendShard) has its cells decoded straight
+// into the cells they are added to, never into a table of its own.
+type rawTable []byte
+
+// raw returns table i undecoded.
+func (b *blobs) raw(i int) (rawTable, error) {
+	if b == nil || i < 0 || i >= len(b.data) {
+		return nil, fmt.Errorf("a count table refers to table %d, which the shard does not hold", i)
+	}
+	return rawTable(b.data[i]), nil
+}
+
+// scan checks the encoding and returns the number of cells and their sum,
+// refusing a negative count or an overflowing sum (as nonNegative does).
+func (r rawTable) scan(name string) (cells int, sum int64, err error) {
+	const high, low = 0x8080808080808080, 0x0101010101010101
+	for j := 0; j < len(r); cells++ {
+		// Eight one-byte, non-negative cells at a time (no byte with its
+		// top bit, which continues a varint, or its low bit, a negative
+		// zigzag value): their values are the bytes halved, summed in
+		// 16-bit lanes.
+		for j+8 <= len(r) {
+			w := binary.LittleEndian.Uint64(r[j:])
+			if w&(high|low) != 0 {
+				break
+			}
+			w >>= 1
+			w = w&0x00ff00ff00ff00ff + w>>8&0x00ff00ff00ff00ff
+			sum += int64(w * 0x0001000100010001 >> 48)
+			cells, j = cells+8, j+8
+		}
+		if j >= len(r) {
+			break
+		}
+		v, n := int64(r[j]>>1)^-int64(r[j]&1), 1
+		if r[j] >= 0x80 {
+			if v, n = binary.Varint(r[j:]); n <= 0 {
+				return 0, 0, fmt.Errorf("%s is damaged", name)
+			}
+		}
+		if v < 0 {
+			return 0, 0, fmt.Errorf("%s holds a negative count", name)
+		}
+		if sum += v; sum < 0 || sum > maxPosition {
+			return 0, 0, fmt.Errorf("%s counts overflow", name)
+		}
+		j += n
+	}
+	if sum > maxPosition {
+		return 0, 0, fmt.Errorf("%s counts overflow", name)
+	}
+	return cells, sum, nil
+}
+
+// addTo adds the cells to dst, which has as many (scan said so).
+func (r rawTable) addTo(dst []int64) {
+	k := 0
+	for j := 0; j < len(r); k++ {
+		if c := r[j]; c < 0x80 {
+			dst[k] += int64(c >> 1) // non-negative: scan refused the others
+			j++
+			continue
+		}
+		v, n := binary.Varint(r[j:])
+		dst[k] += v
+		j += n
+	}
 }

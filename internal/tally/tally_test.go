@@ -86,6 +86,21 @@ func TestMergeEqualsWhole(t *testing.T) {
 		if !same(acc, whole) {
 			t.Fatalf("trial %d: in-place fold differs from the whole", trial)
 		}
+		// Folding shards (AppendShard: their large tables decoded straight
+		// into the fold's) gives the same, and leaves no table behind.
+		fold := mustNew(t, spec, 0)
+		for _, p := range parts {
+			var buf bytes.Buffer
+			if err := WriteShard(&buf, &Shard{Null: ShardNull{Kind: "uniform"}, Tally: p}); err != nil {
+				t.Fatal(err)
+			}
+			if s, err := fold.AppendShard(bytes.NewReader(buf.Bytes()), "part"); err != nil || s.Tally != nil {
+				t.Fatalf("trial %d: AppendShard: %v", trial, err)
+			}
+		}
+		if !same(fold, whole) {
+			t.Fatalf("trial %d: a fold of shards differs from the whole", trial)
+		}
 		if len(parts) > 2 {
 			inner := parts[1].Clone()
 			for _, p := range parts[2:] {

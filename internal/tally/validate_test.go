@@ -132,6 +132,19 @@ func TestDamagedShardsRefused(t *testing.T) {
 		if msg := err.Error(); strings.Contains(msg, "\n") || !strings.HasPrefix(msg, "s: ") {
 			t.Errorf("%s: error is not one line naming the shard: %q", name, msg)
 		}
+		// A fold refuses it too (its tables left encoded are checked all
+		// the same), and the fold is left as it was.
+		var buf bytes.Buffer
+		if err := WriteShard(&buf, &Shard{Null: ShardNull{Kind: "uniform"}, Tally: x}); err != nil {
+			continue // not encodable at all
+		}
+		acc := randomStretch(rand.New(rand.NewPCG(5, 6)), spec, 0, 40)
+		before := acc.Clone()
+		if _, err := acc.AppendShard(bytes.NewReader(buf.Bytes()), "s"); err == nil {
+			t.Errorf("%s: accepted by AppendShard", name)
+		} else if !same(acc, before) {
+			t.Errorf("%s: a refused shard changed the fold", name)
+		}
 	}
 }
 

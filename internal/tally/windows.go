@@ -23,7 +23,8 @@ type Windows struct {
 	Counts []int64
 
 	base int
-	hot  []uint8 // byte counters: the true count of cell w is Counts[w] + hot[w]
+	hot  []uint8  // byte counters: the true count of cell w is Counts[w] + hot[w]
+	raw  rawTable // a shard being folded: the table still encoded (Counts nil)
 }
 
 // hotMinCells is the table size from which a byte table is kept (a
@@ -131,7 +132,11 @@ func (r *Windows) add(t *Tally, d []byte) {
 
 // merge adds next's windows and counts those that cross the cut.
 func (r *Windows) merge(next record, sm *seam) {
-	addInto(r.Counts, next.(*Windows).Counts)
+	if n := next.(*Windows); n.raw != nil {
+		n.raw.addTo(r.Counts)
+	} else {
+		addInto(r.Counts, n.Counts)
+	}
 	K := r.K
 	if K == 1 {
 		return
@@ -176,6 +181,11 @@ func (r *Windows) decode(data json.RawMessage, b *blobs) error {
 		return err
 	}
 	r.Counts = e.Counts
+	if e.Table != nil && b.fold {
+		var err error
+		r.raw, err = b.raw(*e.Table)
+		return err
+	}
 	if e.Table != nil {
 		var err error
 		if r.Counts, err = b.get(*e.Table); err != nil {
@@ -188,10 +198,17 @@ func (r *Windows) decode(data json.RawMessage, b *blobs) error {
 // check: b^K cells counting the N−K+1 windows inside the stretch.
 func (r *Windows) check(t *Tally) error {
 	b, K, N := t.Base, t.MaxBlock, t.N
-	if len(r.Counts) != ipow(b, K) {
-		return fmt.Errorf("window table of %d cells, want %d", len(r.Counts), ipow(b, K))
+	cells, sum, err := len(r.Counts), int64(0), error(nil)
+	if r.raw != nil {
+		cells, sum, err = r.raw.scan("the window table")
 	}
-	if sum, err := nonNegative("the window table", r.Counts); err != nil {
+	if cells != ipow(b, K) {
+		return fmt.Errorf("window table of %d cells, want %d", cells, ipow(b, K))
+	}
+	if r.raw == nil {
+		sum, err = nonNegative("the window table", r.Counts)
+	}
+	if err != nil {
 		return err
 	} else if K > 1 && sum != max(0, N-int64(K)+1) {
 		return fmt.Errorf("the window table counts %d windows, not the %d inside the stretch", sum, max(0, N-int64(K)+1))
