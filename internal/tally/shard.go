@@ -105,20 +105,29 @@ func WriteShard(w io.Writer, s *Shard) error {
 			return err
 		}
 	}
-	var payload bytes.Buffer
-	payload.Write(binary.AppendUvarint(nil, uint64(js.Len())))
-	payload.Write(js.Bytes())
-	payload.Write(binary.AppendUvarint(nil, uint64(len(tables.data))))
+	// The payload's pieces, hashed and written in turn (never copied into
+	// one buffer).
+	pieces := [][]byte{binary.AppendUvarint(nil, uint64(js.Len())), js.Bytes(), binary.AppendUvarint(nil, uint64(len(tables.data)))}
 	for _, d := range tables.data {
-		payload.Write(binary.AppendUvarint(nil, uint64(len(d))))
-		payload.Write(d)
+		pieces = append(pieces, binary.AppendUvarint(nil, uint64(len(d))), d)
 	}
-	sum := sha256.Sum256(payload.Bytes())
-	if _, err := fmt.Fprintf(w, "borel-tally %d sha256:%s bytes:%d\n", ShardVersion, hex.EncodeToString(sum[:]), payload.Len()); err != nil {
+	h256, size := sha256.New(), 0
+	for _, p := range pieces {
+		h256.Write(p)
+		size += len(p)
+	}
+	if g, ok := w.(interface{ Grow(int) }); ok { // a bytes.Buffer: one allocation
+		g.Grow(size + 128)
+	}
+	if _, err := fmt.Fprintf(w, "borel-tally %d sha256:%s bytes:%d\n", ShardVersion, hex.EncodeToString(h256.Sum(nil)), size); err != nil {
 		return err
 	}
-	_, err := w.Write(payload.Bytes())
-	return err
+	for _, p := range pieces {
+		if _, err := w.Write(p); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // readUpTo reads n bytes, or what there is if fewer: one allocation of the

@@ -55,11 +55,21 @@ type blobs struct {
 
 // put adds a table and returns its index.
 func (b *blobs) put(t []int64) int {
-	buf := make([]byte, 0, len(t)+8)
+	buf := make([]byte, len(t)+len(t)/8+binary.MaxVarintLen64)
+	j := 0
 	for _, v := range t {
-		buf = binary.AppendVarint(buf, v)
+		if uint64(v) < 64 { // one byte, the zigzag of a small count
+			buf[j] = byte(v << 1)
+			j++
+			continue
+		}
+		if len(buf)-j < binary.MaxVarintLen64 {
+			buf = append(buf[:j], make([]byte, len(buf)/2+binary.MaxVarintLen64)...)
+			buf = buf[:cap(buf)]
+		}
+		j += binary.PutVarint(buf[j:], v)
 	}
-	b.data = append(b.data, buf)
+	b.data = append(b.data, buf[:j])
 	return len(b.data) - 1
 }
 
