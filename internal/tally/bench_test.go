@@ -1,8 +1,16 @@
 package tally
 
 import (
+	"bytes"
+	"encoding/binary"
+	"fmt"
+	"math"
 	"math/rand/v2"
+	"os"
+	"runtime"
+	"strconv"
 	"testing"
+	"time"
 )
 
 // Benchmarks of each kernel of the pass, in the configuration an audit of
@@ -100,5 +108,81 @@ func BenchmarkSettle(b *testing.B) {
 		t.settled = false
 		t.settle()
 		t.win.hot = make([]uint8, len(t.win.Counts)) // as if the pass went on
+	}
+}
+
+// BenchmarkFoldShards is the thousand-machine simulation of bench/shards.sh:
+// BOREL_FOLD_SHARDS shards (default 1000) of 10^6 random decimal digits at
+// K = 7 (the window and block tables of any shard at K = 7: 2.1·10^7
+// cells), each tallied, written and folded into one tally by AppendShard,
+// as `borel merge` does. It reports the fold's time a shard (reading,
+// checking and adding one shard, its tally and writing excluded) and the
+// largest heap in use. Counts of 10^9-digit shards take two varint bytes a
+// cell instead of one; BenchmarkRawTableWidths measures what that costs.
+func BenchmarkFoldShards(b *testing.B) {
+	shards := 1000
+	if v, err := strconv.Atoi(os.Getenv("BOREL_FOLD_SHARDS")); err == nil && v > 0 {
+		shards = v
+	}
+	const n, K = 1_000_000, 7
+	spec := auditSpec()
+	spec.MaxBlock = K
+	rng := rand.New(rand.NewPCG(1, 1))
+	for range b.N {
+		var fold *Tally
+		var folding time.Duration
+		var peak uint64
+		var ms runtime.MemStats
+		for i := range shards {
+			tl, _ := New(spec, int64(i)*n)
+			tl.Add(randomDigits(rng, n, 10))
+			var buf bytes.Buffer
+			if err := WriteShard(&buf, &Shard{Null: ShardNull{Kind: "uniform"}, Tally: tl}); err != nil {
+				b.Fatal(err)
+			}
+			tl = nil
+			t0 := time.Now()
+			if fold == nil {
+				s, err := ReadShard(bytes.NewReader(buf.Bytes()), "s")
+				if err != nil {
+					b.Fatal(err)
+				}
+				fold = s.Tally
+			} else if _, err := fold.AppendShard(bytes.NewReader(buf.Bytes()), "s"); err != nil {
+				b.Fatal(err)
+			}
+			folding += time.Since(t0)
+			if i%50 == 0 {
+				runtime.ReadMemStats(&ms)
+				peak = max(peak, ms.HeapInuse)
+			}
+		}
+		b.ReportMetric(float64(folding.Milliseconds())/float64(shards), "ms/shard")
+		b.ReportMetric(float64(peak)/(1<<20), "MiB-heap")
+	}
+}
+
+// BenchmarkRawTableWidths: checking and adding a table of 10^7 cells whose
+// counts take one varint byte (counts near 1, as in shards of 10^7 digits
+// at K = 7) or two (counts near 100 ± 10, as in shards of 10^9).
+func BenchmarkRawTableWidths(b *testing.B) {
+	for _, mean := range []int64{1, 100} {
+		b.Run(fmt.Sprintf("mean-%d", mean), func(b *testing.B) {
+			rng := rand.New(rand.NewPCG(2, 2))
+			var raw []byte
+			for range 10_000_000 {
+				spread := int64(math.Sqrt(float64(mean)))
+				raw = binary.AppendVarint(raw, mean-spread+rng.Int64N(2*spread+1))
+			}
+			dst := make([]int64, 10_000_000)
+			b.SetBytes(int64(len(raw)))
+			b.ResetTimer()
+			for range b.N {
+				if _, _, err := rawTable(raw).scan("t"); err != nil {
+					b.Fatal(err)
+				}
+				rawTable(raw).addTo(dst)
+			}
+		})
 	}
 }

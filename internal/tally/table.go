@@ -139,11 +139,15 @@ func (r rawTable) scan(name string) (cells int, sum int64, err error) {
 		if j >= len(r) {
 			break
 		}
-		v, n := int64(r[j]>>1)^-int64(r[j]&1), 1
-		if r[j] >= 0x80 {
-			if v, n = binary.Varint(r[j:]); n <= 0 {
-				return 0, 0, fmt.Errorf("%s is damaged", name)
-			}
+		var v int64
+		n := 1
+		if c := r[j]; c < 0x80 {
+			v = int64(c>>1) ^ -int64(c&1)
+		} else if j+1 < len(r) && r[j+1] < 0x80 {
+			u := uint64(c&0x7f) | uint64(r[j+1])<<7
+			v, n = int64(u>>1)^-int64(u&1), 2
+		} else if v, n = binary.Varint(r[j:]); n <= 0 {
+			return 0, 0, fmt.Errorf("%s is damaged", name)
 		}
 		if v < 0 {
 			return 0, 0, fmt.Errorf("%s holds a negative count", name)
@@ -163,13 +167,17 @@ func (r rawTable) scan(name string) (cells int, sum int64, err error) {
 func (r rawTable) addTo(dst []int64) {
 	k := 0
 	for j := 0; j < len(r); k++ {
-		if c := r[j]; c < 0x80 {
-			dst[k] += int64(c >> 1) // non-negative: scan refused the others
+		if c := r[j]; c < 0x80 { // one byte: non-negative (scan refused the others)
+			dst[k] += int64(c >> 1)
 			j++
-			continue
+		} else if j+1 < len(r) && r[j+1] < 0x80 { // two bytes
+			u := uint64(c&0x7f) | uint64(r[j+1])<<7
+			dst[k] += int64(u >> 1)
+			j += 2
+		} else {
+			v, n := binary.Varint(r[j:])
+			dst[k] += v
+			j += n
 		}
-		v, n := binary.Varint(r[j:])
-		dst[k] += v
-		j += n
 	}
 }
