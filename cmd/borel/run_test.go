@@ -246,6 +246,8 @@ func TestHelpExamplesRun(t *testing.T) {
 					args[i] = filepath.Join(tmp, a)
 				case "/tmp/borel-part0.shard":
 					args[i] = filepath.Join(tmp, "part0.shard")
+				case "/tmp/borel-group0.shard":
+					args[i] = filepath.Join(tmp, "group0.shard")
 				}
 			}
 			code, out, errs := borel(t, "", args...)

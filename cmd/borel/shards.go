@@ -132,13 +132,17 @@ Joins the shards written by borel tally, in offset order whatever the order give
 tally of the whole sequence, and audits it: the findings are the same, bit for bit, as one
 borel audit of the whole input with the same --max-block. A missing or overlapping stretch, or
 shards of different bases, block lengths or nulls, are errors, found from the shards' headers
-before any table is read. The shards are then read and added one at a time, so the memory is
-that of two tallies however many shards there are. With --shard FILE the merged stretch (which
-need not start at digit 0) is written as one shard instead of a report: merges in a tree, a
-group of shards per job, then one merge of the groups.
+before any table is read. The shards are then added one at a time, each checked whole and its
+tables read straight into the merged ones, so the memory is one tally and one shard's bytes
+however many shards there are. With --shard FILE the merged stretch (which need not start at
+digit 0) is written as one shard instead of a report: merges in a tree, a group of shards per
+job, then one merge of the groups.
 
 Example: one shard merged (with more, list them all):
   $ borel merge /tmp/borel-part0.shard
+
+A group of shards merged into one shard, for a merge of the groups later:
+  $ borel merge /tmp/borel-part0.shard -q --shard /tmp/borel-group0.shard
 `
 
 func runMerge(e env, args []string) (int, error) {
