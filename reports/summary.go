@@ -71,13 +71,41 @@ func comparisonMarkdown(w io.Writer, doc Document) error {
 	return err
 }
 
+// ComparisonCSVHeader is the header of the side-by-side table as CSV: the
+// same content as the text table, with numbers at full precision (the
+// smallest adjusted p as log10 and as a probability, empty when it
+// underflows; the interval as its two ends) and nothing rounded to text.
+var ComparisonCSVHeader = []string{"sequence", "base", "digits", "verdict", "log10_smallest_adjusted_p", "smallest_adjusted_p",
+	"from", "tail", "deficit", "dimension", "dimension_low", "dimension_high"}
+
 func comparisonCSV(w io.Writer, doc Document) error {
-	h, rows := summaryRows(doc)
 	fmt.Fprintf(w, "# borel %s comparison, %s\n# command: %s\n# %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "), Caution)
 	cw := csv.NewWriter(w)
-	cw.Write(h)
-	for _, r := range rows {
-		cw.Write(r)
+	cw.Write(ComparisonCSVHeader)
+	num := func(v float64) string {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return ""
+		}
+		return full(v)
+	}
+	for _, r := range doc.Results {
+		logP, p, from, tail := "", "", "", ""
+		if d := r.Decisive(); d.Index >= 0 {
+			tail = "upper"
+			if d.Lower {
+				tail = "lower"
+			}
+			logP, from = num(d.LogAdj/math.Ln10), findingLabel(r.Findings[d.Index].Finding)
+			if pv := math.Exp(d.LogAdj); pv > 0 {
+				p = num(pv)
+			}
+		}
+		deficit, dim, lo, hi := "", "", "", ""
+		if e := r.Entropy; e != nil && len(e.Rows) > 0 {
+			deficit, dim = num(e.Summary.Deficit), num(e.Summary.Dimension)
+			lo, hi = num(e.Summary.DimLow), num(e.Summary.DimHigh)
+		}
+		cw.Write([]string{r.Source.Name, strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Verdict, logP, p, from, tail, deficit, dim, lo, hi})
 	}
 	cw.Flush()
 	return cw.Error()

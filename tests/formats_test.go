@@ -192,3 +192,38 @@ func lastLine(log []byte) string {
 	lines := strings.Split(strings.TrimSpace(string(log)), "\n")
 	return lines[len(lines)-1]
 }
+
+// The side-by-side table as CSV carries numbers, not their text: every
+// numeric column parses as a float (or is empty), nothing reads "10^…",
+// "[…]" or "-0", and the interval is two columns. (It wrote the text
+// table's rounded strings, "10^-3604.22" and "[0.984554, 0.988911]".)
+func TestComparisonCSVNumbers(t *testing.T) {
+	code, out, errs := runBorel(t, nil, "compare", "pi", "champernowne", "--count", "20000", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	r := csv.NewReader(bytes.NewReader(out))
+	r.Comment = '#'
+	recs, err := r.ReadAll()
+	if err != nil || len(recs) != 3 {
+		t.Fatalf("%d records, %v:\n%s", len(recs), err, out)
+	}
+	head := recs[0]
+	numeric := map[string]bool{"base": true, "digits": true, "log10_smallest_adjusted_p": true, "smallest_adjusted_p": true,
+		"deficit": true, "dimension": true, "dimension_low": true, "dimension_high": true}
+	for _, rec := range recs[1:] {
+		for i, v := range rec {
+			if strings.Contains(v, "10^") || strings.HasPrefix(v, "[") || v == "-0" {
+				t.Errorf("column %s holds text %q", head[i], v)
+			}
+			if numeric[head[i]] && v != "" {
+				if _, err := strconv.ParseFloat(v, 64); err != nil {
+					t.Errorf("column %s: %q is not a number", head[i], v)
+				}
+			}
+		}
+	}
+	if recs[2][0] != "champernowne" || recs[2][4] == "" || recs[2][5] != "" {
+		t.Errorf("champernowne's log10 p should be given and its p (below 1e-308) empty: %v", recs[2])
+	}
+}
