@@ -64,6 +64,7 @@ type JSONAudit struct {
 	Findings    []JSONFinding `json:"findings"`
 	Skipped     []JSONSkip    `json:"skipped"`
 	Entropy     *JSONEntropy  `json:"entropy,omitempty"`
+	Plots       JSONPlotData  `json:"plot_data"`
 	Notes       []string      `json:"notes"`
 }
 
@@ -150,6 +151,70 @@ type JSONEntropyRow struct {
 	Deficit     float64  `json:"deficit"`
 }
 
+// JSONPlotData is the data behind every plot of the report, so that a
+// reader can draw any figure again: the digit counts and the null's band
+// of relative frequencies (level band_level), the running trace (digit
+// counts at each position, with each digit's standardized deviation and
+// the iterated-logarithm envelope there), and each second-level
+// statistic's segment p-values.
+type JSONPlotData struct {
+	DigitCounts []int64             `json:"digit_counts"`
+	BandLevel   float64             `json:"band_level"`
+	BandLow     []*float64          `json:"band_low"`
+	BandHigh    []*float64          `json:"band_high"`
+	Trace       []JSONTracePoint    `json:"trace"`
+	Segments    []JSONSegmentSeries `json:"segment_p_values"`
+}
+
+// JSONTracePoint is the trace at one position.
+type JSONTracePoint struct {
+	Pos       int64      `json:"pos"`
+	Counts    []int64    `json:"counts"`
+	Deviation []*float64 `json:"deviation"`
+	Envelope  *float64   `json:"envelope"`
+}
+
+// JSONSegmentSeries is one statistic's p-values, segment by segment.
+type JSONSegmentSeries struct {
+	Statistic string    `json:"statistic"`
+	P         []float64 `json:"p"`
+}
+
+func finites(v []float64) []*float64 {
+	out := make([]*float64, len(v))
+	for i, x := range v {
+		out[i] = finite(x)
+	}
+	return out
+}
+
+func plotData(r *audit.Result) JSONPlotData {
+	pd := JSONPlotData{DigitCounts: nonNilInts(r.DigitCounts), BandLevel: audit.BandLevel,
+		BandLow: finites(r.Curves.BandLow), BandHigh: finites(r.Curves.BandHigh),
+		Trace: []JSONTracePoint{}, Segments: []JSONSegmentSeries{}}
+	for i, tp := range r.Trace {
+		p := JSONTracePoint{Pos: tp.Pos, Counts: nonNilInts(tp.Counts), Deviation: []*float64{}}
+		if i < len(r.Curves.Deviation) {
+			p.Deviation = finites(r.Curves.Deviation[i])
+		}
+		if i < len(r.Curves.Envelope) {
+			p.Envelope = finite(r.Curves.Envelope[i])
+		}
+		pd.Trace = append(pd.Trace, p)
+	}
+	for _, s := range r.SegmentPValues {
+		pd.Segments = append(pd.Segments, JSONSegmentSeries{Statistic: s.Label, P: slices.Clone(s.PValues)})
+	}
+	return pd
+}
+
+func nonNilInts(v []int64) []int64 {
+	if v == nil {
+		return []int64{}
+	}
+	return slices.Clone(v)
+}
+
 // ToJSON converts a document to its JSON form.
 func ToJSON(doc Document) JSONDocument {
 	out := JSONDocument{Schema: SchemaName, SchemaVersion: SchemaVersion, BorelVersion: doc.Version,
@@ -192,6 +257,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
 		Alpha: r.Alpha, Adjustment: r.Adjustment, MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
 		Verdict: r.Verdict, Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),
+		Plots: plotData(r),
 	}
 	if r.Source.Bytes >= 0 {
 		b := r.Source.Bytes

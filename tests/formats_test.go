@@ -10,6 +10,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -225,5 +226,59 @@ func TestComparisonCSVNumbers(t *testing.T) {
 	}
 	if recs[2][0] != "champernowne" || recs[2][4] == "" || recs[2][5] != "" {
 		t.Errorf("champernowne's log10 p should be given and its p (below 1e-308) empty: %v", recs[2])
+	}
+}
+
+// The JSON report carries the data behind every plot: digit counts that
+// sum to the digits, the null's frequency band for each digit, the trace
+// ending at n with the final counts and a deviation per digit, and one
+// series of segment p-values per second-level statistic, one per segment.
+func TestJSONPlotData(t *testing.T) {
+	code, out, errs := runBorel(t, nil, "audit", "--source", "pi", "--count", "20000", "--segments", "5", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Audits []struct {
+			Digits int64 `json:"digits"`
+			Plots  struct {
+				DigitCounts []int64    `json:"digit_counts"`
+				BandLow     []*float64 `json:"band_low"`
+				BandHigh    []*float64 `json:"band_high"`
+				Trace       []struct {
+					Pos       int64      `json:"pos"`
+					Counts    []int64    `json:"counts"`
+					Deviation []*float64 `json:"deviation"`
+				} `json:"trace"`
+				Segments []struct {
+					Statistic string    `json:"statistic"`
+					P         []float64 `json:"p"`
+				} `json:"segment_p_values"`
+			} `json:"plot_data"`
+		} `json:"audits"`
+	}
+	if err := json.Unmarshal(out, &doc); err != nil || len(doc.Audits) != 1 {
+		t.Fatalf("%v", err)
+	}
+	a := doc.Audits[0]
+	p := a.Plots
+	var sum int64
+	for _, c := range p.DigitCounts {
+		sum += c
+	}
+	if sum != a.Digits || len(p.DigitCounts) != 10 || len(p.BandLow) != 10 || len(p.BandHigh) != 10 {
+		t.Errorf("digit counts %v (sum %d of %d), band %d/%d entries", p.DigitCounts, sum, a.Digits, len(p.BandLow), len(p.BandHigh))
+	}
+	last := p.Trace[len(p.Trace)-1]
+	if last.Pos != a.Digits || !slices.Equal(last.Counts, p.DigitCounts) || len(last.Deviation) != 10 {
+		t.Errorf("the trace ends at %d with %v, deviations %d", last.Pos, last.Counts, len(last.Deviation))
+	}
+	if len(p.Segments) < 3 {
+		t.Errorf("%d segment series", len(p.Segments))
+	}
+	for _, s := range p.Segments {
+		if len(s.P) != 5 {
+			t.Errorf("%s: %d segment p-values, want 5", s.Statistic, len(s.P))
+		}
 	}
 }
