@@ -366,3 +366,35 @@ func TestDecisive(t *testing.T) {
 		}
 	}
 }
+
+// Digits of a smaller base read in a larger one: the top digits never
+// occur, and the report says which base the input may be in (instead of
+// only "points to construction"); random digits, and a short input where
+// the absence is not yet telling, get no such note.
+func TestMissingTopDigitsNote(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	seven := make([]byte, 20000)
+	for i := range seven {
+		seven[i] = byte(rng.IntN(7))
+	}
+	notes := func(d []byte) string {
+		r, err := Digits(d, 10, Source{Name: "t", Kind: "built-in", Bytes: -1}, DefaultOptions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		return strings.Join(r.Notes, "\n")
+	}
+	if n := notes(seven); !strings.Contains(n, "digits 7 to 9 never occur") || !strings.Contains(n, "may be in base 7 (audit it with Base 7)") || strings.Contains(n, "construction") {
+		t.Errorf("base-7 digits read as base 10: notes %q", n)
+	}
+	ten := make([]byte, 20000)
+	for i := range ten {
+		ten[i] = byte(rng.IntN(10))
+	}
+	if n := notes(ten); strings.Contains(n, "never occur") {
+		t.Errorf("random decimals: %q", n)
+	}
+	if n := notes(seven[:40]); strings.Contains(n, "never occur") { // (7/10)^40 ≈ 6e-7: not below e^-20
+		t.Errorf("40 digits: %q", n)
+	}
+}

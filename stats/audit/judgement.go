@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 	"sync"
 
@@ -88,6 +89,36 @@ func runChecks(in checks.Input, opts Options) checks.Result {
 		}
 	}
 	return out
+}
+
+// missingTopDigits says so when the top digits of the base never occur
+// although independent digits would have shown them (the chance that b − m
+// given digits all stay absent from n is (m/b)^n; said below e^-20): the
+// digits are likely in base m, the largest digit seen plus one.
+func missingTopDigits(counts []int64, n int64, opts Options) string {
+	b := len(counts)
+	m := 0
+	for d, c := range counts {
+		if c > 0 {
+			m = d + 1
+		}
+	}
+	if m < 2 || m >= b || float64(n)*math.Log(float64(b)/float64(m)) < 20 {
+		return ""
+	}
+	return fmt.Sprintf("digits %s to %s never occur in these %d digits, which independent base-%d digits would all but certainly have shown: the input may be in base %d (audit it with %s %d)",
+		digitName(m), digitName(b-1), n, b, m, opts.name(OptBase), m)
+}
+
+// digitName writes a digit as inputs do: 0-9, then a-z, then its value.
+func digitName(d int) string {
+	switch {
+	case d < 10:
+		return strconv.Itoa(d)
+	case d < 36:
+		return string(rune('a' + d - 10))
+	}
+	return strconv.Itoa(d)
 }
 
 // Finish runs the checks on a finished tally of the whole sequence and
@@ -197,7 +228,11 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	if len(res.Findings) == 0 {
 		res.Verdict = Untested
 	}
-	if res.Verdict == NotConsistent {
+	wrongBase := missingTopDigits(res.DigitCounts, res.Digits, opts)
+	if wrongBase != "" {
+		res.Notes = append(res.Notes, wrongBase)
+	}
+	if res.Verdict == NotConsistent && wrongBase == "" { // digits of a smaller base fit too well in some checks: not construction
 		for _, f := range res.Findings {
 			if f.Mark == MarkTooUniform {
 				res.Notes = append(res.Notes, "some findings are also too uniform: the sequence deviates in some respects and fits better than chance allows in others, which points to construction rather than chance")

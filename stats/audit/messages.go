@@ -12,6 +12,7 @@ const (
 	OptSegments = "Segments"
 	OptChecks   = "Checks"
 	OptNull     = "Null"
+	OptBase     = "Base" // the base the digits are read in (a reader's option)
 )
 
 // name returns how messages name an option.

@@ -457,10 +457,26 @@ func (r *Reader) textError(chunk []byte, i int, code byte) error {
 		e.Reason = "is a sign, which a digit sequence cannot have; give the digits after the radix point"
 	case c == 0:
 		e.Reason = fmt.Sprintf("is a NUL byte, not a digit; is this UTF-16 or binary data? Use %s or %s for bytes", r.opt.name("Raw"), r.opt.name("Bits"))
+	case binaryByte(chunk[i:]):
+		e.Reason = fmt.Sprintf("is not a digit of base %d, nor text: if the input holds raw bytes, use %s (or %s for bits)", r.opt.Base, r.opt.name("Raw"), r.opt.name("Bits"))
 	default:
 		e.Reason = fmt.Sprintf("is not a digit of base %d (digits are 0-9 then a-z; whitespace is ignored)", r.opt.Base)
 	}
 	return e
+}
+
+// binaryByte reports whether b starts with what no text holds: a control
+// character other than whitespace, or a byte that starts no valid UTF-8.
+func binaryByte(b []byte) bool {
+	c := b[0]
+	if c < 0x20 || c == 0x7f {
+		return true
+	}
+	if c < utf8.RuneSelf {
+		return false
+	}
+	r, size := utf8.DecodeRune(b)
+	return r == utf8.RuneError && size <= 1 && utf8.FullRune(b)
 }
 
 func digitValue(c byte) int {

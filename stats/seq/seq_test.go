@@ -88,7 +88,10 @@ func TestBadText(t *testing.T) {
 		{"late point", "1415 9.2", 10, `'.' is a radix point after the start of the digits`},
 		{"sign", "-0.5", 10, `'-' is a sign`},
 		{"unprintable", "12\x0734", 10, `'\a' is not a digit of base 10`},
-		{"utf8", "12é", 10, `'é' is not a digit of base 10`},
+		{"utf8", "12é", 10, `'é' is not a digit of base 10 (digits are`},
+		// Raw output read as text: a byte no text holds points to Raw.
+		{"binary", "12\x92\x13", 10, `is not a digit of base 10, nor text: if the input holds raw bytes, use Raw (or Bits for bits)`},
+		{"control", "12\x0734", 10, `nor text: if the input holds raw bytes, use Raw`},
 		{"empty", "", 10, "t: the input is empty"},
 		{"whitespace", " \n\t\n", 10, "t: the input holds no digits (only whitespace)"},
 		{"only integer part", "3.\n", 10, "no digits after the radix point"},
