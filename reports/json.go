@@ -109,6 +109,7 @@ type JSONFinding struct {
 	Holm           JSONTails      `json:"holm"`
 	BH             JSONTails      `json:"bh"`
 	Mark           string         `json:"mark"`
+	Where          string         `json:"where,omitempty"`
 	Detail         string         `json:"detail,omitempty"`
 	Notes          []string       `json:"notes"`
 }
@@ -271,7 +272,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
 			Holm: tails(f.LogHolmUpper, f.LogHolmLower), BH: tails(f.LogBHUpper, f.LogBHLower),
-			Mark: f.Mark, Detail: f.Detail, Notes: nonNil(f.Notes),
+			Mark: f.Mark, Where: f.Where, Detail: f.Detail, Notes: nonNil(f.Notes),
 		})
 	}
 	for _, s := range r.Skips {

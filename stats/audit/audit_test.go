@@ -398,3 +398,38 @@ func TestMissingTopDigitsNote(t *testing.T) {
 		t.Errorf("40 digits: %q", n)
 	}
 }
+
+// A failing finding says where: bytes whose value 0x00 is 0.25% too
+// frequent get "byte 0x00: +…σ" first among freq's largest deviations, in
+// the finding's notes (so in every format) and in Where; a passing finding
+// gets no such note.
+func TestFindingsSayWhere(t *testing.T) {
+	rng := rand.New(rand.NewPCG(6, 6))
+	d := make([]byte, 1_000_000)
+	for i := range d {
+		d[i] = byte(rng.IntN(256))
+		if i%400 == 0 {
+			d[i] = 0
+		}
+	}
+	r, err := Digits(d, 256, Source{Name: "t", Kind: "built-in", Bytes: -1}, DefaultOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	seen := false
+	for _, f := range r.Findings {
+		note := strings.Join(f.Notes, " ")
+		if f.Check == "freq" && f.Statistic == "X2" {
+			seen = true
+			if f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "byte 0x00: +") || !strings.Contains(note, "largest deviations (O − E)/√E: byte 0x00: +") {
+				t.Errorf("freq: mark %q, where %q, notes %q", f.Mark, f.Where, note)
+			}
+		}
+		if f.Mark == "" && strings.Contains(note, "largest deviations") {
+			t.Errorf("%s %s: a passing finding names deviations", f.Check, f.Statistic)
+		}
+	}
+	if !seen {
+		t.Error("no freq X² finding")
+	}
+}

@@ -267,6 +267,9 @@ func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
 		case a.LogAdjUpper <= lnAlpha, a.TwoSided && a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkDeviates
 			verdict = NotConsistent
+			if a.Where != "" { // say where, in every format's notes
+				a.Notes = append(slices.Clone(a.Notes), "largest deviations (O − E)/√E: "+a.Where)
+			}
 		case a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkTooUniform
 			if verdict == Consistent {

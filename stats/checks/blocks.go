@@ -58,12 +58,17 @@ func (blocksCheck) Run(in Input, out *Result) {
 			continue
 		}
 		var x2 float64
+		exp := make([]float64, len(counts))
 		if in.Null.IsUniform() {
 			x2 = uniformX2(counts, m)
+			for w := range exp {
+				exp[w] = float64(m) / float64(len(counts))
+			}
 		} else {
 			cs := newCellStat()
 			for w, pw := range in.Null.BlockProbs(k) {
-				cs.add(counts[w], float64(m)*pw)
+				exp[w] = float64(m) * pw
+				cs.add(counts[w], exp[w])
 			}
 			x2 = cs.x2
 		}
@@ -71,6 +76,8 @@ func (blocksCheck) Run(in Input, out *Result) {
 		if in.Null.Kind == Fitted {
 			df = math.Pow(S, float64(k)) - S
 		}
-		out.Findings = append(out.Findings, chiSquareFinding("blocks", "X2", params, x2, df, float64(m)*minP))
+		f := chiSquareFinding("blocks", "X2", params, x2, df, float64(m)*minP)
+		f.Where = topResiduals(counts, exp, 3, func(w int) string { return "block " + blockName(w, k, t.Base) })
+		out.Findings = append(out.Findings, f)
 	}
 }

@@ -10,6 +10,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
+	"strings"
 
 	"borel/internal/tally"
 	"borel/stats"
@@ -42,6 +44,69 @@ type Finding struct {
 	// false (and LogPAtom unused).
 	Discrete bool
 	LogPAtom float64
+	// Where names the cells that deviate most, by standardized residual
+	// (O − E)/√E, e.g. "digit 0: +6.3σ; digit 7: −3.1σ": what a reader of a
+	// failing finding asks first. Empty for statistics without cells.
+	Where string
+}
+
+// topResiduals writes the k cells of largest |(O − E)/√E|, named by name,
+// largest first: "name: +6.3σ; …". Cells of zero expectation are skipped.
+func topResiduals(obs []int64, exp []float64, k int, name func(i int) string) string {
+	type cell struct {
+		i int
+		r float64
+	}
+	var top []cell // the k largest |r| so far, largest first
+	for i, e := range exp {
+		if e <= 0 {
+			continue
+		}
+		c := cell{i, (float64(obs[i]) - e) / math.Sqrt(e)}
+		if len(top) == k && math.Abs(c.r) <= math.Abs(top[k-1].r) {
+			continue
+		}
+		if len(top) < k {
+			top = append(top, c)
+		} else {
+			top[k-1] = c
+		}
+		for j := len(top) - 1; j > 0 && math.Abs(top[j].r) > math.Abs(top[j-1].r); j-- {
+			top[j], top[j-1] = top[j-1], top[j]
+		}
+	}
+	parts := make([]string, len(top))
+	for n, c := range top {
+		parts[n] = fmt.Sprintf("%s: %+.1fσ", name(c.i), c.r)
+	}
+	return strings.Join(parts, "; ")
+}
+
+// DigitName names digit d of base b as inputs write it: 0-9 then a-z up to
+// base 36, a byte as 0xNN in base 256, the value otherwise.
+func DigitName(d, b int) string {
+	switch {
+	case b == 256:
+		return fmt.Sprintf("0x%02x", d)
+	case d < 10:
+		return strconv.Itoa(d)
+	case b <= 36:
+		return string(rune('a' + d - 10))
+	}
+	return strconv.Itoa(d)
+}
+
+// blockName writes block w of k digits of base b, first digit first.
+func blockName(w, k, b int) string {
+	ds := make([]string, k)
+	for i := k - 1; i >= 0; i-- {
+		ds[i] = DigitName(w%b, b)
+		w /= b
+	}
+	if b <= 36 {
+		return strings.Join(ds, "")
+	}
+	return strings.Join(ds, " ")
 }
 
 // setDiscrete sets a finding's tails from its discrete law.

@@ -65,6 +65,18 @@ func (freqCheck) Run(in Input, out *Result) {
 	}
 	df := float64(in.Null.Symbols() - 1)
 	sparse := cs.minExp < in.Opts.MinExpected
+	unit := "digit "
+	if len(counts) == 256 {
+		unit = "byte "
+	}
+	where := topResiduals(counts, exps, 3, func(i int) string { return unit + DigitName(i, len(counts)) })
+	defer func() { // every freq finding names its most deviant digits
+		for i := range out.Findings {
+			if out.Findings[i].Check == "freq" && out.Findings[i].Where == "" {
+				out.Findings[i].Where = where
+			}
+		}
+	}()
 	if law, ok := stats.MultinomialX2Law(t.N, in.Null.P); ok {
 		x2 := chiSquareFinding("freq", "X2", params, cs.x2, df, cs.minExp)
 		x2.setDiscrete(law.LogTails(cs.x2))
