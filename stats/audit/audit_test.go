@@ -432,4 +432,14 @@ func TestFindingsSayWhere(t *testing.T) {
 	if !seen {
 		t.Error("no freq X² finding")
 	}
+	// Gap's classes of bytes are explained: in the notes, and in each
+	// class finding's detail.
+	if n := strings.Join(r.Notes, " "); !strings.Contains(n, "class 0 is 0x00–0x0f") {
+		t.Errorf("no note on gap's classes: %q", n)
+	}
+	for _, f := range r.Findings {
+		if c, ok := f.Params["class"]; ok && f.Check == "gap" && c == 1 && !strings.HasPrefix(f.Detail, "class 1: digits 0x10 to 0x1f") {
+			t.Errorf("gap class 1 detail %q", f.Detail)
+		}
+	}
 }

@@ -91,6 +91,17 @@ func runChecks(in checks.Input, opts Options) checks.Result {
 	return out
 }
 
+// gapClassNote says which digits form gap's classes above base 36 (16
+// classes of consecutive digits, checks.gapCheck's Needs: digit d is in
+// class ⌊16d/b⌋).
+func gapClassNote(b int) string {
+	if b == 256 {
+		return "gap's class c holds the 16 byte values whose first hex digit is c: class 0 is 0x00–0x0f, class 1 0x10–0x1f, …, class 15 0xf0–0xff"
+	}
+	lo := func(c int) int { return (c*b + 15) / 16 }
+	return fmt.Sprintf("gap's class c holds the digits from ⌈cb/16⌉ to ⌈(c+1)b/16⌉ − 1 (class 0: 0 to %d, class 15: %d to %d)", lo(1)-1, lo(15), b-1)
+}
+
 // missingTopDigits says so when the top digits of the base never occur
 // although independent digits would have shown them (the chance that b − m
 // given digits all stay absent from n is (m/b)^n; said below e^-20): the
@@ -227,6 +238,12 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	res.Findings, res.Verdict = adjust(out.Findings, opts)
 	if len(res.Findings) == 0 {
 		res.Verdict = Untested
+	}
+	for _, f := range res.Findings {
+		if _, ok := f.Params["class"]; ok && f.Check == "gap" {
+			res.Notes = append(res.Notes, gapClassNote(res.Base))
+			break
+		}
 	}
 	wrongBase := missingTopDigits(res.DigitCounts, res.Digits, opts)
 	if wrongBase != "" {

@@ -88,20 +88,41 @@ func (gapCheck) Run(in Input, out *Result) {
 		}
 		cs := newCellStat()
 		var tail int64
+		obs, exp := make([]int64, 0, tmax+1), make([]float64, 0, tmax+1)
 		for r, h := range hist {
 			if r < tmax {
 				cs.add(h, G*qc*math.Pow(1-qc, float64(r)))
+				obs, exp = append(obs, h), append(exp, G*qc*math.Pow(1-qc, float64(r)))
 			} else {
 				tail += h
 			}
 		}
 		cs.add(tail, G*math.Pow(1-qc, float64(tmax)))
+		obs, exp = append(obs, tail), append(exp, G*math.Pow(1-qc, float64(tmax)))
 		df := float64(tmax)
 		if in.Null.Kind == Fitted {
 			df--
 		}
 		f := chiSquareFinding("gap", "X2", params, cs.x2, df, cs.minExp)
 		f.Detail = fmt.Sprintf("%d gaps, lengths 0..%d and ≥%d", gaps, tmax-1, tmax)
+		if rec.Class != nil { // say which digits form the class
+			lo, hi := -1, -1
+			for d, cl := range rec.Class {
+				if cl == c {
+					if lo < 0 {
+						lo = d
+					}
+					hi = d
+				}
+			}
+			f.Detail = fmt.Sprintf("class %d: digits %s to %s; %s", c, DigitName(lo, in.Tally.Base), DigitName(hi, in.Tally.Base), f.Detail)
+		}
+		f.Where = topResiduals(obs, exp, 3, func(r int) string {
+			if r == tmax {
+				return fmt.Sprintf("gaps ≥ %d", tmax)
+			}
+			return fmt.Sprintf("gaps of %d", r)
+		})
 		out.Findings = append(out.Findings, f)
 	}
 }
