@@ -432,6 +432,12 @@ func TestFindingsSayWhere(t *testing.T) {
 	if !seen {
 		t.Error("no freq X² finding")
 	}
+	// Serial names overlapping windows: the most frequent pairs contain 0x00.
+	for _, f := range r.Findings {
+		if f.Check == "serial" && f.Mark == MarkDeviates && !strings.Contains(f.Where, "0x00") {
+			t.Errorf("serial %s %v: where %q names no window with 0x00", f.Statistic, f.Params, f.Where)
+		}
+	}
 	// Gap's classes of bytes are explained: in the notes, and in each
 	// class finding's detail.
 	if n := strings.Join(r.Notes, " "); !strings.Contains(n, "class 0 is 0x00–0x0f") {

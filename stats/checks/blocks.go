@@ -58,26 +58,24 @@ func (blocksCheck) Run(in Input, out *Result) {
 			continue
 		}
 		var x2 float64
-		exp := make([]float64, len(counts))
+		expOf := func(int) float64 { return float64(m) / float64(len(counts)) }
 		if in.Null.IsUniform() {
 			x2 = uniformX2(counts, m)
-			for w := range exp {
-				exp[w] = float64(m) / float64(len(counts))
-			}
 		} else {
 			cs := newCellStat()
-			for w, pw := range in.Null.BlockProbs(k) {
-				exp[w] = float64(m) * pw
-				cs.add(counts[w], exp[w])
+			probs := in.Null.BlockProbs(k)
+			for w, pw := range probs {
+				cs.add(counts[w], float64(m)*pw)
 			}
 			x2 = cs.x2
+			expOf = func(w int) float64 { return float64(m) * probs[w] }
 		}
 		df := math.Pow(S, float64(k)) - 1
 		if in.Null.Kind == Fitted {
 			df = math.Pow(S, float64(k)) - S
 		}
 		f := chiSquareFinding("blocks", "X2", params, x2, df, float64(m)*minP)
-		f.Where = topResiduals(counts, exp, 3, func(w int) string { return "block " + blockName(w, k, t.Base) })
+		f.Where = topResidualsOf(counts, expOf, 3, func(w int) string { return "block " + blockName(w, k, t.Base) })
 		out.Findings = append(out.Findings, f)
 	}
 }

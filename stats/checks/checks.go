@@ -53,17 +53,25 @@ type Finding struct {
 // topResiduals writes the k cells of largest |(O − E)/√E|, named by name,
 // largest first: "name: +6.3σ; …". Cells of zero expectation are skipped.
 func topResiduals(obs []int64, exp []float64, k int, name func(i int) string) string {
+	return topResidualsOf(obs, func(i int) float64 { return exp[i] }, k, name)
+}
+
+// topResidualsOf is topResiduals with the expectations as a function (a
+// constant for the uniform null: no table of 10^7 of them).
+func topResidualsOf(obs []int64, expOf func(i int) float64, k int, name func(i int) string) string {
 	type cell struct {
-		i int
-		r float64
+		i      int
+		d, sq2 float64 // O − E, and (O − E)²/E, compared without a root
 	}
-	var top []cell // the k largest |r| so far, largest first
-	for i, e := range exp {
+	var top []cell // the k largest so far, largest first
+	for i := range obs {
+		e := expOf(i)
 		if e <= 0 {
 			continue
 		}
-		c := cell{i, (float64(obs[i]) - e) / math.Sqrt(e)}
-		if len(top) == k && math.Abs(c.r) <= math.Abs(top[k-1].r) {
+		d := float64(obs[i]) - e
+		c := cell{i, d, d * d / e}
+		if len(top) == k && c.sq2 <= top[k-1].sq2 {
 			continue
 		}
 		if len(top) < k {
@@ -71,13 +79,13 @@ func topResiduals(obs []int64, exp []float64, k int, name func(i int) string) st
 		} else {
 			top[k-1] = c
 		}
-		for j := len(top) - 1; j > 0 && math.Abs(top[j].r) > math.Abs(top[j-1].r); j-- {
+		for j := len(top) - 1; j > 0 && top[j].sq2 > top[j-1].sq2; j-- {
 			top[j], top[j-1] = top[j-1], top[j]
 		}
 	}
 	parts := make([]string, len(top))
 	for n, c := range top {
-		parts[n] = fmt.Sprintf("%s: %+.1fσ", name(c.i), c.r)
+		parts[n] = fmt.Sprintf("%s: %+.1fσ", name(c.i), math.Copysign(math.Sqrt(c.sq2), c.d))
 	}
 	return strings.Join(parts, "; ")
 }

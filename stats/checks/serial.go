@@ -67,6 +67,19 @@ func Psi2(cyclic [][]int64, null Null, n int64) []float64 {
 	return psi
 }
 
+// windowResiduals names the overlapping k-windows of largest
+// standardized residual (O − n p(w))/√(n p(w)), from the cyclic counts.
+func windowResiduals(in Input, k int) string {
+	counts := in.Cyclic[k]
+	n := float64(in.Tally.N)
+	expOf := func(int) float64 { return n / float64(len(counts)) }
+	if !in.Null.IsUniform() {
+		probs := in.Null.BlockProbs(k)
+		expOf = func(w int) float64 { return n * probs[w] }
+	}
+	return topResidualsOf(counts, expOf, 3, func(w int) string { return "window " + blockName(w, k, in.Tally.Base) })
+}
+
 func (serialCheck) Run(in Input, out *Result) {
 	K := in.MaxBlock()
 	if K < 2 {
@@ -98,6 +111,7 @@ func (serialCheck) Run(in Input, out *Result) {
 		}
 		d := chiSquareFinding("serial", "dpsi2", params, at(k)-at(k-1), dfD, minExp)
 		d.Notes = notes
+		d.Where = windowResiduals(in, k)
 		bitLaw := func(second bool, f *Finding) {
 			if k != 2 || fitted || len(in.Null.P) != 2 {
 				return
@@ -118,6 +132,7 @@ func (serialCheck) Run(in Input, out *Result) {
 		dfD2 := math.Pow(S, float64(k-2)) * (S - 1) * (S - 1)
 		d2 := chiSquareFinding("serial", "d2psi2", params, at(k)-2*at(k-1)+at(k-2), dfD2, minExp)
 		d2.Notes = notes
+		d2.Where = d.Where
 		bitLaw(true, &d2)
 		out.Findings = append(out.Findings, d2)
 	}
