@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"bytes"
 	"encoding/csv"
 	"fmt"
 	"io"
@@ -61,6 +62,18 @@ func CSV(w io.Writer, doc Document) error {
 	for _, v := range doc.Inputs {
 		h, reason := inputHeadline(v)
 		fmt.Fprintf(w, "# %s; %s\n", h, reason)
+	}
+	if len(doc.Results) > 1 {
+		// The side-by-side table first, as comment lines (its columns are
+		// ComparisonCSVHeader's; the table of findings below is the data).
+		var buf bytes.Buffer
+		if err := comparisonCSVRows(&buf, doc); err != nil {
+			return err
+		}
+		fmt.Fprintln(w, "# side by side:")
+		for _, line := range strings.Split(strings.TrimRight(buf.String(), "\n"), "\n") {
+			fmt.Fprintf(w, "# %s\n", line)
+		}
 	}
 	for _, r := range doc.Results {
 		for _, p := range provenance(doc, r)[3:] {

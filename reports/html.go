@@ -2,6 +2,7 @@ package reports
 
 import (
 	"bytes"
+	"fmt"
 	"html/template"
 	"io"
 	"strconv"
@@ -12,6 +13,7 @@ import (
 
 type htmlAudit struct {
 	Title, Verdict, VerdictClass, Reason string
+	Anchor                               string // the id the contents link to
 	Provenance                           [][2]string
 	Header                               []string
 	Rows                                 [][]string
@@ -50,8 +52,14 @@ var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"i
 {{define "body"}}<section class="borel-report">
 {{range .Inputs}}<h2><span class="verdict {{.Class}}">{{.Headline}}</span></h2>
 <p>{{.Reason}}</p>
+{{end}}{{if .SummaryRows}}<h2>Side by side</h2>
+<table>
+<tr>{{range .SummaryHeader}}<th>{{.}}</th>{{end}}</tr>
+{{range .SummaryRows}}<tr>{{range $i, $c := .}}<td{{if or (eq $i 1) (eq $i 2) (eq $i 4) (eq $i 6) (eq $i 7)}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
+{{end}}</table>
+<p>Contents:</p><ol>{{range .Audits}}<li><a href="#{{.Anchor}}">{{.Title}}</a>: {{.Verdict}}</li>{{end}}</ol>
 {{end}}{{range .Audits}}
-<h2>{{.Title}}: <span class="verdict {{.VerdictClass}}">{{.Verdict}}</span></h2>
+<h2 id="{{.Anchor}}">{{.Title}}: <span class="verdict {{.VerdictClass}}">{{.Verdict}}</span></h2>
 <p>{{.Reason}}</p>
 <table>{{range .Provenance}}<tr><th scope="row">{{index . 0}}</th><td>{{index . 1}}</td></tr>{{end}}</table>
 <table>
@@ -101,6 +109,8 @@ func inlineSVG(svg []byte) template.HTML {
 
 type htmlDoc struct {
 	Inputs                 []htmlInput
+	SummaryHeader          []string // the side-by-side table, for two results or more
+	SummaryRows            [][]string
 	Audits                 []htmlAudit
 	Caution, Version, Date string
 	Style                  template.HTML
@@ -121,11 +131,15 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 		h, reason := inputHeadline(v)
 		pg.Inputs = append(pg.Inputs, htmlInput{Headline: h, Reason: reason, Class: strings.ReplaceAll(v.Verdict, " ", "-")})
 	}
-	for _, r := range doc.Results {
+	if len(doc.Results) > 1 {
+		pg.SummaryHeader, pg.SummaryRows = summaryRows(doc)
+	}
+	for i, r := range doc.Results {
 		a, err := htmlAuditOf(doc, r)
 		if err != nil {
 			return err
 		}
+		a.Anchor = fmt.Sprintf("borel-audit-%d", i+1)
 		pg.Audits = append(pg.Audits, a)
 	}
 	var buf bytes.Buffer

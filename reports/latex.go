@@ -94,6 +94,16 @@ func LaTeX(w io.Writer, doc Document) error {
 		h, reason := inputHeadline(v)
 		fmt.Fprintf(bw, "\n\\paragraph{%s.} %s\n", texEscape(h), texEscape(reason))
 	}
+	if len(doc.Results) > 1 { // the side-by-side table first, as a float like the others
+		fmt.Fprintln(bw)
+		fmt.Fprintln(bw, `\begin{table}[htbp]`)
+		fmt.Fprintln(bw, `\centering\scriptsize`)
+		if err := summaryTabular(bw, doc); err != nil {
+			return err
+		}
+		fmt.Fprintln(bw, `\caption{borel: the audits side by side (verdict, smallest adjusted $p$-value and the finding it comes from, dimension estimate and its interval; the entropy deficit is 1 minus the dimension).}`)
+		fmt.Fprintln(bw, `\end{table}`)
+	}
 	for _, r := range doc.Results {
 		fmt.Fprintln(bw)
 		for _, p := range provenance(doc, r) {

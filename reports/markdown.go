@@ -95,6 +95,13 @@ func Markdown(w io.Writer, doc Document) error {
 		h, reason := inputHeadline(v)
 		fmt.Fprintf(bw, "**%s**\n\n%s\n\n", mdCell(h), mdCell(reason))
 	}
+	if len(doc.Results) > 1 {
+		h, rows := summaryRows(doc)
+		fmt.Fprintln(bw, "**Side by side**")
+		fmt.Fprintln(bw)
+		mdTable(bw, h, rows, summaryAlign)
+		fmt.Fprintln(bw)
+	}
 	for _, r := range doc.Results {
 		fmt.Fprintf(bw, "### borel audit of %s in base %d: %s\n\n", mdCell(r.Source.Name), r.Base, r.Verdict)
 		fmt.Fprintf(bw, "%s\n\n", mdCell(verdictReason(r)))

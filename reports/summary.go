@@ -80,6 +80,11 @@ var ComparisonCSVHeader = []string{"sequence", "base", "digits", "verdict", "log
 
 func comparisonCSV(w io.Writer, doc Document) error {
 	fmt.Fprintf(w, "# borel %s comparison, %s\n# command: %s\n# %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "), Caution)
+	return comparisonCSVRows(w, doc)
+}
+
+// comparisonCSVRows writes the side-by-side table's header and rows.
+func comparisonCSVRows(w io.Writer, doc Document) error {
 	cw := csv.NewWriter(w)
 	cw.Write(ComparisonCSVHeader)
 	num := func(v float64) string {
@@ -112,26 +117,39 @@ func comparisonCSV(w io.Writer, doc Document) error {
 }
 
 func comparisonLaTeX(w io.Writer, doc Document) error {
-	h, rows := summaryRows(doc)
 	fmt.Fprintf(w, "%% borel %s comparison, %s. Needs \\usepackage{booktabs}.\n%% command: %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
-	fmt.Fprintln(w, `\begin{tabular}{lrrllllrl}`)
+	return summaryTabular(w, doc)
+}
+
+// summaryTabular writes the side-by-side table as a LaTeX tabular that fits
+// an article's text width: the long cells (sequence, verdict, finding)
+// wrap in paragraph columns, the dimension and its interval share one
+// cell, and the deficit (1 − dimension) is left to the caption; the column
+// gap is halved. (With every column of the text table it ran 295 pt past
+// an 11 pt article's text block.)
+func summaryTabular(w io.Writer, doc Document) error {
+	_, rows := summaryRows(doc)
+	fmt.Fprintln(w, `{\setlength{\tabcolsep}{3pt}`)
+	fmt.Fprintln(w, `\begin{tabular}{@{}p{0.17\linewidth}rrp{0.11\linewidth}rp{0.17\linewidth}p{0.2\linewidth}@{}}`)
 	fmt.Fprintln(w, `\toprule`)
-	for i, c := range h {
-		h[i] = texEscape(c)
-	}
-	fmt.Fprintf(w, "%s \\\\\n\\midrule\n", strings.Join(h, " & "))
+	fmt.Fprintln(w, `sequence & base & digits & verdict & least adj.\ $p$ & from & dimension [interval] \tabularnewline`)
+	fmt.Fprintln(w, `\midrule`)
 	for _, r := range rows {
-		cells := make([]string, len(r))
-		for i, c := range r {
-			cells[i] = texEscape(c)
-			if exp, ok := strings.CutPrefix(c, "10^"); ok { // a p-value below 1e-10, in math mode
-				cells[i] = "$10^{" + exp + "}$"
-			}
+		p := texEscape(r[4])
+		if exp, ok := strings.CutPrefix(r[4], "10^"); ok { // a p-value below 1e-10, in math mode
+			p = "$10^{" + exp + "}$"
 		}
-		fmt.Fprintf(w, "%s \\\\\n", strings.Join(cells, " & "))
+		dim := texEscape(r[7])
+		if r[8] != "–" {
+			dim += " " + texEscape(r[8])
+		}
+		// \raggedright in the paragraph cells (no hyphens, no stretched
+		// gaps); rows end with \tabularnewline, which it leaves alone.
+		rr := `\raggedright `
+		fmt.Fprintf(w, "%s%s & %s & %s & %s%s & %s & %s%s & %s%s \\tabularnewline\n", rr, texEscape(r[0]), r[1], r[2], rr, texEscape(r[3]), p, rr, texEscape(r[5]), rr, dim)
 	}
 	fmt.Fprintln(w, `\bottomrule`)
-	_, err := fmt.Fprintln(w, `\end{tabular}`)
+	_, err := fmt.Fprintln(w, `\end{tabular}}`)
 	return err
 }
 

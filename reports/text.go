@@ -23,18 +23,18 @@ func Text(w io.Writer, doc Document) error {
 		fmt.Fprintln(bw, indent(wrap(reason, 98), "  "))
 		fmt.Fprintln(bw)
 	}
+	if len(doc.Results) > 1 { // the side-by-side table first, every report after it
+		fmt.Fprintln(bw, "Side by side")
+		if err := Summary(bw, doc); err != nil {
+			return err
+		}
+		fmt.Fprintln(bw)
+	}
 	for i, r := range doc.Results {
 		if i > 0 {
 			fmt.Fprintln(bw)
 		}
 		if err := textResult(bw, doc, r); err != nil {
-			return err
-		}
-	}
-	if len(doc.Results) > 1 {
-		fmt.Fprintln(bw)
-		fmt.Fprintln(bw, "Side by side")
-		if err := Summary(bw, doc); err != nil {
 			return err
 		}
 	}

@@ -282,3 +282,30 @@ func TestJSONPlotData(t *testing.T) {
 		}
 	}
 }
+
+// Every format of a report with several audits opens with the side-by-side
+// table (before it, only text, Markdown and LaTeX had it, text at the
+// end): a --bases audit in text, md, tex, html and csv. The HTML page also
+// has contents linking to each audit.
+func TestSummaryFirstInEveryFormat(t *testing.T) {
+	for _, c := range []struct{ format, summary, firstAudit string }{
+		{"text", "Side by side", "borel audit of pi\n"},
+		{"md", "**Side by side**", "### borel audit of pi in base 2"},
+		{"tex", "the audits side by side", "\\begin{tabular}{lllrrrrrl}"},
+		{"html", "<h2>Side by side</h2>", `<h2 id="borel-audit-1">borel audit of pi in base 2`},
+		{"csv", "# side by side:", "sequence,base,digits,null,verdict"},
+	} {
+		code, out, errs := runBorel(t, nil, "audit", "--source", "pi", "--count", "20000", "--bases", "2,10", "--format", c.format)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", c.format, code, errs)
+		}
+		s := string(out)
+		i, j := strings.Index(s, c.summary), strings.Index(s, c.firstAudit)
+		if i < 0 || j < 0 || i > j {
+			t.Errorf("%s: summary at %d, first audit at %d", c.format, i, j)
+		}
+		if c.format == "html" && (!strings.Contains(s, `<a href="#borel-audit-2">`) || !strings.Contains(s, `id="borel-audit-2"`)) {
+			t.Errorf("html: no contents link to the second audit")
+		}
+	}
+}
