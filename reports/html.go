@@ -38,7 +38,7 @@ const htmlStyle = `<style>
 .borel-report h2 { font-size: 1.25em; margin-top: 2em; border-bottom: 1px solid #999; }
 .borel-report table { border-collapse: collapse; margin: 0.8em 0; font-size: 0.9em; }
 .borel-report th, .borel-report td { padding: 0.2em 0.6em; border-bottom: 1px solid #ddd; text-align: left; }
-.borel-report td.n { text-align: right; font-variant-numeric: tabular-nums; }
+.borel-report td.n { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 .borel-report th { border-bottom: 2px solid #333; }
 .borel-report .verdict { font-weight: bold; padding: 0.1em 0.5em; border: 2px solid #333; }
 .borel-report .not-consistent { background: #f2d0c8; } .borel-report .too-uniform { background: #d6dff2; }
