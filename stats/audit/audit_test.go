@@ -456,3 +456,22 @@ func TestFindingsSayWhere(t *testing.T) {
 		}
 	}
 }
+
+// Poker says where: digits that repeat the previous one too often make
+// hands with few distinct digits too common.
+func TestPokerSaysWhere(t *testing.T) {
+	d := expand.Sticky(300_000, 10, 0.03, rand.New(rand.NewPCG(9, 9)))
+	r, err := Digits(d, 10, Source{Name: "t", Kind: "built-in", Bytes: -1}, DefaultOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range r.Findings {
+		if f.Check == "poker" {
+			if f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "hands of ") || !strings.Contains(f.Where, "distinct digits: +") {
+				t.Errorf("poker: mark %q, where %q", f.Mark, f.Where)
+			}
+			return
+		}
+	}
+	t.Error("no poker finding")
+}

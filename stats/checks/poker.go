@@ -139,7 +139,7 @@ func (pokerCheck) Run(in Input, out *Result) {
 	for r, pr := range probs {
 		exp[r] = float64(hands) * pr
 	}
-	_, pe := poolClasses(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
+	po, pe := poolClasses(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
 	x2, classes, smallest := pooledChiSquare(rec.Counts[1:], exp[1:], in.Opts.MinExpected)
 	if classes < 2 {
 		out.Skips = append(out.Skips, Skip{Check: "poker", Params: params,
@@ -148,6 +148,22 @@ func (pokerCheck) Run(in Input, out *Result) {
 		return
 	}
 	f := chiSquareFinding("poker", "X2", params, x2, float64(classes-1), smallest)
+	group, _ := poolIndex(exp[1:], in.Opts.MinExpected)
+	f.Where = topResiduals(po, pe, 2, func(g int) string { // hands of r distinct digits, r in the pooled class g
+		lo, hi := -1, -1
+		for r, gr := range group {
+			if gr == g {
+				if lo < 0 {
+					lo = r + 1
+				}
+				hi = r + 1
+			}
+		}
+		if lo == hi {
+			return fmt.Sprintf("hands of %d distinct digits", lo)
+		}
+		return fmt.Sprintf("hands of %d–%d distinct digits", lo, hi)
+	})
 	f.Detail = fmt.Sprintf("%d hands, %d classes of distinct-digit counts after pooling", hands, classes)
 	switch {
 	case in.Null.Kind != Fitted:
@@ -160,7 +176,6 @@ func (pokerCheck) Run(in Input, out *Result) {
 			f.Detail += fmt.Sprintf("; p-values from the exact multinomial law of X² (%d count vectors)", law.Outcomes())
 		}
 	case in.Null.Digits == t.N:
-		group, _ := poolIndex(exp[1:], in.Opts.MinExpected)
 		lam := PokerFittedWeights(in.Null.P, h, group, classes)
 		f.LogPUpper, f.LogPLower = stats.WeightedChiSquareLogTails(x2, lam)
 		ws := make([]string, len(lam))
