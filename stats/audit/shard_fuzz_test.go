@@ -63,7 +63,7 @@ func damage(t *tally.Tally, ops []byte) {
 				c[int(i)%len(c)] = x
 			}
 		case 2:
-			if c := t.BlockCounts(int(i) % (t.MaxBlock + 1)); len(c) > 0 {
+			if c := t.BlockCounts(int(i) % max(1, t.MaxBlock+1)); len(c) > 0 {
 				c[int(i/8)%len(c)] = x
 			}
 		case 3:
