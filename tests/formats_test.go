@@ -56,20 +56,7 @@ func TestGoldenEveryFormat(t *testing.T) {
 // The LaTeX output compiles (when pdflatex is installed: Debian's
 // texlive-latex-base and texlive-latex-recommended for booktabs).
 func TestLaTeXCompiles(t *testing.T) {
-	pdflatex, err := exec.LookPath("pdflatex")
-	if err != nil {
-		t.Skip("pdflatex is not installed (apt-get install texlive-latex-base texlive-latex-recommended); LaTeX output not compiled")
-	}
-	// A TeX installation that cannot compile an empty article (pdflatex
-	// without its format file, a missing booktabs) cannot judge ours: skip,
-	// saying why.
-	probe := t.TempDir()
-	os.WriteFile(filepath.Join(probe, "probe.tex"), []byte("\\documentclass{article}\n\\usepackage{booktabs}\n\\begin{document}x\\end{document}\n"), 0o644)
-	pc := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "probe.tex")
-	pc.Dir = probe
-	if log, err := pc.CombinedOutput(); err != nil {
-		t.Skipf("pdflatex cannot compile an empty article with booktabs here (%v: %s); LaTeX output not compiled", err, lastLine(log))
-	}
+	pdflatex := usablePdflatex(t)
 	code, out, errs := runBorel(t, smallInput(t), append(reportArgs, "--format", "tex")...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -85,6 +72,53 @@ func TestLaTeXCompiles(t *testing.T) {
 	}
 	if st, err := os.Stat(filepath.Join(dir, "paper.pdf")); err != nil || st.Size() == 0 {
 		t.Errorf("no PDF: %v", err)
+	}
+}
+
+// usablePdflatex returns pdflatex, or skips the test when it is missing or
+// cannot compile an empty article with booktabs (pdflatex without its
+// format file cannot judge ours), saying why.
+func usablePdflatex(t *testing.T) string {
+	t.Helper()
+	pdflatex, err := exec.LookPath("pdflatex")
+	if err != nil {
+		t.Skip("pdflatex is not installed (apt-get install texlive-latex-base texlive-latex-recommended); LaTeX output not compiled")
+	}
+	probe := t.TempDir()
+	os.WriteFile(filepath.Join(probe, "probe.tex"), []byte("\\documentclass{article}\n\\usepackage{booktabs}\n\\begin{document}x\\end{document}\n"), 0o644)
+	pc := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "probe.tex")
+	pc.Dir = probe
+	if log, err := pc.CombinedOutput(); err != nil {
+		t.Skipf("pdflatex cannot compile an empty article with booktabs here (%v: %s); LaTeX output not compiled", err, lastLine(log))
+	}
+	return pdflatex
+}
+
+// The side-by-side table of the demo's LaTeX fits the text block of a
+// plain 11 pt article: compiled alone, it has no overfull box. (With every
+// column of the text table it ran 295 pt past it.)
+func TestLaTeXSummaryFits(t *testing.T) {
+	pdflatex := usablePdflatex(t)
+	code, out, errs := runBorel(t, nil, "demo", "--format", "tex")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	s := string(out)
+	i, j := strings.Index(s, "\\begin{table}"), strings.Index(s, "\\end{table}")
+	if i < 0 || j < i || !strings.Contains(s[i:j], "side by side") {
+		t.Fatalf("no side-by-side float first in the demo's LaTeX")
+	}
+	dir := t.TempDir()
+	doc := "\\documentclass[11pt]{article}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\begin{document}\n" + s[i:j+len("\\end{table}")] + "\n\\end{document}\n"
+	os.WriteFile(filepath.Join(dir, "summary.tex"), []byte(doc), 0o644)
+	cmd := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "summary.tex")
+	cmd.Dir = dir
+	log, err := cmd.CombinedOutput()
+	if err != nil {
+		t.Fatalf("pdflatex failed: %v\n%s", err, log[max(0, len(log)-2000):])
+	}
+	if k := bytes.Index(log, []byte("Overfull \\hbox")); k >= 0 {
+		t.Errorf("the summary table does not fit: %s", log[k:min(len(log), k+80)])
 	}
 }
 

@@ -112,17 +112,23 @@ func runTally(e env, args []string) (int, error) {
 	sh := &tally.Shard{Writer: "borel " + version, Null: tally.ShardNull{Kind: opts.Null.Kind.String(), P: opts.Null.P},
 		Source: tally.ShardInput{Name: src.Name, Bytes: src.Bytes, SHA256: src.SHA256},
 		Tally:  t}
-	var buf bytes.Buffer
-	if err := tally.WriteShard(&buf, sh); err != nil {
-		return 0, err
-	}
-	if err := writeAtomic(*output, buf.Bytes()); err != nil {
+	if err := writeShardFile(*output, sh); err != nil {
 		return 0, err
 	}
 	if !*quiet {
 		fmt.Fprintf(e.stderr, "borel: digits %d to %d of the sequence tallied into %s\n", *offset, *offset+sh.Tally.N-1, *output)
 	}
 	return exitOK, nil
+}
+
+// writeShardFile writes a shard to path, atomically where path is a
+// regular file (writeAtomic's rules).
+func writeShardFile(path string, sh *tally.Shard) error {
+	var buf bytes.Buffer
+	if err := tally.WriteShard(&buf, sh); err != nil {
+		return err
+	}
+	return writeAtomic(path, buf.Bytes())
 }
 
 const mergeHelp = `Usage: borel merge SHARD... [--alpha A] [--adjust holm|bh] [--strict] [REPORT OPTIONS]
@@ -255,11 +261,7 @@ func runMerge(e env, args []string) (int, error) {
 		sh := &tally.Shard{Writer: "borel " + version, Null: first.info.Null,
 			Source: tally.ShardInput{Name: "merge of " + strings.Join(names, ", "), Bytes: size},
 			Tally:  merged}
-		var buf bytes.Buffer
-		if err := tally.WriteShard(&buf, sh); err != nil {
-			return 0, err
-		}
-		if err := writeAtomic(*into, buf.Bytes()); err != nil {
+		if err := writeShardFile(*into, sh); err != nil {
 			return 0, err
 		}
 		if !out.quiet {

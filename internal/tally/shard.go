@@ -9,6 +9,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -135,15 +136,16 @@ func WriteShard(w io.Writer, s *Shard) error {
 // 40 MB for a 21 MB shard), at most 256 MiB ahead of the bytes read, so a
 // damaged header's claim is never allocated.
 func readUpTo(r io.Reader, n int64) ([]byte, error) {
-	buf := make([]byte, 0, min(n, 256<<20))
+	const step = 256 << 20
+	buf := make([]byte, 0, min(n, step))
 	for int64(len(buf)) < n {
 		if len(buf) == cap(buf) {
-			buf = append(buf, make([]byte, min(n-int64(len(buf)), 256<<20))...)[:len(buf)]
+			buf = slices.Grow(buf, int(min(n-int64(len(buf)), step)))
 		}
-		m, err := r.Read(buf[len(buf):min(cap(buf), len(buf)+int(n-int64(len(buf))))])
+		m, err := r.Read(buf[len(buf):int(min(int64(cap(buf)), n))])
 		buf = buf[:len(buf)+m]
 		if err == io.EOF {
-			return buf, nil
+			break
 		}
 		if err != nil {
 			return buf, err

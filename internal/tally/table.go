@@ -73,34 +73,20 @@ func (b *blobs) put(t []int64) int {
 	return len(b.data) - 1
 }
 
-// get decodes table i: one byte a cell for the small counts most cells
-// hold (zigzag: 0..63 and −64..−1), binary.Varint for the others.
+// get decodes table i: checked by scan (a damaged varint, a negative count
+// or an overflowing sum is refused here), then added into a table of zeros
+// — the same two loops AppendShard uses, so one decoder serves both.
 func (b *blobs) get(i int) ([]int64, error) {
-	if b == nil || i < 0 || i >= len(b.data) {
-		return nil, fmt.Errorf("a count table refers to table %d, which the shard does not hold", i)
+	raw, err := b.raw(i)
+	if err != nil {
+		return nil, err
 	}
-	buf := b.data[i]
-	cells := 0
-	for _, c := range buf {
-		if c < 0x80 {
-			cells++ // every varint ends with one byte below 0x80
-		}
+	cells, _, err := raw.scan(fmt.Sprintf("count table %d", i))
+	if err != nil {
+		return nil, err
 	}
 	out := make([]int64, cells)
-	k := 0
-	for j := 0; j < len(buf); k++ {
-		if c := buf[j]; c < 0x80 {
-			out[k] = int64(c>>1) ^ -int64(c&1)
-			j++
-			continue
-		}
-		v, n := binary.Varint(buf[j:])
-		if n <= 0 {
-			return nil, fmt.Errorf("count table %d is damaged", i)
-		}
-		out[k] = v
-		j += n
-	}
+	raw.addTo(out)
 	return out, nil
 }
 

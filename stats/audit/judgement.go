@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strconv"
 	"strings"
 	"sync"
 
@@ -118,18 +117,7 @@ func missingTopDigits(counts []int64, n int64, opts Options) string {
 		return ""
 	}
 	return fmt.Sprintf("digits %s to %s never occur in these %d digits, which independent base-%d digits would all but certainly have shown: the input may be in base %d (audit it with %s %d)",
-		digitName(m), digitName(b-1), n, b, m, opts.name(OptBase), m)
-}
-
-// digitName writes a digit as inputs do: 0-9, then a-z, then its value.
-func digitName(d int) string {
-	switch {
-	case d < 10:
-		return strconv.Itoa(d)
-	case d < 36:
-		return string(rune('a' + d - 10))
-	}
-	return strconv.Itoa(d)
+		checks.DigitName(m, b), checks.DigitName(b-1, b), n, b, m, opts.name(OptBase), m)
 }
 
 // Finish runs the checks on a finished tally of the whole sequence and

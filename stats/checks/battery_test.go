@@ -314,7 +314,7 @@ func TestSiegmundCorrectedLimit(t *testing.T) {
 			if !ok {
 				t.Fatalf("n %d base %d: no exact law", c.n, c.b)
 			}
-			Mc := (e + SiegmundShift(sigma)) / (sigma * math.Sqrt(float64(c.n)))
+			Mc := (e + siegmundShift(sigma)) / (sigma * math.Sqrt(float64(c.n)))
 			cl, cu := math.Exp(stats.BrownianMaxLogCDF(Mc)), math.Exp(stats.BrownianMaxLogSF(Mc))
 			if math.Abs(cl/math.Exp(lo)-1) > 0.04 || math.Abs(cu/math.Exp(up)-1) > 0.015 {
 				t.Errorf("n %d base %d M %.2f: corrected %.5f %.5f, exact %.5f %.5f", c.n, c.b, m, cl, cu, math.Exp(lo), math.Exp(up))

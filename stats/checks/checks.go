@@ -413,10 +413,8 @@ func poolIndex(ref []float64, minExp float64) (group []int, groups int) {
 	if groups == 0 {
 		return group, min(1, len(ref))
 	}
-	if r > 0 || (len(ref) > 0 && group[len(ref)-1] == groups) {
-		for i := len(ref) - 1; i >= 0 && group[i] == groups; i-- {
-			group[i] = groups - 1
-		}
+	for i := len(ref) - 1; i >= 0 && group[i] == groups; i-- { // the short last group
+		group[i] = groups - 1
 	}
 	return group, groups
 }
@@ -424,8 +422,8 @@ func poolIndex(ref []float64, minExp float64) (group []int, groups int) {
 // poolGroups returns how many classes poolClasses leaves for expectations
 // ref.
 func poolGroups(ref []float64, minExp float64) int {
-	_, pe := poolClasses(make([]int64, len(ref)), ref, minExp)
-	return len(pe)
+	_, groups := poolIndex(ref, minExp)
+	return groups
 }
 
 // pooledChiSquareBy pools the classes by ref (poolClassesBy) and returns

@@ -22,7 +22,7 @@ import (
 // bits its lower tail gave p ≤ 0.01 in 3.2% of null sequences. Beyond the
 // switch, the limit, with Siegmund's corrected diffusion: the discrete
 // maximum stays below the continuous one by about ρσ (ρ = 0.5826), so the
-// barrier is raised by ρσ (SiegmundShift). For 400 raw bytes that takes
+// barrier is raised by ρσ (siegmundShift). For 400 raw bytes that takes
 // the limit's lower tail from 11% to 2% off the exact value at P ≈ 0.2
 // (TestSiegmundCorrectedLimit). The plain limit gave p lower ≤ 0.01 in 54
 // of 3000 null inputs of 200 bytes, before the exact law reached them
@@ -60,7 +60,7 @@ func (driftCheck) Needs(s Setting) Needs {
 // (Chernoff 1965; Siegmund 1979).
 const siegmundRho = 0.5825971579390107
 
-// SiegmundShift is the amount, in digit-sum units, by which the Brownian
+// siegmundShift is the amount, in digit-sum units, by which the Brownian
 // limit's barrier is raised for the discrete maximum of the walk with
 // increments of standard deviation sigma: ρσ. (For lattice walks the
 // theory subtracts half the span; against the exact law, whose tails both
@@ -68,7 +68,7 @@ const siegmundRho = 0.5825971579390107
 // and as close for bytes, and bits reach the limit only past 2·10^4 steps,
 // where the shift is 0.004 of M.) Siegmund, Sequential Analysis (1985),
 // §X.3.
-func SiegmundShift(sigma float64) float64 { return siegmundRho * sigma }
+func siegmundShift(sigma float64) float64 { return siegmundRho * sigma }
 
 func (driftCheck) Run(in Input, out *Result) {
 	t := in.Tally
@@ -106,7 +106,7 @@ func (driftCheck) Run(in Input, out *Result) {
 		if up, lo, ok := stats.WalkMaxLogTails(t.N, in.Null.P, excursion); ok {
 			f.setDiscrete(up, lo, atomFromTails(up, lo))
 		} else {
-			Mc := (excursion + SiegmundShift(sigma)) / (sigma * math.Sqrt(n))
+			Mc := (excursion + siegmundShift(sigma)) / (sigma * math.Sqrt(n))
 			f.LogPUpper, f.LogPLower = stats.BrownianMaxLogSF(Mc), stats.BrownianMaxLogCDF(Mc)
 		}
 		if lil := math.Log(math.Log(n)); lil > 0 {

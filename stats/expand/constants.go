@@ -162,9 +162,15 @@ func expSumsMod(n int64) (q, t uint64) {
 // quotient's two and the tail's one), by binary splitting of
 // atanh(1/m) = Σ_k 1/((2k+1) m^(2k+1)).
 func atanhInvFixed(m int64, prec uint, mt *meter) (*big.Int, error) {
-	n := int64(float64(prec)/(2*math.Log2(float64(m)))) + 2
+	n := atanhTerms(m, prec)
 	r := binarySplit(hooked(fmt.Sprintf("atanh(1/%d)", m), atanhInvTerm(m)), 0, n, 0, false, mt)
 	return seriesQuo(r, prec, "ln 2")
+}
+
+// atanhTerms is the number of terms of atanh(1/m) that 2^-prec needs:
+// each term is m² times smaller than the one before.
+func atanhTerms(m int64, prec uint) int64 {
+	return int64(float64(prec)/(2*math.Log2(float64(m)))) + 2
 }
 
 // ln2Fixed: ln 2 = 18 atanh(1/26) - 2 atanh(1/4801) + 8 atanh(1/8749)
@@ -177,7 +183,7 @@ func ln2Fixed(prec uint, mt *meter) (fixedValue, error) {
 	ms := [3]int64{26, 4801, 8749}
 	total := 0.0
 	for _, m := range ms {
-		total += splitCost(int64(float64(w)/(2*math.Log2(float64(m)))) + 2)
+		total += splitCost(atanhTerms(m, w))
 	}
 	mt.begin("series", total) // the three series, their divisions not measured
 	for i, m := range ms {
