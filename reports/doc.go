@@ -19,6 +19,10 @@ type Document struct {
 	// Inputs: for one input audited in several views or bases, its one
 	// verdict (audit.Combine), reported first; nil otherwise.
 	Inputs []audit.InputVerdict
+	// Width is the number of columns a text report fits (a terminal's
+	// width); 0 means no limit, for pipes and files: tables whole,
+	// sentences wrapped at 100 columns. Other formats ignore it.
+	Width int
 }
 
 // Caution ends every report. Consistency is evidence of nothing more.

@@ -48,7 +48,7 @@ func TestFormatParams(t *testing.T) {
 }
 
 func TestWrap(t *testing.T) {
-	for _, line := range strings.Split(wrap(Caution, 100), "\n") {
+	for _, line := range strings.Split(wrapDisplay(Caution, 100), "\n") {
 		if len(line) > 100 {
 			t.Errorf("line longer than 100: %q", line)
 		}

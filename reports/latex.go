@@ -87,7 +87,7 @@ func texNumber(s string) string {
 func LaTeX(w io.Writer, doc Document) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%% borel %s audit report. Needs \\usepackage{booktabs} in the preamble.\n", doc.Version)
-	for _, line := range strings.Split(wrap(Caution, 90), "\n") {
+	for _, line := range strings.Split(wrapDisplay(Caution, 90), "\n") {
 		fmt.Fprintf(bw, "%% %s\n", line)
 	}
 	for _, v := range doc.Inputs {

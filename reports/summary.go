@@ -45,8 +45,15 @@ var summaryAlign = []bool{false, true, true, false, true, false, true, true, fal
 
 // Summary writes the side-by-side table as text.
 func Summary(w io.Writer, doc Document) error {
+	return writeFitted(w, doc.Width, summaryLayout(doc))
+}
+
+// summaryLayout is the side-by-side table for text: names, verdicts,
+// findings and intervals may wrap; the sequence names each row.
+func summaryLayout(doc Document) textTable {
 	h, rows := summaryRows(doc)
-	return writeTable(w, h, rows, summaryAlign)
+	return textTable{header: h, rows: rows, right: summaryAlign,
+		wrap: []int{16, 0, 0, 10, 0, 16, 0, 0, 0}, key: 1}
 }
 
 // Comparison writes the side-by-side table in the named format (text, md,
@@ -154,12 +161,11 @@ func summaryTabular(w io.Writer, doc Document) error {
 }
 
 func comparisonText(w io.Writer, doc Document) error {
-	h, rows := summaryRows(doc)
 	fmt.Fprintf(w, "borel %s comparison, %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339))
-	if err := writeTable(w, h, rows, summaryAlign); err != nil {
+	if err := Summary(w, doc); err != nil {
 		return err
 	}
-	_, err := fmt.Fprintln(w, wrap(Caution, 100))
+	_, err := fmt.Fprintln(w, wrapDisplay(Caution, textMeasure(doc.Width)))
 	return err
 }
 

@@ -17,10 +17,11 @@ import (
 // why, the entropy profile, and the verdict; the caution once at the end.
 func Text(w io.Writer, doc Document) error {
 	bw := bufio.NewWriter(w)
+	m := textMeasure(doc.Width)
 	for _, v := range doc.Inputs {
 		h, reason := inputHeadline(v)
-		fmt.Fprintln(bw, h)
-		fmt.Fprintln(bw, indent(wrap(reason, 98), "  "))
+		hanging(bw, m, "", h)
+		hanging(bw, m, "  ", reason)
 		fmt.Fprintln(bw)
 	}
 	if len(doc.Results) > 1 { // the side-by-side table first, every report after it
@@ -39,7 +40,7 @@ func Text(w io.Writer, doc Document) error {
 		}
 	}
 	fmt.Fprintln(bw)
-	fmt.Fprintln(bw, wrap(Caution, 100))
+	fmt.Fprintln(bw, wrapDisplay(Caution, m))
 	return bw.Flush()
 }
 
@@ -78,35 +79,37 @@ func joinFloats(p []float64) string {
 }
 
 func textResult(w io.Writer, doc Document, r *audit.Result) error {
-	fmt.Fprintf(w, "borel audit of %s\n", r.Source.Name)
+	m := textMeasure(doc.Width)
+	hanging(w, m, "", "borel audit of "+r.Source.Name)
 	for _, p := range provenance(doc, r) {
-		fmt.Fprintf(w, "  %-12s %s\n", p[0], p[1])
+		hanging(w, m, fmt.Sprintf("  %-12s ", p[0]), p[1])
 	}
 	fmt.Fprintln(w)
 
-	header, rows, notes := findingTable(r)
-	if err := writeTable(w, header, rows, []bool{false, false, false, true, true, true, true, true, false, false}); err != nil {
+	if err := writeFitted(w, doc.Width, findingLayouts(r)...); err != nil {
 		return err
 	}
-	fmt.Fprintln(w, "  p upper: chance of a statistic at least this large (deviation); p lower: at most this small (fit too good);")
-	fmt.Fprintf(w, "  adjusted: the smaller of the two after %s adjustment over the whole family.\n", adjustmentName(r.Adjustment))
+	hanging(w, m, "  ", "p upper: chance of a statistic at least this large (deviation); p lower: at most this small (fit too good); "+
+		fmt.Sprintf("adjusted: the smaller of the two after %s adjustment over the whole family.", adjustmentName(r.Adjustment)))
+	_, _, notes := findingTable(r)
 	for i, n := range notes {
-		fmt.Fprintf(w, "  [%d] %s\n", i+1, n)
+		hanging(w, m, fmt.Sprintf("  [%d] ", i+1), n)
 	}
 
 	if len(r.Skips) > 0 {
 		fmt.Fprintln(w)
 		fmt.Fprintln(w, "Not run:")
 		for _, s := range r.Skips {
-			fmt.Fprintf(w, "  %s %s: %s\n", s.Check, formatParams(s.Params), s.Reason)
+			hangingPad(w, m, "  ", "      ", fmt.Sprintf("%s %s: %s", s.Check, formatParams(s.Params), s.Reason))
 		}
 	}
 
 	if e := r.Entropy; e != nil && len(e.Rows) > 0 {
 		fmt.Fprintln(w)
-		fmt.Fprintf(w, "Entropy profile (nats; dimension = entropy rate / ln %d, with a %g%% interval)\n", r.Base, 100*e.Confidence)
+		hanging(w, m, "", fmt.Sprintf("Entropy profile (nats; dimension = entropy rate / ln %d, with a %g%% interval)", r.Base, 100*e.Confidence))
 		eh, erows := entropyTable(r)
-		if err := writeTable(w, eh, erows, []bool{true, true, true, true, true, false, true}); err != nil {
+		if err := writeFitted(w, doc.Width, textTable{header: eh, rows: erows, right: []bool{true, true, true, true, true, false, true},
+			key: 1}); err != nil {
 			return err
 		}
 		if r.Null.Kind == checks.Uniform {
@@ -120,13 +123,33 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		fmt.Fprintln(w)
 		fmt.Fprintln(w, "Notes:")
 		for _, n := range r.Notes {
-			fmt.Fprintf(w, "  - %s\n", n)
+			hanging(w, m, "  - ", n)
 		}
 	}
 	fmt.Fprintln(w)
-	fmt.Fprintf(w, "Verdict for %s in base %d: %s\n", r.Source.Name, r.Base, strings.ToUpper(r.Verdict))
-	fmt.Fprintf(w, "  %s\n", verdictReason(r))
+	hanging(w, m, "", fmt.Sprintf("Verdict for %s in base %d: %s", r.Source.Name, r.Base, strings.ToUpper(r.Verdict)))
+	hanging(w, m, "  ", verdictReason(r))
 	return nil
+}
+
+// findingLayouts are the findings table's text layouts, widest first: every
+// column; then check, statistic and parameters as one finding, with the
+// note references beside the mark (when the terminal is narrow).
+func findingLayouts(r *audit.Result) []textTable {
+	header, rows, _ := findingTable(r)
+	full := textTable{header: header, rows: rows, right: []bool{false, false, false, true, true, true, true, true, false, false},
+		wrap: []int{0, 0, 0, 0, 0, 0, 0, 0, 8, 8}, key: 3}
+	narrow := textTable{header: []string{"finding", "value", "df", "p upper", "p lower", "adjusted", "mark"},
+		right: []bool{false, true, true, true, true, true, false}, wrap: []int{20, 0, 0, 0, 0, 0, 8}, key: 1}
+	for _, row := range rows {
+		label := row[0] + " " + row[1]
+		if row[2] != "" {
+			label += " " + row[2]
+		}
+		mark := strings.TrimSpace(row[8] + " " + row[9])
+		narrow.rows = append(narrow.rows, []string{label, row[3], row[4], row[5], row[6], row[7], mark})
+	}
+	return []textTable{full, narrow}
 }
 
 func adjustmentName(a string) string {
@@ -177,22 +200,4 @@ func listSome(s []string) string {
 		return strings.Join(s, "; ")
 	}
 	return strings.Join(s[:4], "; ") + fmt.Sprintf("; and %d more", len(s)-4)
-}
-
-// wrap breaks text into lines of at most width bytes at spaces.
-func wrap(s string, width int) string {
-	var b strings.Builder
-	line := 0
-	for i, word := range strings.Fields(s) {
-		if i > 0 && line+1+len(word) > width {
-			b.WriteByte('\n')
-			line = 0
-		} else if i > 0 {
-			b.WriteByte(' ')
-			line++
-		}
-		b.WriteString(word)
-		line += len(word)
-	}
-	return b.String()
 }

@@ -85,7 +85,7 @@ func runCompare(e env, args []string) (int, error) {
 			}
 		}
 	}
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
+	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(), Width: out.textWidth(e)}
 	for _, name := range fs.Args() {
 		rs, err := compareSource(e, name, compareInput{base: b, count: *count, bases: bases, raw: *raw, bits: *bits, gzip: gzipMode}, &af, opts, out.quiet)
 		if err != nil {

@@ -30,12 +30,10 @@ Example:
 
 const demoIntro = `borel demo — the Wrenfield Institute audits its digits
 
-The group computed pi and sqrt 2 itself and wants to know whether the digits look like a
-normal sequence in base 10. It also bought a hardware decimal-digit generator (two units)
-and received a "certified sample" file with it. Every sequence below is audited against
-the uniform null: i.i.d. digits, each k-block with probability 10^-k.
-
-`
+The group computed pi and sqrt 2 itself and wants to know whether the digits look like a ` +
+	`normal sequence in base 10. It also bought a hardware decimal-digit generator (two units) ` +
+	`and received a "certified sample" file with it. Every sequence below is audited against ` +
+	`the uniform null: i.i.d. digits, each k-block with probability 10^-k.`
 
 type demoSequence struct {
 	name, params string
@@ -94,7 +92,7 @@ func runDemo(e env, args []string) (int, error) {
 	if err := out.check(""); err != nil {
 		return 0, err
 	}
-	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime()}
+	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(), Width: out.textWidth(e)}
 	for _, s := range demoSequences() {
 		d, checks, err := s.digits()
 		if err != nil {
@@ -109,7 +107,7 @@ func runDemo(e env, args []string) (int, error) {
 	var data []byte
 	if out.format == "text" {
 		var buf bytes.Buffer
-		buf.WriteString(demoIntro)
+		buf.WriteString(reports.WrapText(demoIntro, introWidth(doc.Width)) + "\n\n")
 		if err := reports.Text(&buf, doc); err != nil {
 			return 0, err
 		}
@@ -121,4 +119,13 @@ func runDemo(e env, args []string) (int, error) {
 		}
 	}
 	return exitOK, out.publish(e, doc, data)
+}
+
+// introWidth is the column the demo's story wraps at: 90, or the
+// terminal's width when narrower.
+func introWidth(width int) int {
+	if width > 0 && width < 90 {
+		return width
+	}
+	return 90
 }

@@ -24,6 +24,7 @@ var formats = reports.FormatNames()
 type output struct {
 	format, path, plots, appendTo, section string
 	quiet                                  bool
+	width                                  int
 }
 
 func (o *output) register(fs *pflag.FlagSet) {
@@ -33,12 +34,40 @@ func (o *output) register(fs *pflag.FlagSet) {
 	fs.StringVar(&o.appendTo, "append", "", "add the report to an existing .md, .tex or .html document, in the section named by --section")
 	fs.StringVar(&o.section, "section", "borel", "name of the section --append writes (running again replaces only that section)")
 	fs.BoolVarP(&o.quiet, "quiet", "q", false, "no progress line on standard error")
+	fs.IntVar(&o.width, "width", 0, "fit text tables to this many columns (default: the terminal's width, or COLUMNS, when the report goes to a terminal; whole tables otherwise)")
+}
+
+// textWidth is the number of columns a text report fits: --width when
+// given; else, when the report goes to standard output and that is a
+// terminal, COLUMNS if it is set to a number, else the terminal's width;
+// else 0, no limit (a pipe or a file gets whole tables).
+func (o *output) textWidth(e env) int {
+	if o.width > 0 {
+		return o.width
+	}
+	if (o.path != "" && o.path != "-") || o.appendTo != "" {
+		return 0
+	}
+	f, ok := e.stdout.(*os.File)
+	if !ok {
+		return 0
+	}
+	if st, err := f.Stat(); err != nil || st.Mode()&os.ModeCharDevice == 0 {
+		return 0
+	}
+	if c, err := strconv.Atoi(strings.TrimSpace(os.Getenv("COLUMNS"))); err == nil && c > 0 {
+		return c
+	}
+	return terminalColumns(f)
 }
 
 // check validates the output options before any work.
 func (o *output) check(input string) error {
 	if !slicesContains(formats, o.format) {
 		return usagef("--format %q: borel writes %s", o.format, strings.Join(formats, ", "))
+	}
+	if o.width < 0 || (o.width > 0 && o.width < 40) {
+		return usagef("--width %d: give at least 40 columns (or leave it out to fit the terminal)", o.width)
 	}
 	if o.appendTo != "" {
 		if o.path != "" {
@@ -279,7 +308,7 @@ func (o *output) report(e env, results []*audit.Result, strict bool) (int, error
 // verdicts are detail).
 func (o *output) reportInputs(e env, results []*audit.Result, inputs []audit.InputVerdict, strict bool) (int, error) {
 	doc := reports.Document{Version: version, Command: append([]string{"borel"}, e.args...), Created: reportTime(),
-		Results: results, Inputs: inputs}
+		Results: results, Inputs: inputs, Width: o.textWidth(e)}
 	data, err := render(doc, o.format)
 	if err != nil {
 		return 0, err
