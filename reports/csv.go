@@ -16,11 +16,13 @@ import (
 // CSVHeader is the header of the CSV report: one row per finding, numbers at
 // full double precision, probabilities also as log10 (empty when the
 // probability is exactly 0). Lines before the header start with '#' and
-// carry the provenance; encoding/csv reads them with Comment = '#'.
+// carry the provenance and the audits' notes; encoding/csv reads them with
+// Comment = '#'. note is where a deviating finding deviates (its cells of
+// largest standardized residual), notes joined by "; ".
 var CSVHeader = []string{"sequence", "base", "digits", "null", "verdict", "check", "statistic", "params", "of",
 	"two_sided", "value", "df", "p_upper", "p_lower", "log10_p_upper", "log10_p_lower",
 	"adjusted_p_upper", "adjusted_p_lower", "log10_adjusted_p_upper", "log10_adjusted_p_lower",
-	"holm_p_upper", "holm_p_lower", "bh_p_upper", "bh_p_lower", "mark"}
+	"holm_p_upper", "holm_p_lower", "bh_p_upper", "bh_p_lower", "mark", "note"}
 
 // full writes a number at full precision, never as "-0".
 func full(v float64) string {
@@ -79,6 +81,9 @@ func CSV(w io.Writer, doc Document) error {
 		for _, p := range provenance(doc, r)[3:] {
 			fmt.Fprintf(w, "# %s %s: %s\n", r.Source.Name, p[0], p[1])
 		}
+		for _, n := range r.Notes {
+			fmt.Fprintf(w, "# %s note: %s\n", r.Source.Name, strings.ReplaceAll(n, "\n", " "))
+		}
 	}
 	fmt.Fprintf(w, "# %s\n", Caution)
 	cw := csv.NewWriter(w)
@@ -93,7 +98,7 @@ func CSV(w io.Writer, doc Document) error {
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
 				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),
 				full(math.Exp(f.LogHolmUpper)), full(math.Exp(f.LogHolmLower)), full(math.Exp(f.LogBHUpper)), full(math.Exp(f.LogBHLower)),
-				f.Mark}
+				f.Mark, strings.Join(f.Notes, "; ")}
 			if err := cw.Write(row); err != nil {
 				return err
 			}

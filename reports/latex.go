@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"borel/stats/audit"
 	"borel/stats/checks"
 )
 
@@ -32,6 +33,30 @@ func texEscape(s string) string {
 	return b.String()
 }
 
+// texName escapes a name (a path, most often) and lets LaTeX break it
+// after each '/', '.', '_' and '-', and inside any run of more than eight
+// other characters: a long path in a caption or a narrow table cell is one
+// word otherwise, and ran 121 pt past the text block.
+func texName(s string) string {
+	var b strings.Builder
+	run := 0
+	for _, r := range s {
+		if r == ' ' {
+			run = 0
+		} else if run == 8 { // a costly break: taken only when the word cannot fit
+			b.WriteString(`\penalty500{}`)
+			run = 0
+		}
+		b.WriteString(texEscape(string(r)))
+		run++
+		if strings.ContainsRune("/._-", r) {
+			b.WriteString(`\allowbreak{}`)
+			run = 0
+		}
+	}
+	return b.String()
+}
+
 // texRunes is what texEscape writes for characters that LaTeX reserves or
 // that its default fonts lack.
 var texRunes = map[rune]string{
@@ -40,6 +65,8 @@ var texRunes = map[rune]string{
 	'–': "--", '—': "---", '’': "'", '‘': "'", '“': `"`, '”': `"`,
 	'×': `$\times$`, '≤': `$\le$`, '≥': `$\ge$`, '√': `$\surd$`, '·': `$\cdot$`, '²': `$^2$`,
 	'ψ': `$\psi$`, '∇': `$\nabla$`, 'π': `$\pi$`, 'χ': `$\chi$`, 'α': `$\alpha$`,
+	'−': `$-$`, 'σ': `$\sigma$`, 'μ': `$\mu$`, '≈': `$\approx$`, '∞': `$\infty$`, '±': `$\pm$`, '…': `\ldots{}`,
+	'Δ': `$\Delta$`, '→': `$\to$`,
 }
 
 // texStatistic writes a statistic's name in math mode (checks.StatisticName).
@@ -80,54 +107,94 @@ func texNumber(s string) string {
 	return "$" + s + "$"
 }
 
-// LaTeX writes one table environment per sequence and base: a tabular with
-// booktabs rules, ready to \input into a document whose preamble loads
-// booktabs. Provenance goes into comments above each table and the caption
-// states what was audited and the verdict.
+// LaTeX writes, per sequence and base, the findings as a longtable with
+// booktabs rules (it breaks across pages: a --raw audit's base-2 table of
+// 75 rows was a float 329 pt taller than the page, its last rows lost),
+// ready to \input into a document whose preamble loads booktabs and
+// longtable. The table fits the text block of a standard 11 pt article:
+// the finding (check, statistic and parameters) is one paragraph column,
+// the three p-values share one header, every number is in math mode, and
+// the notes that say where a finding deviates follow the table. Provenance
+// goes into comments above each table; the caption states what was audited
+// and the verdict.
 func LaTeX(w io.Writer, doc Document) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "%% borel %s audit report. Needs \\usepackage{booktabs} in the preamble.\n", doc.Version)
+	fmt.Fprintf(bw, "%% borel %s audit report. Needs \\usepackage{booktabs} and \\usepackage{longtable} in the preamble.\n", doc.Version)
 	for _, line := range strings.Split(wrapDisplay(Caution, 90), "\n") {
 		fmt.Fprintf(bw, "%% %s\n", line)
 	}
 	for _, v := range doc.Inputs {
 		h, reason := inputHeadline(v)
-		fmt.Fprintf(bw, "\n\\paragraph{%s.} %s\n", texEscape(h), texEscape(reason))
+		// ragged right: a long path in the headline breaks at its slashes
+		fmt.Fprintf(bw, "\n\\begin{flushleft}\n\\textbf{%s.} %s\n\\end{flushleft}\n", texName(h), texEscape(reason))
 	}
-	if len(doc.Results) > 1 { // the side-by-side table first, as a float like the others
+	if len(doc.Results) > 1 { // the side-by-side table first, as a float
 		fmt.Fprintln(bw)
-		fmt.Fprintln(bw, `\begin{table}[htbp]`)
-		fmt.Fprintln(bw, `\centering\scriptsize`)
-		if err := summaryTabular(bw, doc); err != nil {
+		if err := summaryFloat(bw, doc); err != nil {
 			return err
 		}
-		fmt.Fprintln(bw, `\caption{borel: the audits side by side (verdict, smallest adjusted $p$-value and the finding it comes from, dimension estimate and its interval; the entropy deficit is 1 minus the dimension).}`)
-		fmt.Fprintln(bw, `\end{table}`)
 	}
 	for _, r := range doc.Results {
 		fmt.Fprintln(bw)
 		for _, p := range provenance(doc, r) {
 			fmt.Fprintf(bw, "%% %s: %s\n", p[0], strings.ReplaceAll(p[1], "\n", " "))
 		}
-		fmt.Fprintln(bw, `\begin{table}[htbp]`)
-		fmt.Fprintln(bw, `\centering\small`)
-		fmt.Fprintln(bw, `\begin{tabular}{lllrrrrrl}`)
-		fmt.Fprintln(bw, `\toprule`)
-		fmt.Fprintln(bw, `check & statistic & parameter & value & df & $p$ upper & $p$ lower & adjusted & mark \\`)
-		fmt.Fprintln(bw, `\midrule`)
-		for _, f := range r.Findings {
-			param := texEscape(findingParams(f.Finding))
-			fmt.Fprintf(bw, "%s & %s & %s & %s & %s & %s & %s & %s & %s \\\\\n",
-				texEscape(f.Check), texStatistic(f.Statistic), param, texNumber(formatStat(f.Value)),
-				texNumber(formatDF(f.DF)), texP(f.LogPUpper), texP(f.LogPLower),
-				texP(math.Min(f.LogAdjUpper, f.LogAdjLower)), texEscape(f.Mark))
-		}
-		fmt.Fprintln(bw, `\bottomrule`)
-		fmt.Fprintln(bw, `\end{tabular}`)
-		fmt.Fprintf(bw, "\\caption{borel audit of \\texttt{%s} in base %d: %d digits against the %s null, %s adjustment over %d $p$-values, $\\alpha = %s$. Verdict: \\textbf{%s}.}\n",
-			texEscape(r.Source.Name), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
-			2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(r.Verdict))
-		fmt.Fprintln(bw, `\end{table}`)
+		texFindings(bw, r)
 	}
 	return bw.Flush()
+}
+
+// texFindingsHead is the findings table's header (repeated on each page).
+const texFindingsHead = `\toprule
+finding & value & df & \multicolumn{3}{c}{$p$-value} & mark \tabularnewline
+\cmidrule(lr){4-6}
+ & & & upper & lower & adjusted & \tabularnewline
+\midrule`
+
+func texFindings(w io.Writer, r *audit.Result) {
+	_, _, notes := findingTable(r)
+	number := map[string]int{}
+	for i, n := range notes {
+		number[n] = i + 1
+	}
+	fmt.Fprintln(w, `\begingroup\footnotesize\setlength{\tabcolsep}{3pt}\setlength{\LTcapwidth}{\linewidth}`)
+	fmt.Fprintln(w, `\begin{longtable}{@{}p{0.25\linewidth}rrrrrl@{}}`)
+	fmt.Fprintf(w, "\\caption{borel audit of \\texttt{%s} in base %d: %d digits against the %s null, %s adjustment over %d $p$-values, $\\alpha = %s$. Verdict: \\textbf{%s}.}\\tabularnewline\n",
+		texName(r.Source.Name), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
+		2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(r.Verdict))
+	fmt.Fprintln(w, texFindingsHead)
+	fmt.Fprintln(w, `\endfirsthead`)
+	fmt.Fprintln(w, `\multicolumn{7}{@{}l}{\emph{(continued)}}\tabularnewline`)
+	fmt.Fprintln(w, texFindingsHead)
+	fmt.Fprintln(w, `\endhead`)
+	fmt.Fprintln(w, `\midrule\multicolumn{7}{r@{}}{\emph{(continued on the next page)}}\tabularnewline`)
+	fmt.Fprintln(w, `\endfoot`)
+	fmt.Fprintln(w, `\bottomrule`)
+	fmt.Fprintln(w, `\endlastfoot`)
+	for _, f := range r.Findings {
+		label := texEscape(f.Check) + " " + texStatistic(f.Statistic)
+		if p := findingParams(f.Finding); p != "" {
+			label += " " + texEscape(p)
+		}
+		mark := texEscape(f.Mark)
+		var refs []string
+		for _, n := range f.Notes {
+			refs = append(refs, strconv.Itoa(number[n]))
+		}
+		if len(refs) > 0 {
+			mark += "$^{" + strings.Join(refs, ",") + "}$"
+		}
+		fmt.Fprintf(w, "\\raggedright %s & %s & %s & %s & %s & %s & %s \\tabularnewline\n",
+			label, texNumber(formatStat(f.Value)), texNumber(formatDF(f.DF)), texP(f.LogPUpper), texP(f.LogPLower),
+			texP(math.Min(f.LogAdjUpper, f.LogAdjLower)), mark)
+	}
+	fmt.Fprintln(w, `\end{longtable}`)
+	if len(notes) > 0 {
+		fmt.Fprintln(w, `\begin{list}{}{\setlength{\leftmargin}{1.5em}\setlength{\itemsep}{0pt}\setlength{\labelwidth}{1.2em}}`)
+		for i, n := range notes {
+			fmt.Fprintf(w, "\\item[$^{%d}$] %s\n", i+1, texEscape(n))
+		}
+		fmt.Fprintln(w, `\end{list}`)
+	}
+	fmt.Fprintln(w, `\endgroup`)
 }

@@ -125,7 +125,23 @@ func comparisonCSVRows(w io.Writer, doc Document) error {
 
 func comparisonLaTeX(w io.Writer, doc Document) error {
 	fmt.Fprintf(w, "%% borel %s comparison, %s. Needs \\usepackage{booktabs}.\n%% command: %s\n", doc.Version, doc.Created.UTC().Format(time.RFC3339), strings.Join(doc.Command, " "))
-	return summaryTabular(w, doc)
+	for _, line := range strings.Split(wrapDisplay(Caution, 90), "\n") {
+		fmt.Fprintf(w, "%% %s\n", line)
+	}
+	return summaryFloat(w, doc)
+}
+
+// summaryFloat writes the side-by-side table as a table float with its
+// caption.
+func summaryFloat(w io.Writer, doc Document) error {
+	fmt.Fprintln(w, `\begin{table}[htbp]`)
+	fmt.Fprintln(w, `\centering\scriptsize`)
+	if err := summaryTabular(w, doc); err != nil {
+		return err
+	}
+	fmt.Fprintln(w, `\caption{borel: the audits side by side (verdict, smallest adjusted $p$-value and the finding it comes from, dimension estimate and its interval; the entropy deficit is 1 minus the dimension).}`)
+	_, err := fmt.Fprintln(w, `\end{table}`)
+	return err
 }
 
 // summaryTabular writes the side-by-side table as a LaTeX tabular that fits
@@ -153,7 +169,7 @@ func summaryTabular(w io.Writer, doc Document) error {
 		// \raggedright in the paragraph cells (no hyphens, no stretched
 		// gaps); rows end with \tabularnewline, which it leaves alone.
 		rr := `\raggedright `
-		fmt.Fprintf(w, "%s%s & %s & %s & %s%s & %s & %s%s & %s%s \\tabularnewline\n", rr, texEscape(r[0]), r[1], r[2], rr, texEscape(r[3]), p, rr, texEscape(r[5]), rr, dim)
+		fmt.Fprintf(w, "%s%s & %s & %s & %s%s & %s & %s%s & %s%s \\tabularnewline\n", rr, texName(r[0]), r[1], r[2], rr, texEscape(r[3]), p, rr, texEscape(r[5]), rr, dim)
 	}
 	fmt.Fprintln(w, `\bottomrule`)
 	_, err := fmt.Fprintln(w, `\end{tabular}}`)

@@ -7,9 +7,11 @@ import (
 	"encoding/json"
 	"io"
 	"math"
+	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -62,7 +64,7 @@ func TestLaTeXCompiles(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	dir := t.TempDir()
-	doc := "\\documentclass{article}\n\\usepackage[margin=1cm,landscape]{geometry}\n\\usepackage{booktabs}\n\\begin{document}\n\\input{report}\n\\end{document}\n"
+	doc := "\\documentclass{article}\n\\usepackage[margin=1cm,landscape]{geometry}\n\\usepackage{booktabs}\n\\usepackage{longtable}\n\\begin{document}\n\\input{report}\n\\end{document}\n"
 	os.WriteFile(filepath.Join(dir, "report.tex"), out, 0o644)
 	os.WriteFile(filepath.Join(dir, "paper.tex"), []byte(doc), 0o644)
 	cmd := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "paper.tex")
@@ -94,31 +96,69 @@ func usablePdflatex(t *testing.T) string {
 	return pdflatex
 }
 
-// The side-by-side table of the demo's LaTeX fits the text block of a
-// plain 11 pt article: compiled alone, it has no overfull box. (With every
-// column of the text table it ran 295 pt past it.)
-func TestLaTeXSummaryFits(t *testing.T) {
+// Every LaTeX report fits the text block of a plain 11 pt article and
+// loses no row: the demo, a pi audit with segments, Champernowne's
+// constant (its mark column ran off the paper), a --raw audit (its base-2
+// table of 75 rows was a float 329 pt taller than the page, its last rows
+// lost) and compare (326 pt too wide). Each is compiled twice (longtable
+// settles its column widths on the second run) and must have no overfull
+// box over 1 pt and no float too large; the PDF's text keeps the last
+// finding of every table.
+func TestLaTeXFitsArticle(t *testing.T) {
 	pdflatex := usablePdflatex(t)
-	code, out, errs := runBorel(t, nil, "demo", "--format", "tex")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
+	raw := make([]byte, 100000)
+	rng := rand.New(rand.NewPCG(16, 2026))
+	for i := range raw {
+		raw[i] = byte(rng.Uint32())
 	}
-	s := string(out)
-	i, j := strings.Index(s, "\\begin{table}"), strings.Index(s, "\\end{table}")
-	if i < 0 || j < i || !strings.Contains(s[i:j], "side by side") {
-		t.Fatalf("no side-by-side float first in the demo's LaTeX")
-	}
-	dir := t.TempDir()
-	doc := "\\documentclass[11pt]{article}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\begin{document}\n" + s[i:j+len("\\end{table}")] + "\n\\end{document}\n"
-	os.WriteFile(filepath.Join(dir, "summary.tex"), []byte(doc), 0o644)
-	cmd := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "summary.tex")
-	cmd.Dir = dir
-	log, err := cmd.CombinedOutput()
-	if err != nil {
-		t.Fatalf("pdflatex failed: %v\n%s", err, log[max(0, len(log)-2000):])
-	}
-	if k := bytes.Index(log, []byte("Overfull \\hbox")); k >= 0 {
-		t.Errorf("the summary table does not fit: %s", log[k:min(len(log), k+80)])
+	rawFile := filepath.Join(t.TempDir(), "gen.bin")
+	os.WriteFile(rawFile, raw, 0o644)
+	overfull := regexp.MustCompile(`Overfull \\hbox \(([0-9.]+)pt too wide\)`)
+	for _, c := range []struct {
+		name string
+		args []string
+	}{
+		{"demo", []string{"demo"}},
+		{"pi-segments", []string{"audit", "--source", "pi", "--count", "20000", "--segments", "20", "-q"}},
+		{"champernowne", []string{"audit", "--source", "champernowne", "--count", "20000", "-q"}},
+		{"raw", []string{"audit", rawFile, "--raw", "-q"}},
+		{"compare", []string{"compare", "pi", "e", "champernowne", "--count", "20000", "-q"}},
+	} {
+		code, out, errs := runBorel(t, nil, append(c.args, "--format", "tex")...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", c.name, code, errs)
+		}
+		dir := t.TempDir()
+		doc := "\\documentclass[11pt]{article}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage{longtable}\n\\begin{document}\n\\input{report}\n\\end{document}\n"
+		os.WriteFile(filepath.Join(dir, "report.tex"), out, 0o644)
+		os.WriteFile(filepath.Join(dir, "paper.tex"), []byte(doc), 0o644)
+		var log []byte
+		for pass := 0; pass < 2; pass++ {
+			cmd := exec.Command(pdflatex, "-interaction=nonstopmode", "-halt-on-error", "paper.tex")
+			cmd.Dir = dir
+			var err error
+			if log, err = cmd.CombinedOutput(); err != nil {
+				t.Fatalf("%s: pdflatex failed: %v\n%s", c.name, err, log[max(0, len(log)-2000):])
+			}
+		}
+		for _, m := range overfull.FindAllSubmatchIndex(log, -1) {
+			if v, _ := strconv.ParseFloat(string(log[m[2]:m[3]]), 64); v > 1 {
+				t.Errorf("%s: %s", c.name, log[m[0]:min(len(log), m[1]+160)])
+			}
+		}
+		if bytes.Contains(log, []byte("Float too large")) {
+			t.Errorf("%s: a float is too large for the page", c.name)
+		}
+		if c.name == "raw" {
+			if pdftotext, err := exec.LookPath("pdftotext"); err == nil {
+				cmd := exec.Command(pdftotext, "paper.pdf", "-")
+				cmd.Dir = dir
+				text, _ := cmd.Output()
+				if n, want := bytes.Count(text, []byte("drift max")), bytes.Count(out, []byte(`\raggedright drift $\max`)); n < want {
+					t.Errorf("%s: the PDF shows %d drift findings of the %d in the tables (rows lost)", c.name, n, want)
+				}
+			}
+		}
 	}
 }
 
@@ -325,7 +365,7 @@ func TestSummaryFirstInEveryFormat(t *testing.T) {
 	for _, c := range []struct{ format, summary, firstAudit string }{
 		{"text", "Side by side", "borel audit of pi\n"},
 		{"md", "**Side by side**", "### borel audit of pi in base 2"},
-		{"tex", "the audits side by side", "\\begin{tabular}{lllrrrrrl}"},
+		{"tex", "the audits side by side", "\\begin{longtable}"},
 		{"html", "<h2>Side by side</h2>", `<h2 id="borel-audit-1">borel audit of pi in base 2`},
 		{"csv", "# side by side:", "sequence,base,digits,null,verdict"},
 	} {
@@ -340,6 +380,39 @@ func TestSummaryFirstInEveryFormat(t *testing.T) {
 		}
 		if c.format == "html" && (!strings.Contains(s, `<a href="#borel-audit-2">`) || !strings.Contains(s, `id="borel-audit-2"`)) {
 			t.Errorf("html: no contents link to the second audit")
+		}
+	}
+}
+
+// Every format says where a failing finding deviates: for Champernowne's
+// constant (the digit 1 is the most frequent in its first 20000 digits),
+// freq X² names "digit 1" in the text footnotes, the Markdown, the HTML,
+// the JSON's where, the CSV's note column (it had none) and the LaTeX
+// notes below the table (it had none).
+func TestWhereInEveryFormat(t *testing.T) {
+	for _, format := range []string{"text", "md", "html", "json", "csv", "tex"} {
+		code, out, errs := runBorel(t, nil, "audit", "--source", "champernowne", "--count", "20000", "-q", "--format", format)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", format, code, errs)
+		}
+		want := "digit 1: +"
+		if format == "html" {
+			want = "digit 1: &#43;"
+		}
+		if !bytes.Contains(out, []byte(want)) {
+			t.Errorf("%s: no %q in the report", format, want)
+		}
+		if format == "csv" {
+			r := csv.NewReader(bytes.NewReader(out))
+			r.Comment = '#'
+			recs, err := r.ReadAll()
+			if err != nil {
+				t.Fatal(err)
+			}
+			note := slices.Index(recs[0], "note")
+			if note < 0 || !strings.HasPrefix(recs[1][note], "largest deviations (O − E)/√E: digit 1: +") {
+				t.Errorf("csv: note column %d, first row %q", note, recs[1])
+			}
 		}
 	}
 }
