@@ -157,7 +157,9 @@ type JSONEntropyRow struct {
 // of relative frequencies (level band_level), the running trace (digit
 // counts at each position, with each digit's standardized deviation and
 // the iterated-logarithm envelope there), and each second-level
-// statistic's segment p-values.
+// statistic's segment p-values; the findings' p-values themselves are in
+// findings[], and qq_band_low/high the simultaneous band of the Q–Q plot
+// for them in increasing order (Kolmogorov–Smirnov, at band_level).
 type JSONPlotData struct {
 	DigitCounts []int64             `json:"digit_counts"`
 	BandLevel   float64             `json:"band_level"`
@@ -165,6 +167,8 @@ type JSONPlotData struct {
 	BandHigh    []*float64          `json:"band_high"`
 	Trace       []JSONTracePoint    `json:"trace"`
 	Segments    []JSONSegmentSeries `json:"segment_p_values"`
+	QQBandLow   []float64           `json:"qq_band_low"`
+	QQBandHigh  []float64           `json:"qq_band_high"`
 }
 
 // JSONTracePoint is the trace at one position.
@@ -192,7 +196,8 @@ func finites(v []float64) []*float64 {
 func plotData(r *audit.Result) JSONPlotData {
 	pd := JSONPlotData{DigitCounts: nonNilInts(r.DigitCounts), BandLevel: audit.BandLevel,
 		BandLow: finites(r.Curves.BandLow), BandHigh: finites(r.Curves.BandHigh),
-		Trace: []JSONTracePoint{}, Segments: []JSONSegmentSeries{}}
+		Trace: []JSONTracePoint{}, Segments: []JSONSegmentSeries{},
+		QQBandLow: append([]float64{}, r.Curves.QQLow...), QQBandHigh: append([]float64{}, r.Curves.QQHigh...)}
 	for i, tp := range r.Trace {
 		p := JSONTracePoint{Pos: tp.Pos, Counts: nonNilInts(tp.Counts), Deviation: []*float64{}}
 		if i < len(r.Curves.Deviation) {

@@ -13,8 +13,11 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
+	"gonum.org/v1/plot/vg/vgsvg"
 
 	"borel/stats/audit"
+	"borel/stats/checks"
 )
 
 // Figure is one plot of an audit, ready to write as SVG or PNG.
@@ -22,26 +25,72 @@ type Figure struct {
 	Name  string // file name stem, e.g. "frequencies"
 	Title string
 	plot  *plot.Plot
+	// legendBelow draws the legend under the plot area instead of on it,
+	// so that the axes keep their natural range (p-values and dimensions
+	// end at 1; a legend of six series pushed the axis to 1.6).
+	legendBelow bool
+	// pngPlot, when set, is the plot the PNG draws: its legend spells
+	// what the raster fonts lack (∇ as Δ).
+	pngPlot *plot.Plot
 }
 
-const figW, figH = 6 * vg.Inch, 3.6 * vg.Inch
+// The size of every figure: 6 × 3.6 inches (plus its legend when that is
+// below), and PNGs at PNGDPI, sharp enough to print (1200 × 720 pixels).
+const (
+	figW, figH = 6 * vg.Inch, 3.6 * vg.Inch
+	PNGDPI     = 200
+)
 
 // SVG renders the figure as an SVG document.
 func (f Figure) SVG() ([]byte, error) { return f.render("svg") }
 
-// PNG renders the figure as a PNG image.
+// PNG renders the figure as a PNG image at PNGDPI.
 func (f Figure) PNG() ([]byte, error) { return f.render("png") }
 
 func (f Figure) render(format string) ([]byte, error) {
-	wt, err := f.plot.WriterTo(figW, figH, format)
-	if err != nil {
-		return nil, err
+	p := f.plot
+	if format == "png" && f.pngPlot != nil {
+		p = f.pngPlot
+	}
+	h := figH
+	var legendH vg.Length
+	if f.legendBelow {
+		legendH = legendHeight(p)
+		h += legendH
+	}
+	var c vg.CanvasWriterTo
+	switch format {
+	case "svg":
+		c = vgsvg.New(figW, h)
+	case "png":
+		c = vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(figW, h), vgimg.UseDPI(PNGDPI))}
+	default:
+		return nil, fmt.Errorf("reports: no figure format %q", format)
+	}
+	dc := draw.New(c)
+	if f.legendBelow {
+		legend := p.Legend
+		p.Legend = plot.NewLegend()
+		p.Draw(draw.Crop(dc, 0, 0, legendH, 0))
+		p.Legend = legend
+		area := draw.Crop(dc, 0.4*vg.Inch, 0, 0, -figH)
+		legend.Top, legend.Left = true, true
+		legend.Draw(area)
+	} else {
+		p.Draw(dc)
 	}
 	var b bytes.Buffer
-	if _, err := wt.WriteTo(&b); err != nil {
+	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
 	return b.Bytes(), nil
+}
+
+// legendHeight is the room a legend needs below the plot: its entries and
+// a margin.
+func legendHeight(p *plot.Plot) vg.Length {
+	r := p.Legend.Rectangle(draw.Canvas{})
+	return r.Max.Y - r.Min.Y + 10
 }
 
 // Greys and dash patterns that stay distinguishable in grey print.
@@ -49,6 +98,19 @@ var (
 	ink    = []color.Color{color.Gray{0}, color.Gray{90}, color.Gray{150}, color.RGBA{0, 90, 160, 255}, color.RGBA{180, 60, 0, 255}}
 	dashes = [][]vg.Length{nil, {vg.Points(5), vg.Points(3)}, {vg.Points(1.5), vg.Points(2)}, {vg.Points(8), vg.Points(2), vg.Points(1.5), vg.Points(2)}, {vg.Points(3), vg.Points(1)}}
 	shapes = []draw.GlyphDrawer{draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{}, draw.CrossGlyph{}, draw.PlusGlyph{}, draw.RingGlyph{}, draw.PyramidGlyph{}, draw.BoxGlyph{}}
+	// series are the styles of the running plot's digits: each its own
+	// colour, dash pattern and marker (none solid: solid is the envelope's).
+	series = []struct {
+		ink    color.Color
+		dashes []vg.Length
+		shape  draw.GlyphDrawer
+	}{
+		{color.RGBA{0, 90, 160, 255}, []vg.Length{vg.Points(6), vg.Points(3)}, draw.CircleGlyph{}},
+		{color.RGBA{180, 60, 0, 255}, []vg.Length{vg.Points(1.5), vg.Points(2)}, draw.SquareGlyph{}},
+		{color.Gray{70}, []vg.Length{vg.Points(8), vg.Points(2), vg.Points(1.5), vg.Points(2)}, draw.TriangleGlyph{}},
+		{color.RGBA{0, 130, 60, 255}, []vg.Length{vg.Points(3), vg.Points(1.5)}, draw.CrossGlyph{}},
+		{color.Gray{130}, []vg.Length{vg.Points(10), vg.Points(3)}, draw.RingGlyph{}},
+	}
 )
 
 func styleLine(l *plotter.Line, i int) {
@@ -123,9 +185,10 @@ func (preciseTicks) Ticks(lo, hi float64) []plot.Tick {
 	return ts
 }
 
-// plotLabel writes a statistic label with glyphs the plot fonts have:
-// Good's differences ∇ψ² become Δψ² (the usual alternative notation).
-func plotLabel(l string) string { return strings.ReplaceAll(readableLabel(l), "∇", "Δ") }
+// rasterLabel writes a label with glyphs the PNG fonts have: they lack ∇,
+// so Good's differences ∇ψ² become Δψ² there (the SVG, drawn by the
+// viewer's fonts, writes ∇ψ² as the tables do).
+func rasterLabel(l string) string { return strings.ReplaceAll(l, "∇", "Δ") }
 
 // legendRoom raises the top of the y axis so that a legend of n entries
 // sits above the data instead of on it.
@@ -265,9 +328,35 @@ func pQQFigure(r *audit.Result) (Figure, bool, error) {
 		return Figure{}, false, err
 	}
 	styleLine(diag, 1)
-	p.Add(diag, sc)
+	p.Add(diag)
+	var bandLine *plotter.Line
+	if m := len(ps); len(r.Curves.QQLow) == m {
+		for k, bound := range [][]float64{r.Curves.QQLow, r.Curves.QQHigh} {
+			xy := make(plotter.XYs, 0, m+1)
+			if k == 1 { // the upper bound starts at d for the first point
+				xy = append(xy, plotter.XY{X: 0, Y: bound[0]})
+			}
+			for i, v := range bound {
+				xy = append(xy, plotter.XY{X: pts[i].X, Y: v})
+			}
+			if k == 0 {
+				xy = append(xy, plotter.XY{X: 1, Y: bound[m-1]})
+			}
+			l, err := plotter.NewLine(xy)
+			if err != nil {
+				return Figure{}, false, err
+			}
+			styleLine(l, 2)
+			p.Add(l)
+			bandLine = l
+		}
+	}
+	p.Add(sc)
 	p.Legend.Add("findings", sc)
 	p.Legend.Add("uniform (null)", diag)
+	if bandLine != nil {
+		p.Legend.Add(fmt.Sprintf("%g%% band (Kolmogorov–Smirnov, simultaneous)", 100*audit.BandLevel), bandLine)
+	}
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 1, 0, 1
 	p.Legend.Left = true // the top left stays empty when the points follow the diagonal
 	return Figure{Name: "p-qq", Title: "Q–Q plot of p-values", plot: p}, true, nil
@@ -324,8 +413,17 @@ func dimensionFigure(r *audit.Result) (Figure, bool, error) {
 	}
 	p.X.Min, p.X.Max = k0, k1
 	p.X.Tick.Marker = integerTicks{}
-	legendRoom(p, 3)
-	return Figure{Name: "dimension", Title: "Entropy dimension profile", plot: p}, true, nil
+	// A dimension is at most 1: the axis ends there (the legend is below).
+	lo := 1.0
+	for _, row := range e.Rows {
+		lo = math.Min(lo, row.Dimension)
+		if !math.IsNaN(row.DimLow) {
+			lo = math.Min(lo, row.DimLow)
+		}
+	}
+	lo = math.Min(lo, e.NullDimension)
+	p.Y.Min, p.Y.Max = math.Max(0, lo-0.05*(1-lo)-1e-6), 1
+	return Figure{Name: "dimension", Title: "Entropy dimension profile", plot: p, legendBelow: true}, true, nil
 }
 
 func runningFigure(r *audit.Result) (Figure, bool, error) {
@@ -366,10 +464,22 @@ func runningFigure(r *audit.Result) (Figure, bool, error) {
 		if err != nil {
 			return Figure{}, false, err
 		}
-		styleLine(l, i+3)
-		l.Width = vg.Points(0.8)
-		p.Add(l)
-		p.Legend.Add(fmt.Sprintf("digit %d", d), l)
+		st := series[i%len(series)]
+		l.Color, l.Dashes, l.Width = st.ink, st.dashes, vg.Points(1.1)
+		// Markers at about eight points along the line, each digit its own
+		// shape, so the series stay apart in grey print.
+		var marks plotter.XYs
+		step := max(1, len(xy)/8)
+		for k := len(xy) - 1; k >= 0; k -= step {
+			marks = append(marks, xy[k])
+		}
+		sc, err := plotter.NewScatter(marks)
+		if err != nil {
+			return Figure{}, false, err
+		}
+		sc.GlyphStyle.Shape, sc.GlyphStyle.Color, sc.GlyphStyle.Radius = st.shape, st.ink, vg.Points(2.3)
+		p.Add(l, sc)
+		p.Legend.Add("digit "+checks.DigitName(d, r.Base), l, sc)
 	}
 	for _, sign := range []float64{1, -1} {
 		env := make(plotter.XYs, len(pts))
@@ -387,34 +497,47 @@ func runningFigure(r *audit.Result) (Figure, bool, error) {
 			p.Legend.Add("±√(2 ln ln n), iterated-logarithm envelope (descriptive)", l)
 		}
 	}
-	legendRoom(p, len(digits)+1)
-	return Figure{Name: "running", Title: "Running frequency deviation", plot: p}, true, nil
+	return Figure{Name: "running", Title: "Running frequency deviation", plot: p, legendBelow: true}, true, nil
 }
 
 func segmentFigure(r *audit.Result) (Figure, bool, error) {
 	if len(r.SegmentPValues) == 0 {
 		return Figure{}, false, nil
 	}
-	p := newPlot(fmt.Sprintf("Second level: p-values in each of %d segments", r.Segments), "segment", "p-value (upper tail)")
-	for i, s := range r.SegmentPValues {
-		xy := make(plotter.XYs, len(s.PValues))
-		for j, v := range s.PValues {
-			xy[j] = plotter.XY{X: float64(j + 1), Y: v}
+	build := func(label func(string) string) (*plot.Plot, error) {
+		p := newPlot(fmt.Sprintf("Second level: p-values in each of %d segments", r.Segments), "segment", "p-value (upper tail)")
+		for i, s := range r.SegmentPValues {
+			xy := make(plotter.XYs, len(s.PValues))
+			for j, v := range s.PValues {
+				xy[j] = plotter.XY{X: float64(j + 1), Y: v}
+			}
+			sc, err := plotter.NewScatter(xy)
+			if err != nil {
+				return nil, err
+			}
+			sc.GlyphStyle.Shape = shapes[i%len(shapes)]
+			sc.GlyphStyle.Color = ink[i%len(ink)]
+			sc.GlyphStyle.Radius = vg.Points(2.2)
+			p.Add(sc)
+			p.Legend.Add(label(readableLabel(s.Label)), sc)
 		}
-		sc, err := plotter.NewScatter(xy)
-		if err != nil {
-			return Figure{}, false, err
-		}
-		sc.GlyphStyle.Shape = shapes[i%len(shapes)]
-		sc.GlyphStyle.Color = ink[i%len(ink)]
-		sc.GlyphStyle.Radius = vg.Points(2.2)
-		p.Add(sc)
-		p.Legend.Add(plotLabel(s.Label), sc)
+		// p-values live in [0, 1] and the legend is below: the axis ends at
+		// 1, and half a segment of room at each end keeps the first and the
+		// last points whole.
+		p.Y.Min, p.Y.Max = 0, 1
+		p.X.Min, p.X.Max = 0.5, float64(r.Segments)+0.5
+		p.X.Tick.Marker = integerTicks{}
+		return p, nil
 	}
-	p.Y.Min, p.Y.Max = 0, 1
-	legendRoom(p, len(r.SegmentPValues))
-	p.X.Tick.Marker = integerTicks{}
-	return Figure{Name: "segments", Title: "Segment p-values", plot: p}, true, nil
+	p, err := build(func(s string) string { return s })
+	if err != nil {
+		return Figure{}, false, err
+	}
+	raster, err := build(rasterLabel)
+	if err != nil {
+		return Figure{}, false, err
+	}
+	return Figure{Name: "segments", Title: "Segment p-values", plot: p, pngPlot: raster, legendBelow: true}, true, nil
 }
 
 // tenths counts p-values in the bins [0, 0.1), …, [0.9, 1] (1 in the last).

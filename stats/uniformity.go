@@ -131,6 +131,42 @@ func KSLogTails(m int, d float64) (upper, lower float64) {
 	return math.Log(math.Max(1-cdf, 1e-300)), math.Log(cdf)
 }
 
+// KSCritical returns the d with P(D_m < d) = level for the two-sided
+// Kolmogorov–Smirnov statistic of m independent uniforms (the inverse of
+// KSExactCDF, by bisection to 1e-12).
+func KSCritical(m int, level float64) float64 {
+	lo, hi := 0.0, 1.0
+	for hi-lo > 1e-12 {
+		mid := (lo + hi) / 2
+		if KSExactCDF(m, mid) < level {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return (lo + hi) / 2
+}
+
+// KSBand returns, for the ordered values p_(1) ≤ … ≤ p_(m) of m
+// independent uniforms, the simultaneous band that holds all of them with
+// probability level: D_m < d, with d = KSCritical(m, level), is the event
+//
+//	i/m − d < p_(i) < (i−1)/m + d  for every i,
+//
+// since D = max_i max(i/m − p_(i), p_(i) − (i−1)/m) (KSStatistic). The
+// bounds are clipped to [0, 1]. It is the band a uniform Q–Q plot draws
+// so that a reader can tell chance from defect; for dependent p-values
+// (findings of one sequence are correlated) it is a guide, not a test.
+func KSBand(m int, level float64) (lo, hi []float64) {
+	d := KSCritical(m, level)
+	lo, hi = make([]float64, m), make([]float64, m)
+	for i := 1; i <= m; i++ {
+		lo[i-1] = math.Max(0, float64(i)/float64(m)-d)
+		hi[i-1] = math.Min(1, float64(i-1)/float64(m)+d)
+	}
+	return lo, hi
+}
+
 // AndersonDarling returns A² = -m - (1/m) Σ (2i-1)[ln p_(i) + ln(1 - p_(m+1-i))]
 // for m p-values given with both logs (Anderson & Darling, Ann. Math.
 // Statist. 23 (1952) 193–212). A p-value of exactly 0 or 1 (a degenerate

@@ -2,6 +2,8 @@ package stats
 
 import (
 	"math"
+	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -106,5 +108,47 @@ func TestSecondLevelWorkedExample(t *testing.T) {
 	// The far tail keeps its magnitude.
 	if up, _ := ADLogTails(100, 40); !(up < math.Log(1e-15) && !math.IsInf(up, 0)) {
 		t.Errorf("ln P(A² ≥ 40) = %g", up)
+	}
+}
+
+// The Kolmogorov–Smirnov critical values match scipy.stats.kstwo.ppf
+// (Debian's python3-scipy 1.10.1), e.g. m = 10 at 99%: 0.48893 (Massey's
+// table, JASA 46 (1951), gives 0.49); and the band holds all m ordered
+// uniforms in a fraction level of seeded draws.
+func TestKSBand(t *testing.T) {
+	for _, c := range []struct {
+		m           int
+		level, want float64
+	}{
+		{1, 0.99, 0.995}, {5, 0.99, 0.6685311015147539}, {10, 0.99, 0.48893165941109124}, {30, 0.99, 0.2898639065419554},
+		{100, 0.99, 0.16080868092855588}, {400, 0.99, 0.08092853743274622}, {10, 0.95, 0.40924608477750496}, {100, 0.95, 0.13402791648569568},
+	} {
+		if got := KSCritical(c.m, c.level); math.Abs(got-c.want) > 1e-6 {
+			t.Errorf("KSCritical(%d, %g) = %.9f, scipy %.9f", c.m, c.level, got, c.want)
+		}
+	}
+	const m, runs = 30, 4000
+	lo, hi := KSBand(m, 0.95)
+	rng := rand.New(rand.NewPCG(3, 30))
+	inside := 0
+	for r := 0; r < runs; r++ {
+		p := make([]float64, m)
+		for i := range p {
+			p[i] = rng.Float64()
+		}
+		sort.Float64s(p)
+		ok := true
+		for i, v := range p {
+			if v <= lo[i] || v >= hi[i] {
+				ok = false
+			}
+		}
+		if ok {
+			inside++
+		}
+	}
+	// 95% of 4000: binomial sd 13.8, so ±4 sd is ±55.
+	if inside < 3800-55 || inside > 3800+55 {
+		t.Errorf("%d of %d draws inside the 95%% band", inside, runs)
 	}
 }

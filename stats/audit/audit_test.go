@@ -475,3 +475,24 @@ func TestPokerSaysWhere(t *testing.T) {
 	}
 	t.Error("no poker finding")
 }
+
+// Coupon says where: digits that repeat the previous one take longer to
+// show every digit, so long segments are too common; the note names the
+// pooled segment lengths ("segments of ≥ 40 digits: +…σ").
+func TestCouponSaysWhere(t *testing.T) {
+	d := expand.Sticky(300_000, 10, 0.1, rand.New(rand.NewPCG(9, 10)))
+	r, err := Digits(d, 10, Source{Name: "t", Kind: "built-in", Bytes: -1}, DefaultOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range r.Findings {
+		if f.Check == "coupon" {
+			if f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "segments of ") || !strings.Contains(f.Where, "digits: ") {
+				t.Errorf("coupon: mark %q, where %q", f.Mark, f.Where)
+			}
+			t.Logf("coupon where: %s", f.Where)
+			return
+		}
+	}
+	t.Error("no coupon finding")
+}

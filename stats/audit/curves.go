@@ -18,6 +18,10 @@ type Curves struct {
 	// Envelope: per trace point, √(2 ln ln n) (stats.IteratedLogEnvelope;
 	// NaN for n ≤ e).
 	Envelope []float64
+	// QQLow, QQHigh: for the findings' upper-tail p-values in increasing
+	// order, the simultaneous BandLevel band of m ordered independent
+	// uniforms (stats.KSBand, m the number of findings).
+	QQLow, QQHigh []float64
 }
 
 // curves computes the reference curves of a result whose null is resolved.
@@ -33,4 +37,12 @@ func curves(r *Result) Curves {
 		c.Envelope = append(c.Envelope, stats.IteratedLogEnvelope(float64(tp.Pos)))
 	}
 	return c
+}
+
+// qqBand sets the Q–Q band for the result's findings (once they exist).
+func qqBand(r *Result) {
+	r.Curves.QQLow, r.Curves.QQHigh = nil, nil
+	if m := len(r.Findings); m > 0 {
+		r.Curves.QQLow, r.Curves.QQHigh = stats.KSBand(m, BandLevel)
+	}
 }

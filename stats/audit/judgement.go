@@ -227,6 +227,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	if len(res.Findings) == 0 {
 		res.Verdict = Untested
 	}
+	qqBand(res)
 	for _, f := range res.Findings {
 		if _, ok := f.Params["class"]; ok && f.Check == "gap" {
 			res.Notes = append(res.Notes, gapClassNote(res.Base))

@@ -261,6 +261,29 @@ func (couponCheck) Run(in Input, out *Result) {
 	}
 	f := chiSquareFinding("coupon", "X2", params, x2, float64(classes-1), smallest)
 	f.Detail = fmt.Sprintf("%d segments (%.4g expected) over %d classes, %d length classes after pooling", segs, expSegs, d, classes)
+	// Where: the pooled length classes of largest residual, named by the
+	// segment lengths they hold (class i is length d+i; the last, the cap
+	// and beyond).
+	group, _ := poolIndex(ref, in.Opts.MinExpected)
+	po, pe := poolClassesBy(obs, exp, ref, in.Opts.MinExpected)
+	f.Where = topResiduals(po, pe, 3, func(g int) string {
+		lo, hi := -1, -1
+		for i, gi := range group {
+			if gi == g {
+				if lo < 0 {
+					lo = i
+				}
+				hi = i
+			}
+		}
+		switch {
+		case hi == len(group)-1:
+			return fmt.Sprintf("segments of ≥ %d digits", d+lo)
+		case lo == hi:
+			return fmt.Sprintf("segments of %d digits", d+lo)
+		}
+		return fmt.Sprintf("segments of %d–%d digits", d+lo, d+hi)
+	})
 	if in.Null.Kind == Fitted {
 		f.Notes = append(f.Notes, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)")
 	}
