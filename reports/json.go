@@ -110,6 +110,7 @@ type JSONFinding struct {
 	BH             JSONTails      `json:"bh"`
 	Mark           string         `json:"mark"`
 	Where          string         `json:"where,omitempty"`
+	WhereHow       string         `json:"where_how,omitempty"`
 	Detail         string         `json:"detail,omitempty"`
 	Notes          []string       `json:"notes"`
 }
@@ -277,7 +278,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
 			Holm: tails(f.LogHolmUpper, f.LogHolmLower), BH: tails(f.LogBHUpper, f.LogBHLower),
-			Mark: f.Mark, Where: f.Where, Detail: f.Detail, Notes: nonNil(f.Notes),
+			Mark: f.Mark, Where: f.Where, WhereHow: f.WhereHow, Detail: f.Detail, Notes: nonNil(f.Notes),
 		})
 	}
 	for _, s := range r.Skips {

@@ -496,3 +496,50 @@ func TestCouponSaysWhere(t *testing.T) {
 	}
 	t.Error("no coupon finding")
 }
+
+// Lagcorr's portmanteau Q says which lags carry it, and a second-level
+// finding which segments: digits that repeat the previous one correlate at
+// lag 1; a sequence that turns biased in its last fifth has its smallest
+// segment p-values in its last segments.
+func TestLagsAndSegmentsSayWhere(t *testing.T) {
+	d := expand.Sticky(200_000, 10, 0.02, rand.New(rand.NewPCG(2, 2026)))
+	r, err := Digits(d, 10, Source{Name: "t", Kind: "built-in", Bytes: -1}, DefaultOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range r.Findings {
+		if f.Check == "lagcorr" && f.Statistic == "Q" {
+			if note := strings.Join(f.Notes, " "); f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "lag 1: +") ||
+				!strings.Contains(note, "largest deviations (z of each lag's correlation): lag 1: +") {
+				t.Errorf("lagcorr Q: mark %q, where %q, notes %q", f.Mark, f.Where, note)
+			}
+		}
+	}
+	rng := rand.New(rand.NewPCG(5, 5))
+	late := make([]byte, 100_000)
+	for i := range late {
+		late[i] = byte(rng.IntN(10))
+		if i >= 80_000 && rng.Float64() < 0.05 {
+			late[i] = 7
+		}
+	}
+	opts := DefaultOptions()
+	opts.Segments = 10
+	r, err = Digits(late, 10, Source{Name: "t", Kind: "built-in", Bytes: -1}, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	seen := false
+	for _, f := range r.Findings {
+		if f.Check == "segments" && f.Mark == MarkDeviates && strings.HasPrefix(f.Of, "freq") {
+			seen = true
+			if !strings.HasPrefix(f.Where, "segment 9: p = ") && !strings.HasPrefix(f.Where, "segment 10: p = ") ||
+				f.WhereHow != "in the segments' p-values (smallest first)" {
+				t.Errorf("segments of %s: where %q (%s)", f.Of, f.Where, f.WhereHow)
+			}
+		}
+	}
+	if !seen {
+		t.Error("no deviating second-level finding of freq")
+	}
+}

@@ -274,7 +274,7 @@ func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
 			a.Mark = MarkDeviates
 			verdict = NotConsistent
 			if a.Where != "" { // say where, in every format's notes
-				a.Notes = append(slices.Clone(a.Notes), "largest deviations (O − E)/√E: "+a.Where)
+				a.Notes = append(slices.Clone(a.Notes), a.Finding.WhereNote())
 			}
 		case a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkTooUniform

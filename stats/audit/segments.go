@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sort"
+	"strings"
 
 	"borel/internal/tally"
 	"borel/stats"
@@ -164,14 +166,43 @@ func secondLevel(segs []*tally.Tally, null checks.Null, opts Options) ([]checks.
 			p[i] = math.Exp(v.LogP)
 		}
 		series = append(series, SegmentSeries{Label: l, PValues: p})
+		where, how := extremeSegments(p, 3)
 		d := stats.KSStatistic(p)
 		ksUp, ksLo := stats.KSLogTails(m, d)
 		fs = append(fs, checks.Clamp(checks.Finding{Check: "segments", Statistic: "KS", Of: l, Value: d,
-			LogPUpper: ksUp, LogPLower: ksLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)}))
+			LogPUpper: ksUp, LogPLower: ksLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l), Where: where, WhereHow: how}))
 		a2 := stats.AndersonDarling(ps)
 		adUp, adLo := stats.ADLogTails(m, a2)
 		fs = append(fs, checks.Clamp(checks.Finding{Check: "segments", Statistic: "AD", Of: l, Value: a2,
-			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l)}))
+			LogPUpper: adUp, LogPLower: adLo, Detail: fmt.Sprintf("%d segment p-values of %s", m, l), Where: where, WhereHow: how}))
 	}
 	return fs, skips, series
+}
+
+// extremeSegments names the k segments whose p-values pull the empirical
+// law furthest from uniform: the smallest p-values when there are too
+// many small ones (D+ = max i/m − p_(i) is the larger side of the KS
+// distance), else the largest. Segments count from 1.
+func extremeSegments(p []float64, k int) (where, how string) {
+	m := len(p)
+	idx := make([]int, m)
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return p[idx[a]] < p[idx[b]] })
+	var dPlus, dMinus float64
+	for r, i := range idx {
+		dPlus = math.Max(dPlus, float64(r+1)/float64(m)-p[i])
+		dMinus = math.Max(dMinus, p[i]-float64(r)/float64(m))
+	}
+	how = "in the segments' p-values (smallest first)"
+	if dMinus > dPlus {
+		slices.Reverse(idx)
+		how = "in the segments' p-values (largest first)"
+	}
+	var parts []string
+	for _, i := range idx[:min(k, m)] {
+		parts = append(parts, fmt.Sprintf("segment %d: p = %.3g", i+1, p[i]))
+	}
+	return strings.Join(parts, "; "), how
 }

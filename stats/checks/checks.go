@@ -48,6 +48,20 @@ type Finding struct {
 	// (O − E)/√E, e.g. "digit 0: +6.3σ; digit 7: −3.1σ": what a reader of a
 	// failing finding asks first. Empty for statistics without cells.
 	Where string
+	// WhereHow says how Where measures its deviations when they are not
+	// standardized residuals of counts (a lag's z score, a segment's
+	// p-value); empty for "(O − E)/√E".
+	WhereHow string
+}
+
+// WhereNote is the note a deviating finding carries: how its largest
+// deviations are measured, and where they are.
+func (f Finding) WhereNote() string {
+	how := f.WhereHow
+	if how == "" {
+		how = "(O − E)/√E"
+	}
+	return "largest deviations " + how + ": " + f.Where
 }
 
 // topResiduals writes the k cells of largest |(O − E)/√E|, named by name,

@@ -3,6 +3,8 @@ package checks
 import (
 	"fmt"
 	"math"
+	"sort"
+	"strings"
 
 	"borel/internal/tally"
 )
@@ -64,6 +66,7 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 		return
 	}
 	Q := 0.0
+	zs := make([]float64, H+1)
 	for h := 1; h <= H; h++ {
 		var first, last int64
 		for i := 0; i < h; i++ {
@@ -76,9 +79,26 @@ func (lagcorrCheck) Run(in Input, out *Result) {
 		r := num / den
 		z := (r + pairs/(nf*(nf-1))) / math.Sqrt(pairs/(nf*(nf+2)))
 		Q += z * z
+		zs[h] = z
 		f := normalFinding("lagcorr", "z", map[string]int{"lag": h}, z)
 		f.Detail = fmt.Sprintf("r = %.6g over %d pairs (centred on the sample mean %.6g)", r, n-int64(h), mean)
 		out.Findings = append(out.Findings, f)
 	}
-	out.Findings = append(out.Findings, chiSquareFinding("lagcorr", "Q", map[string]int{"lags": H}, Q, float64(H), 0))
+	q := chiSquareFinding("lagcorr", "Q", map[string]int{"lags": H}, Q, float64(H), 0)
+	q.Where, q.WhereHow = topZ(zs[1:], 3, func(i int) string { return fmt.Sprintf("lag %d", i+1) }), "(z of each lag's correlation)"
+	out.Findings = append(out.Findings, q)
+}
+
+// topZ writes the k entries of largest |z|, largest first: "name: +9.8σ; …".
+func topZ(z []float64, k int, name func(i int) string) string {
+	idx := make([]int, len(z))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return math.Abs(z[idx[a]]) > math.Abs(z[idx[b]]) })
+	var parts []string
+	for _, i := range idx[:min(k, len(idx))] {
+		parts = append(parts, fmt.Sprintf("%s: %+.1fσ", name(i), z[i]))
+	}
+	return strings.Join(parts, "; ")
 }
