@@ -94,7 +94,7 @@ func LincompSelected(j int64) bool { return j < 8 || j%32 == 0 }
 // CollisionBits is the number of top bits the collision test reads, and
 // CollisionBlock the words per block (2^(h/2): about half a collision per
 // block).
-func CollisionBits(word int) int { return min(word, 32) }
+func CollisionBits(word int) int  { return min(word, 32) }
 func CollisionBlock(word int) int { return 1 << (CollisionBits(word) / 2) }
 
 func (s *WordSpec) Kind() string { return s.Test }
@@ -162,6 +162,7 @@ func (s *WordSpec) Cells() int {
 }
 
 func (s *WordSpec) span() int { return 1 }
+
 // cells counts the counters only: the partial items at the two ends (at
 // most 2 × 400 KB, lincomp's segments of 32-bit words) are bytes a decoded
 // shard carries itself, and negligible beside the budget.
