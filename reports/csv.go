@@ -92,7 +92,7 @@ func CSV(w io.Writer, doc Document) error {
 	}
 	for _, r := range doc.Results {
 		for _, f := range r.Findings {
-			row := []string{r.Source.Name, strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), r.Verdict,
+			row := []string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), r.Verdict,
 				f.Check, f.Statistic, csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
 				full(f.Value), fullDF(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),

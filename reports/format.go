@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"borel/stats/audit"
 	"borel/stats/checks"
 )
 
@@ -94,4 +95,13 @@ func formatParams(p map[string]int) string {
 		}
 	}
 	return strings.Join(parts, ", ")
+}
+
+// seqName names an audit's sequence in titles and tables: the source, and
+// the view of it when the input is read in several word views.
+func seqName(r *audit.Result) string {
+	if r.Source.View != "" {
+		return r.Source.Name + " (" + r.Source.View + ")"
+	}
+	return r.Source.Name
 }

@@ -151,7 +151,7 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 }
 
 func htmlAuditOf(doc Document, r *audit.Result) (htmlAudit, error) {
-	a := htmlAudit{Title: "borel audit of " + r.Source.Name + " in base " + itoa(r.Base), Verdict: r.Verdict,
+	a := htmlAudit{Title: "borel audit of " + seqName(r) + " in base " + itoa(r.Base), Verdict: r.Verdict,
 		VerdictClass: strings.ReplaceAll(r.Verdict, " ", "-"), Reason: verdictReason(r), Provenance: provenance(doc, r),
 		AuditNotes: r.Notes}
 	a.Header, a.Rows, a.Notes = findingTable(r)

@@ -73,6 +73,7 @@ type JSONSource struct {
 	Name        string   `json:"name"`
 	Kind        string   `json:"kind"`
 	Format      string   `json:"format,omitempty"`
+	View        string   `json:"view,omitempty"`
 	Bytes       *int64   `json:"bytes,omitempty"`
 	Compressed  bool     `json:"compressed"`
 	IntegerPart string   `json:"integer_part_dropped,omitempty"`
@@ -257,7 +258,7 @@ func JSON(w io.Writer, doc Document) error {
 
 func jsonAudit(r *audit.Result) JSONAudit {
 	a := JSONAudit{
-		Source: JSONSource{Name: r.Source.Name, Kind: r.Source.Kind, Format: r.Source.Format,
+		Source: JSONSource{Name: r.Source.Name, Kind: r.Source.Kind, Format: r.Source.Format, View: r.Source.View,
 			Compressed: r.Source.Compressed, IntegerPart: r.Source.IntegerPart,
 			SHA256: r.Source.SHA256, Parameters: r.Source.Parameters, Checks: slices.Clone(r.Source.Checks)},
 		Segments: r.Segments, Seed: r.Seed,

@@ -160,7 +160,7 @@ func texFindings(w io.Writer, r *audit.Result) {
 	fmt.Fprintln(w, `\begingroup\footnotesize\setlength{\tabcolsep}{3pt}\setlength{\LTcapwidth}{\linewidth}`)
 	fmt.Fprintln(w, `\begin{longtable}{@{}p{0.25\linewidth}rrrrrl@{}}`)
 	fmt.Fprintf(w, "\\caption{borel audit of \\texttt{%s} in base %d: %d digits against the %s null, %s adjustment over %d $p$-values, $\\alpha = %s$. Verdict: \\textbf{%s}.}\\tabularnewline\n",
-		texName(r.Source.Name), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
+		texName(seqName(r)), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
 		2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(r.Verdict))
 	fmt.Fprintln(w, texFindingsHead)
 	fmt.Fprintln(w, `\endfirsthead`)

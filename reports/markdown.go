@@ -103,7 +103,7 @@ func Markdown(w io.Writer, doc Document) error {
 		fmt.Fprintln(bw)
 	}
 	for _, r := range doc.Results {
-		fmt.Fprintf(bw, "### borel audit of %s in base %d: %s\n\n", mdCell(r.Source.Name), r.Base, r.Verdict)
+		fmt.Fprintf(bw, "### borel audit of %s in base %d: %s\n\n", mdCell(seqName(r)), r.Base, r.Verdict)
 		fmt.Fprintf(bw, "%s\n\n", mdCell(verdictReason(r)))
 		// The provenance as a list: a table needs a header row, and an
 		// empty one rendered as a blank bar.

@@ -80,7 +80,7 @@ func joinFloats(p []float64) string {
 
 func textResult(w io.Writer, doc Document, r *audit.Result) error {
 	m := textMeasure(doc.Width)
-	hanging(w, m, "", "borel audit of "+r.Source.Name)
+	hanging(w, m, "", "borel audit of "+seqName(r))
 	for _, p := range provenance(doc, r) {
 		hanging(w, m, fmt.Sprintf("  %-12s ", p[0]), p[1])
 	}
@@ -127,7 +127,7 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		}
 	}
 	fmt.Fprintln(w)
-	hanging(w, m, "", fmt.Sprintf("Verdict for %s in base %d: %s", r.Source.Name, r.Base, strings.ToUpper(r.Verdict)))
+	hanging(w, m, "", fmt.Sprintf("Verdict for %s in base %d: %s", seqName(r), r.Base, strings.ToUpper(r.Verdict)))
 	hanging(w, m, "  ", verdictReason(r))
 	return nil
 }

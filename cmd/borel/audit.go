@@ -54,6 +54,8 @@ func runAudit(e env, args []string) (int, error) {
 	raw := fs.Bool("raw", false, "read bytes as base-256 digits")
 	gz := fs.String("gzip", "auto", gzipUsage)
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
+	word := fs.Int("word", 0, "with --raw, also read the bytes as words of 8, 16, 24, 32 or 64 bits: word-level checks (linear complexity, rank, birthday spacings, collisions, Hamming weights, order) and views of the words' top bits, lowest and highest bit")
+	endian := fs.String("endian", "little", "byte order of --word: little (the usual memory order) or big")
 	var af auditFlags
 	af.register(fs, flNull|flAlpha|flAdjust|flMaxBlock|flMemory|flStrict|flSegments|flSeed|flWorkers|flChecks, nil)
 	var out output
@@ -69,9 +71,20 @@ func runAudit(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
+	switch *word {
+	case 0, 8, 16, 24, 32, 64:
+	default:
+		return 0, usagef("--word %d: words are 8, 16, 24, 32 or 64 bits", *word)
+	}
+	if *endian != "little" && *endian != "big" {
+		return 0, usagef("--endian %q: little or big", *endian)
+	}
+	if (*word > 0 || fs.Changed("endian")) && (!*raw || *bits || *source != "") {
+		return 0, usagef("--word and --endian read a raw byte stream as words; use them with --raw on a file or standard input")
+	}
 	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
 		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
-			raw: *raw, bits: *bits, count: *count, flags: &af, out: out, gzip: gzipMode})
+			raw: *raw, bits: *bits, word: *word, bigEndian: *endian == "big", count: *count, flags: &af, out: out, gzip: gzipMode})
 	}
 	if fs.NArg() != 1 {
 		return 0, usagef("audit needs one input, a file or - for standard input (got %d); see borel audit --help", fs.NArg())

@@ -5,7 +5,9 @@ import (
 	"encoding/hex"
 	"fmt"
 	"io"
+	"math"
 	"os"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -152,7 +154,11 @@ func auditRebased(e env, input string, from int, bases []int, opts audit.Options
 
 // auditRegrouped reads a raw byte stream once and audits it in each of the
 // exact regroupings (bits, bit pairs, nibbles, bytes), most significant
-// first.
+// first; with opts.Word it also reads the bytes as words: the bytes view
+// gets the word-level checks, and three views are built from the words
+// (their top h bits as base-2^h digits, h chosen so that the serial and
+// block checks reach triples of consecutive words; their lowest bit; their
+// highest bit).
 func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet bool, gz seq.Gzip) ([]*audit.Result, error) {
 	src, in, closeIn, err := openInput(e, input, seq.Options{Format: seq.Raw, Base: 256, Gzip: gz})
 	if err != nil {
@@ -165,22 +171,95 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 		return nil, err
 	}
 	type lane struct {
-		base, bits int
-		plan       *audit.Plan
-		buf        []byte
+		base         int
+		plan         *audit.Plan
+		buf          []byte
+		format, view string
+		digits       func(chunk, out []byte) []byte
 	}
+	knownBytes := src.Bytes >= 0 && !src.Compressed
+	byteOpts := opts
+	plain := opts
+	plain.Word, plain.BigEndian = 0, false
 	var lanes []*lane
 	for _, b := range bases {
 		bitsPer := map[int]int{2: 1, 4: 2, 16: 4, 256: 8}[b]
 		hint := int64(-1)
-		if src.Bytes >= 0 && !src.Compressed {
+		if knownBytes {
 			hint = src.Bytes * int64(8/bitsPer)
 		}
-		plan, err := audit.NewPlan(b, hint, opts)
+		o := plain
+		if b == 256 {
+			o = byteOpts
+		}
+		plan, err := audit.NewPlan(b, hint, o)
 		if err != nil {
 			return nil, usageError{err.Error()}
 		}
-		lanes = append(lanes, &lane{base: b, bits: bitsPer, plan: plan})
+		per, mask := 8/bitsPer, byte(1<<bitsPer-1)
+		lanes = append(lanes, &lane{base: b, plan: plan, format: map[int]string{2: "bits", 4: "bit pairs", 16: "nibbles", 256: "bytes"}[b],
+			digits: func(chunk, out []byte) []byte {
+				out = out[:0]
+				for _, c := range chunk {
+					for k := 0; k < per; k++ {
+						out = append(out, c>>(8-bitsPer*(k+1))&mask)
+					}
+				}
+				return out
+			}})
+	}
+	if W := opts.Word; W > 0 {
+		per := W / 8
+		order := "little-endian"
+		if opts.BigEndian {
+			order = "big-endian"
+		}
+		words := int64(-1)
+		if knownBytes {
+			words = src.Bytes / int64(per)
+		}
+		h := topBits(words, W)
+		for _, v := range []struct {
+			base  int
+			view  string
+			digit func(w uint64) byte
+		}{
+			{1 << h, fmt.Sprintf("top %d bits of %d-bit %s words", h, W, order), func(w uint64) byte { return byte(w >> (W - h)) }},
+			{2, fmt.Sprintf("bit 0 of %d-bit %s words", W, order), func(w uint64) byte { return byte(w & 1) }},
+			{2, fmt.Sprintf("bit %d of %d-bit %s words", W-1, W, order), func(w uint64) byte { return byte(w >> (W - 1) & 1) }},
+		} {
+			plan, err := audit.NewPlan(v.base, words, plain)
+			if err != nil {
+				return nil, usageError{err.Error()}
+			}
+			var carry []byte // the bytes of a word cut by the chunk's end
+			digit, big := v.digit, opts.BigEndian
+			lanes = append(lanes, &lane{base: v.base, plan: plan, format: "words", view: v.view,
+				digits: func(chunk, out []byte) []byte {
+					out = out[:0]
+					for len(chunk) > 0 {
+						take := min(per-len(carry), len(chunk))
+						carry = append(carry, chunk[:take]...)
+						chunk = chunk[take:]
+						if len(carry) < per {
+							break
+						}
+						var w uint64
+						if big {
+							for _, x := range carry {
+								w = w<<8 | uint64(x)
+							}
+						} else {
+							for k := per - 1; k >= 0; k-- {
+								w = w<<8 | uint64(carry[k])
+							}
+						}
+						out = append(out, digit(w))
+						carry = carry[:0]
+					}
+					return out
+				}})
+		}
 	}
 	for _, l := range lanes {
 		if err := l.plan.Start(); err != nil {
@@ -191,18 +270,10 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 	for r.Scan() {
 		chunk := r.Digits()
 		for _, l := range lanes {
-			per := 8 / l.bits
-			if cap(l.buf) < per*len(chunk) {
-				l.buf = make([]byte, per*len(chunk))
+			l.buf = l.digits(chunk, l.buf)
+			if len(l.buf) > 0 {
+				l.plan.Add(l.buf)
 			}
-			out := l.buf[:per*len(chunk)]
-			mask := byte(1<<l.bits - 1)
-			for j, c := range chunk {
-				for k := 0; k < per; k++ {
-					out[j*per+k] = c >> (8 - l.bits*(k+1)) & mask
-				}
-			}
-			l.plan.Add(out)
 		}
 		prog.update(r.Count(), r.Offset())
 	}
@@ -215,7 +286,7 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 	var results []*audit.Result
 	for _, l := range lanes {
 		s := src
-		s.Format = map[int]string{2: "bits", 4: "bit pairs", 16: "nibbles", 256: "bytes"}[l.base]
+		s.Format, s.View = l.format, l.view
 		res, err := l.plan.Done(s)
 		if err != nil {
 			return nil, err
@@ -223,6 +294,23 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 		results = append(results, res)
 	}
 	return results, nil
+}
+
+// topBits is the number h of top bits of each word that the top-bits view
+// reads: the largest with 5 expected triples of consecutive words in each
+// of the 2^3h cells (n/2^3h ≥ 5), so that the serial and block checks see
+// how consecutive words' leading bits go together (RANDU's triples lie on
+// 15 planes); between 1 and 8 (a base up to 256), below the word size. 5
+// when the length is not known.
+func topBits(words int64, W int) int {
+	h := 5
+	if words > 0 {
+		h = 1
+		for h < 8 && float64(words)/math.Pow(2, float64(3*(h+1))) >= 5 {
+			h++
+		}
+	}
+	return min(h, W-1)
 }
 
 // checkMultiNull refuses a vector null across several bases.
@@ -236,6 +324,8 @@ func checkMultiNull(ns audit.NullSpec, bases []int) error {
 type auditAcross struct {
 	source, bases, fromBase, base string
 	raw, bits                     bool
+	word                          int
+	bigEndian                     bool
 	count                         int
 	flags                         *auditFlags
 	out                           output
@@ -320,6 +410,10 @@ func runAuditAcross(e env, fs interface {
 	case a.source != "":
 		results, err = auditSource(e, a.source, bases, a.count, opts, a.out.quiet)
 	case a.raw:
+		opts.Word, opts.BigEndian = a.word, a.bigEndian
+		if a.word > 0 && !slices.Contains(bases, 256) {
+			return 0, usagef("--word %d: the word checks run in the bytes view; keep base 256 in --bases", a.word)
+		}
 		results, err = auditRegrouped(e, input, bases, opts, a.out.quiet, a.gzip)
 	default:
 		from := 10

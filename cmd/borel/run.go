@@ -135,7 +135,7 @@ func parseFlags(fs *pflag.FlagSet, args []string, help string, stdout io.Writer)
 // valueNames are the placeholders the help shows for option values (pflag
 // would show the Go type: "string" for --alpha, a number).
 var valueNames = map[string]string{
-	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "width": "N", "bases": "LIST", "checks": "LIST",
+	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "width": "N", "word": "W", "endian": "ORDER", "bases": "LIST", "checks": "LIST",
 	"count": "N", "format": "FORMAT", "from": "B", "from-base": "B", "max-block": "K", "memory": "SIZE",
 	"null": "NULL", "offset": "N", "output": "FILE", "plots": "DIR", "section": "NAME", "seed": "N",
 	"segments": "M", "source": "NAME", "to": "B", "workers": "N", "wrap": "W", "gzip": "MODE",

@@ -25,6 +25,12 @@ type Options struct {
 	Segments    int    // second level: number of segments, 0 for none
 	Seed        uint64 // seed of the randomized p-values of discrete statistics
 	Workers     int    // goroutines of the pass (results do not depend on it)
+	// Word, when not 0, reads a raw byte stream (base 256) as words of
+	// this many bits (8, 16, 24, 32 or 64), little-endian unless
+	// BigEndian, for the word-level checks (lincomp, rank, birthday,
+	// wordcoll, hamming, perm) besides the byte-level battery.
+	Word      int
+	BigEndian bool
 	// Checks, when not empty, names the only checks to run (checks.All's
 	// names); the tally then skips the loops no selected check needs.
 	Checks []string
@@ -58,6 +64,10 @@ type Source struct {
 	Name        string // as the user gave it: a path, "-" or a built-in name
 	Kind        string // "file", "stdin" or "built-in"
 	Format      string // "text", "raw" or "bits"
+	// View names, for one of several views of an input read as words,
+	// what this audit reads ("top 5 bits of 32-bit words"); empty for the
+	// byte regroupings and single audits.
+	View string
 	Bytes       int64  // input size in bytes when known, else -1
 	Compressed  bool
 	IntegerPart string   // dropped integer part, "" when none
@@ -78,6 +88,11 @@ func validateOptions(o Options) error {
 	}
 	if !(o.MinExpected > 0) {
 		return fmt.Errorf("minimum expected count must be positive")
+	}
+	switch o.Word {
+	case 0, 8, 16, 24, 32, 64:
+	default:
+		return fmt.Errorf("word size %d bits: use 8, 16, 24, 32 or 64", o.Word)
 	}
 	if o.Segments < 0 || o.Segments == 1 {
 		return optionErrorf(OptSegments, int64(o.Segments), 0, 0, "%s %d: give 2 or more segments, or 0 for none", o.name(OptSegments), o.Segments)

@@ -42,7 +42,7 @@ func validBlock(n float64, minP, minExpected float64) int {
 // their records with their parameters, in the checks' order; the block
 // length is planned afterwards.
 func batterySpec(base int, opts Options) tally.Spec {
-	set := checks.Setting{Base: base, Null: opts.Null.Kind, P: opts.Null.P}
+	set := checks.Setting{Base: base, Null: opts.Null.Kind, P: opts.Null.P, Word: opts.Word, BigEndian: opts.BigEndian}
 	s := tally.Spec{Base: base}
 	for _, c := range checks.All() {
 		if opts.selected(c.Name()) {

@@ -317,6 +317,11 @@ type Setting struct {
 	Base int
 	Null NullKind
 	P    []float64
+	// Word, when not 0, is the word size in bits of a raw byte stream
+	// (base 256) that the word-level checks read, little-endian unless
+	// BigEndian.
+	Word      int
+	BigEndian bool
 }
 
 // Needs is what a check reads from the tally besides the digit counts,
@@ -333,7 +338,8 @@ type Needs struct {
 // All returns the checks of the audit, in report order.
 func All() []Check {
 	return []Check{freqCheck{}, blocksCheck{}, serialCheck{}, gapCheck{}, pokerCheck{}, couponCheck{},
-		updownCheck{}, lagcorrCheck{}, maxrunCheck{}, driftCheck{}, entropyCheck{}}
+		updownCheck{}, lagcorrCheck{}, maxrunCheck{}, driftCheck{}, entropyCheck{},
+		lincompCheck{}, rankCheck{}, birthdayCheck{}, wordcollCheck{}, hammingCheck{}, permCheck{}}
 }
 
 // chiSquareFinding fills both tails of a chi-square statistic formed from
