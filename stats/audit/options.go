@@ -61,14 +61,14 @@ func DefaultOptions() Options {
 
 // Source describes where a sequence came from, for the report.
 type Source struct {
-	Name        string // as the user gave it: a path, "-" or a built-in name
-	Kind        string // "file", "stdin" or "built-in"
-	Format      string // "text", "raw" or "bits"
+	Name   string // as the user gave it: a path, "-" or a built-in name
+	Kind   string // "file", "stdin" or "built-in"
+	Format string // "text", "raw" or "bits"
 	// View names, for one of several views of an input read as words,
 	// what this audit reads ("top 5 bits of 32-bit words"); empty for the
 	// byte regroupings and single audits.
-	View string
-	Bytes       int64  // input size in bytes when known, else -1
+	View        string
+	Bytes       int64 // input size in bytes when known, else -1
 	Compressed  bool
 	IntegerPart string   // dropped integer part, "" when none
 	SHA256      string   // hex SHA-256 of the input bytes as read, "" for built-in sources

@@ -52,7 +52,7 @@ func wordNeeds(s Setting, test string) Needs {
 // is quadratic: 0.13 s a segment); the detail says how many.
 type lincompCheck struct{}
 
-func (lincompCheck) Name() string           { return "lincomp" }
+func (lincompCheck) Name() string          { return "lincomp" }
 func (lincompCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.LinComp) }
 func (lincompCheck) StatisticNames() map[string]StatName {
 	return map[string]StatName{"Lmin": {"L min", `$L_{\min}$`}}
@@ -200,7 +200,7 @@ func log1mExp(x float64) float64 {
 // counts of 5, df = classes − 1.
 type rankCheck struct{}
 
-func (rankCheck) Name() string           { return "rank" }
+func (rankCheck) Name() string          { return "rank" }
 func (rankCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Rank) }
 
 // RankLogP returns ln P(rank = r) for a random W×W binary matrix.
@@ -252,7 +252,7 @@ func (rankCheck) Run(in Input, out *Result) {
 // on few lattice planes, make R too large.
 type birthdayCheck struct{}
 
-func (birthdayCheck) Name() string           { return "birthday" }
+func (birthdayCheck) Name() string          { return "birthday" }
 func (birthdayCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Birthday) }
 func (birthdayCheck) StatisticNames() map[string]StatName {
 	return map[string]StatName{"R": {"ΣR", `$\sum R$`}}
@@ -332,7 +332,7 @@ func (birthdayCheck) Run(in Input, out *Result) {
 // none, and is caught on the too-uniform side.
 type wordcollCheck struct{}
 
-func (wordcollCheck) Name() string           { return "wordcoll" }
+func (wordcollCheck) Name() string          { return "wordcoll" }
 func (wordcollCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.WordColl) }
 func (wordcollCheck) StatisticNames() map[string]StatName {
 	return map[string]StatName{"C": {"C", `$C$`}}
@@ -375,7 +375,7 @@ func (wordcollCheck) Run(in Input, out *Result) {
 // expected counts of 5, df = cells − 1 (the null is fully specified).
 type hammingCheck struct{}
 
-func (hammingCheck) Name() string           { return "hamming" }
+func (hammingCheck) Name() string          { return "hamming" }
 func (hammingCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Hamming) }
 
 // HammingClassProbs returns the binomial(W, 1/2) probabilities of the 5
@@ -430,7 +430,7 @@ func (hammingCheck) Run(in Input, out *Result) {
 // the detail). X² over the 120 orderings, df 119.
 type permCheck struct{}
 
-func (permCheck) Name() string           { return "perm" }
+func (permCheck) Name() string          { return "perm" }
 func (permCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Perm) }
 
 func (permCheck) Run(in Input, out *Result) {
