@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"sort"
+	"strconv"
 	"testing"
 
 	"borel/internal/tally"
@@ -501,4 +502,100 @@ func TestCalibrationSparseFrequencies(t *testing.T) {
 		t.Errorf("sparse freq X² p-values not uniform: KS D = %.4f, p = %.2g", d, math.Exp(lp))
 	}
 	t.Logf("KS D = %.4f, p = %.3g over %d sequences", d, math.Exp(lp), len(up))
+}
+
+// The word-level checks under the null: seeded ChaCha8 bytes read as
+// words, 300 sequences of 40 KB, 120 KB and 400 KB for each word size
+// (16 and 32 bits; 24 and 64 too under BOREL_CALIBRATION=long). Each
+// statistic's upper-tail p-values (randomized where discrete) must be
+// uniform (KS at 0.001), and Holm over the word findings' two tails at
+// alpha = 0.01 must flag no more sequences than the 99.9% binomial
+// interval allows, on either side. lincomp runs on segments of 64 words
+// here (its law is exact for every length; the audit's 10^5 would take
+// minutes), through the same record and check as the audit.
+func TestCalibrationWords(t *testing.T) {
+	sizes := []int{16, 32}
+	if os.Getenv("BOREL_CALIBRATION") == "long" {
+		sizes = append(sizes, 24, 64)
+	}
+	lengths := []int{40_000, 120_000, 400_000}
+	for _, W := range sizes {
+		spec := tally.Spec{Base: 256, MaxBlock: 1}
+		set := checks.Setting{Base: 256, Null: checks.Uniform, Word: W}
+		var run []checks.Check
+		for _, c := range checks.All() {
+			for _, r := range c.Needs(set).Records {
+				if ws, ok := r.(*tally.WordSpec); ok {
+					if ws.Test == tally.LinComp {
+						ws.Segment = 64
+					}
+					spec.Records = append(spec.Records, ws)
+					run = append(run, c)
+				}
+			}
+		}
+		c := calibration{pValues: map[string][]float64{}, verdicts: map[string]int{}}
+		u := rand.New(rand.NewPCG(uint64(W), 7))
+		opts := checks.Options{MinExpected: 5, Confidence: 0.99}
+		for i := range calibrationRuns {
+			var key [32]byte
+			key[0], key[1], key[2], key[3] = 'w', byte(W), byte(i), byte(i>>8)
+			rng := rand.New(rand.NewChaCha8(key))
+			d := make([]byte, lengths[i%len(lengths)])
+			for j := range d {
+				d[j] = byte(rng.Uint32())
+			}
+			tl, err := tally.New(spec, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			tl.Add(d)
+			var res checks.Result
+			for _, ch := range run {
+				ch.Run(checks.Input{Tally: tl, Null: checks.UniformNull(256), Opts: opts}, &res)
+			}
+			var logP []float64
+			for _, f := range res.Findings {
+				pr := checks.RandomizedP(f, u.Float64())
+				c.pValues[f.Label()] = append(c.pValues[f.Label()], math.Exp(pr.LogP))
+				logP = append(logP, f.LogPUpper, f.LogPLower)
+			}
+			adj := stats.HolmLog(logP)
+			verdict := audit.Consistent
+			for k, f := range res.Findings {
+				if adj[2*k] <= math.Log(0.01) || f.TwoSided && adj[2*k+1] <= math.Log(0.01) {
+					verdict = audit.NotConsistent
+					break
+				}
+				if adj[2*k+1] <= math.Log(0.01) {
+					verdict = audit.TooUniform
+				}
+			}
+			c.verdicts[verdict]++
+		}
+		name := "words of " + strconv.Itoa(W) + " bits"
+		labels := make([]string, 0, len(c.pValues))
+		for l := range c.pValues {
+			labels = append(labels, l)
+		}
+		sort.Strings(labels)
+		for _, l := range labels {
+			ps := c.pValues[l]
+			if len(ps) < 100 {
+				t.Logf("%s: %s seen in only %d sequences; not tested", name, l, len(ps))
+				continue
+			}
+			d := stats.KSStatistic(ps)
+			if up, _ := stats.KSLogTails(len(ps), d); math.Exp(up) < 0.001 {
+				t.Errorf("%s: %s p-values are not uniform: KS D = %.4f over %d sequences, p = %.2g", name, l, d, len(ps), math.Exp(up))
+			}
+		}
+		_, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
+		for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
+			if k := c.verdicts[v]; k > hi {
+				t.Errorf("%s: %d of %d verdicts %q, above the 99.9%% binomial interval's end %d", name, k, calibrationRuns, v, hi)
+			}
+		}
+		t.Logf("%s: %d statistics (%v); verdicts %v", name, len(labels), labels, c.verdicts)
+	}
 }

@@ -147,16 +147,38 @@ func (lincompCheck) Run(in Input, out *Result) {
 			}
 			exp[i] = float64(S) * math.Exp(lp)
 		}
-		x2, classes, smallest := pooledChiSquare(obs, exp, in.Opts.MinExpected)
-		if classes < 2 {
+		x, classes, ok := pooledX2("lincomp", params, obs, exp, S, in.Opts.MinExpected)
+		if !ok {
 			out.Skips = append(out.Skips, Skip{Check: "lincomp", Params: params,
-				Reason: fmt.Sprintf("%d segments are too few for 2 classes of expected count %g (the X² of complexities needs about 20 segments of %d words)", S, in.Opts.MinExpected, n)})
+				Reason: fmt.Sprintf("%d tested segments are too few for 2 classes of expected count %g; needs about 20 (the first 8 and every 32nd are tested: %d segments of %d words, %d bytes)", S, in.Opts.MinExpected, 8+32*12, n, int64(8+32*12)*int64(n)*int64(rec.Word/8))})
 			continue
 		}
-		x := chiSquareFinding("lincomp", "X2", params, x2, float64(classes-1), smallest)
 		x.Detail = fmt.Sprintf("%d segments of %d words, L − n/2 in %d classes after pooling", S, n, classes)
 		out.Findings = append(out.Findings, x)
 	}
+}
+
+// pooledX2 pools the classes to expected counts of minExp and returns X²
+// of the N items with its tails: from the exact multinomial law of X² when
+// it is affordable (a few segments or samples in 2 or 3 classes are far
+// from the chi-square limit), else the chi-square law with classes − 1
+// df. ok is false with fewer than 2 classes.
+func pooledX2(check string, params map[string]int, obs []int64, exp []float64, N int64, minExp float64) (f Finding, classes int, ok bool) {
+	po, pe := poolClasses(obs, exp, minExp)
+	if len(po) < 2 {
+		return Finding{}, len(po), false
+	}
+	cs := newCellStat()
+	probs := make([]float64, len(pe))
+	for i := range po {
+		cs.add(po[i], pe[i])
+		probs[i] = pe[i] / float64(N)
+	}
+	f = chiSquareFinding(check, "X2", params, cs.x2, float64(len(po)-1), cs.minExp)
+	if law, exact := stats.MultinomialX2Law(N, probs); exact {
+		f.setDiscrete(law.LogTails(cs.x2))
+	}
+	return f, len(po), true
 }
 
 // logOneMinusPow returns ln(1 − (1 − e^logF)^S) accurately for tiny F.
@@ -225,15 +247,14 @@ func (rankCheck) Run(in Input, out *Result) {
 	}
 	pFull, pLess1 := math.Exp(RankLogP(W, W)), math.Exp(RankLogP(W, W-1))
 	exp := []float64{float64(N) * pFull, float64(N) * pLess1, float64(N) * (1 - pFull - pLess1)}
-	x2, classes, smallest := pooledChiSquare(rec.Counts, exp, in.Opts.MinExpected)
-	if classes < 2 {
+	f, classes, ok := pooledX2("rank", params, rec.Counts, exp, N, in.Opts.MinExpected)
+	if !ok {
 		need := int64(math.Ceil(in.Opts.MinExpected / math.Min(pFull, 1-pFull)))
 		out.Skips = append(out.Skips, Skip{Check: "rank", Params: params,
 			Reason: fmt.Sprintf("%d matrices are too few; needs about %d matrices (%d bytes)", N, 2*need, 2*need*int64(W*W/8))})
 		return
 	}
-	f := chiSquareFinding("rank", "X2", params, x2, float64(classes-1), smallest)
-	f.Detail = fmt.Sprintf("%d matrices of %d×%d bits (one word a row): %d of full rank, %d of rank %d, %d lower", N, W, W, rec.Counts[0], rec.Counts[1], W-1, rec.Counts[2])
+	f.Detail = fmt.Sprintf("%d matrices of %d×%d bits (one word a row): %d of full rank, %d of rank %d, %d lower; %d classes", N, W, W, rec.Counts[0], rec.Counts[1], W-1, rec.Counts[2], classes)
 	f.Where = topResiduals(rec.Counts, exp, 3, func(i int) string {
 		return []string{fmt.Sprintf("rank %d", W), fmt.Sprintf("rank %d", W-1), fmt.Sprintf("rank ≤ %d", W-2)}[i]
 	})
@@ -306,11 +327,10 @@ func (birthdayCheck) Run(in Input, out *Result) {
 		exp[r] = float64(S) * math.Exp(e)
 		cum += math.Exp(e)
 	}
-	x2, classes, smallest := pooledChiSquare(hist, exp, in.Opts.MinExpected)
-	if classes < 2 {
+	x, classes, ok := pooledX2("birthday", params, hist, exp, S, in.Opts.MinExpected)
+	if !ok {
 		return
 	}
-	x := chiSquareFinding("birthday", "X2", params, x2, float64(classes-1), smallest)
 	x.Detail = fmt.Sprintf("%d samples, R per sample in %d classes after pooling, against Poisson(%g)", S, classes, lambda)
 	x.Where = topResiduals(hist, exp, 3, func(r int) string {
 		if r == len(hist)-1 {
