@@ -16,7 +16,7 @@ import (
 	"borel/stats/seq"
 )
 
-const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits | --raw] [--null ...] [--workers N] [--quiet] -o SHARD
+const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits | --raw [--word W]] [--null ...] [--workers N] [--quiet] -o SHARD
 
 Tallies one stretch of a long sequence — the digits at global positions N, N+1, … — and
 writes its shard: the one-pass sufficient statistics of the stretch, which borel merge joins
@@ -36,6 +36,8 @@ func runTally(e env, args []string) (int, error) {
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
 	gz := fs.String("gzip", "auto", gzipUsage)
 	raw := fs.Bool("raw", false, "read bytes as base-256 digits (one view: the bytes; tally bits with --bits)")
+	word := fs.Int("word", 0, "with --raw, also tally the word-level records of words of 8, 16, 24, 32 or 64 bits (the offset counts bytes of the whole stream)")
+	endian := fs.String("endian", "little", "byte order of --word: little or big")
 	var af auditFlags
 	af.register(fs, flNull|flMaxBlock|flWorkers, map[string]string{
 		"null":      "null hypothesis of the audit the shard is for: uniform, fitted or p0,p1,...",
@@ -83,6 +85,18 @@ func runTally(e env, args []string) (int, error) {
 	if opts.Null, err = af.nullFor(opt.Base); err != nil {
 		return 0, err
 	}
+	switch *word {
+	case 0, 8, 16, 24, 32, 64:
+	default:
+		return 0, usagef("--word %d: words are 8, 16, 24, 32 or 64 bits", *word)
+	}
+	if *endian != "little" && *endian != "big" {
+		return 0, usagef("--endian %q: little or big", *endian)
+	}
+	if (*word > 0 || fs.Changed("endian")) && !*raw {
+		return 0, usagef("--word and --endian read a raw byte stream as words; use them with --raw")
+	}
+	opts.Word, opts.BigEndian = *word, *endian == "big"
 	input := fs.Arg(0)
 	if sameFile(input, *output) {
 		return 0, usagef("-o %s is the input file; choose another name", *output)
