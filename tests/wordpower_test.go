@@ -11,48 +11,13 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"borel/stats/expand"
 )
 
 // Generators with structural defects that are established mathematics,
 // written here from their published definitions, each seeded; and good
 // generators that must pass the same audit.
-
-// mt19937 is the Mersenne Twister of Matsumoto & Nishimura, ACM TOMACS 8
-// (1998) 3–30, with its reference seeding (init_genrand); its first output
-// from seed 5489 is 3499211612 (also numpy's RandomState(5489)).
-type mt19937 struct {
-	s [624]uint32
-	i int
-}
-
-func newMT19937(seed uint32) *mt19937 {
-	m := &mt19937{i: 624}
-	m.s[0] = seed
-	for i := 1; i < 624; i++ {
-		m.s[i] = 1812433253*(m.s[i-1]^(m.s[i-1]>>30)) + uint32(i)
-	}
-	return m
-}
-
-func (m *mt19937) next() uint32 {
-	if m.i >= 624 {
-		for k := 0; k < 624; k++ {
-			y := m.s[k]&0x80000000 | m.s[(k+1)%624]&0x7fffffff
-			v := m.s[(k+397)%624] ^ y>>1
-			if y&1 != 0 {
-				v ^= 0x9908b0df
-			}
-			m.s[k] = v
-		}
-		m.i = 0
-	}
-	y := m.s[m.i]
-	m.i++
-	y ^= y >> 11
-	y ^= y << 7 & 0x9d2c5680
-	y ^= y << 15 & 0xefc60000
-	return y ^ y>>18
-}
 
 // words32 writes n 32-bit words little-endian.
 func words32(n int, next func() uint32) []byte {
@@ -83,7 +48,7 @@ func wordGenerators() []struct {
 	const bytes = 1_000_000
 	seed := rand.New(rand.NewPCG(14, 2026))
 
-	mt := newMT19937(5489)
+	mt := expand.NewMT19937(5489)
 
 	// Additive lagged Fibonacci x_n = x_{n−24} + x_{n−55} mod 2^32 (Knuth,
 	// TAOCP vol. 2, §3.2.2 (7)); its lowest bit is an LFSR of x^55 + x^24 + 1.
@@ -149,7 +114,7 @@ func wordGenerators() []struct {
 		word   int
 		caught []string
 	}{
-		{"MT19937", words32(bytes/4, mt.next), 32, []string{"lincomp"}},
+		{"MT19937", words32(bytes/4, mt.Uint32), 32, []string{"lincomp"}},
 		{"additive lagged Fibonacci (24, 55)", words32(bytes/4, lfib), 32, []string{"lincomp", "birthday"}},
 		{"xorshift64 (13, 7, 17)", words64(bytes/8, xs64), 64, []string{"rank"}},
 		{"xorshift32 (13, 17, 5)", words32(bytes/4, xs32), 32, []string{"rank", "lincomp"}},
@@ -229,8 +194,8 @@ func TestWordPower(t *testing.T) {
 // --raw --word 32, and merged, gives the findings of the bytes view of one
 // direct audit (the word-level ones among them).
 func TestWordShardsMerge(t *testing.T) {
-	mt := newMT19937(1)
-	data := words32(250_000, mt.next)
+	mt := expand.NewMT19937(1)
+	data := words32(250_000, mt.Uint32)
 	dir := t.TempDir()
 	whole := filepath.Join(dir, "mt.bin")
 	os.WriteFile(whole, data, 0o644)

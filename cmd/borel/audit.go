@@ -28,7 +28,10 @@ Reads a digit sequence from FILE (gzip-compressed or not) or from standard input
 Text input holds digits 0-9 then a-z (either case) in base 2..36; whitespace is ignored;
 an integer part and radix point may open it ("3.14159...") and are dropped. --bits reads
 bytes as bits (most significant first); --raw reads bytes and audits them as bits, bit
-pairs, nibbles and bytes side by side (--base 256 for bytes alone).
+pairs, nibbles and bytes side by side (--base 256 for bytes alone). --word 8|16|24|32|64
+also reads them as words (--endian little or big): the word-level checks (lincomp, rank,
+birthday, wordcoll, hamming, perm; they run only with --word) and views of the words' top
+bits, lowest bit and highest bit, for generator output.
 
 Across bases: --bases re-expands a text file exactly from --from-base into each base, and
 --source audits a constant or generator made by borel (see borel digits --help).
@@ -37,6 +40,9 @@ Example: the first million decimals of pi, against the uniform null:
   $ borel audit testdata/pi-1e6.txt.gz
   ...
   Verdict for testdata/pi-1e6.txt.gz in base 10: CONSISTENT
+
+Generator output as 32-bit words (MT19937 fails on the linear complexity of its bits):
+  $ borel audit mt.bin --raw --word 32
 
 Second level: 20 segments, each statistic's 20 p-values tested for uniformity:
   $ borel audit testdata/pi-1e6.txt.gz --segments 20

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"compress/gzip"
+	"encoding/binary"
 	"encoding/json"
 	"errors"
 	"io"
@@ -14,6 +15,7 @@ import (
 	"testing"
 
 	"borel/stats/audit"
+	"borel/stats/expand"
 )
 
 // borel runs the command in-process and returns exit status, stdout, stderr.
@@ -209,6 +211,12 @@ func TestHelpExamplesRun(t *testing.T) {
 	}
 	tmp := t.TempDir()
 	os.WriteFile(filepath.Join(tmp, "lab.txt"), bytes.Repeat([]byte("0120210122"), 300), 0o644)
+	mt := expand.NewMT19937(5489)
+	mtBytes := make([]byte, 4*100_000)
+	for i := 0; i < len(mtBytes); i += 4 {
+		binary.LittleEndian.PutUint32(mtBytes[i:], mt.Uint32())
+	}
+	os.WriteFile(filepath.Join(tmp, "mt.bin"), mtBytes, 0o644)
 	claim := regexp.MustCompile(`(?:^Example: |\()(\d[\d ]*\d|\d) (?:[a-z]+ )?digits`)
 	checked := 0
 	for _, c := range subcommands() {
@@ -242,7 +250,7 @@ func TestHelpExamplesRun(t *testing.T) {
 			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
 			for i, a := range args { // examples name files in the working folder
 				switch a {
-				case "lab.txt", "lab.json":
+				case "lab.txt", "lab.json", "mt.bin":
 					args[i] = filepath.Join(tmp, a)
 				case "/tmp/borel-part0.shard":
 					args[i] = filepath.Join(tmp, "part0.shard")
