@@ -26,8 +26,9 @@ import (
 //	          j < 8 and every 32nd are tested (a quadratic statistic)
 //	rank      GF(2) rank of Word×Word matrices, one word per row: counts
 //	          of rank Word, Word−1 and less
-//	birthday  birthday spacings of the top 24 bits of 512 words: a
-//	          histogram of repeated spacings R (0..15, 16 and more) and ΣR
+//	birthday  birthday spacings of the top 24 bits of 512 words, in the
+//	          first BirthdaySamples samples: a histogram of repeated
+//	          spacings R (0..15, 16 and more) and ΣR
 //	wordcoll  collisions of the top min(Word, 32) bits in blocks of
 //	          2^(h/2) words: blocks and Σ collisions, and a histogram
 //	hamming   Hamming weights of aligned pairs of words, 5 × 5 classes
@@ -80,6 +81,11 @@ const (
 	// (the top 24 bits), λ = m³/(4n) = 2 repeated spacings per sample.
 	BirthdayBits  = 24
 	BirthdayCount = 512
+	// BirthdaySamples: only the first 2048 samples are tested (4 MB of
+	// 32-bit words): the law of R is Poisson only to about 0.1 % of its
+	// mean, which a sum over many more samples would turn into false
+	// alarms; 2048 samples catch the generators it is for many times over.
+	BirthdaySamples = 2048
 	birthdayCells = 17 // R = 0..15, ≥ 16, then ΣR
 	permSize      = 5
 	permCells     = 120 + 1
@@ -318,7 +324,7 @@ func (r *Words) words(b []byte) []uint64 {
 
 // item counts one whole item, the j-th of the stream.
 func (r *Words) item(b []byte, j int64) {
-	if r.Test == LinComp && !LincompSelected(j) {
+	if r.Test == LinComp && !LincompSelected(j) || r.Test == Birthday && j >= BirthdaySamples {
 		return
 	}
 	w := r.words(b)
@@ -470,6 +476,9 @@ func (r *Words) check(t *Tally) error {
 				items++
 			}
 		}
+	}
+	if r.Test == Birthday {
+		items = max(0, min(last, BirthdaySamples)-first)
 	}
 	var counted int64
 	switch r.Test {

@@ -111,3 +111,11 @@ func TestCollisionMean(t *testing.T) {
 		}
 	}
 }
+
+// The birthday mean by hand: 2 (1 − 2/512) − 2^45/(18 · 2^48) = 1.9921875 −
+// 1/144.
+func TestBirthdayMean(t *testing.T) {
+	if got, want := BirthdayMean(), 1.9921875-1.0/144; math.Abs(got-want) > 1e-15 {
+		t.Errorf("BirthdayMean() = %.10f, want %.10f", got, want)
+	}
+}
