@@ -34,6 +34,11 @@ func formatStat(v float64) string {
 	if v == 0 {
 		return "0"
 	}
+	if v == math.Trunc(v) && math.Abs(v) < 1e6 {
+		// An integer value (a count, a complexity) prints whole: rounded to
+		// 4 digits, lincomp's L = 19937 read 19940.
+		return strconv.FormatFloat(v, 'f', 0, 64)
+	}
 	exp := math.Floor(math.Log10(math.Abs(v)))
 	if exp >= 4 && exp < 9 {
 		scale := math.Pow(10, exp-3)

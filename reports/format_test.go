@@ -158,3 +158,16 @@ func TestDigitTicks(t *testing.T) {
 		t.Errorf("base-10 labels end with %q", tk[len(tk)-1].Label)
 	}
 }
+
+// Integer statistics print whole (lincomp's L = 19937 read "19940"); other
+// values keep 4 significant digits.
+func TestFormatStatIntegers(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{{19937, "19937"}, {1302, "1302"}, {10486.3, "10490"}, {3.31, "3.31"}, {0, "0"}, {-17, "-17"}} {
+		if got := formatStat(c.v); got != c.want {
+			t.Errorf("formatStat(%v) = %q, want %q", c.v, got, c.want)
+		}
+	}
+}

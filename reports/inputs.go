@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"borel/stats/audit"
+	"borel/stats/checks"
 )
 
 // inputHeadline returns the one verdict of an input audited in several
@@ -54,7 +55,11 @@ func viewName(r *audit.Result) string {
 // decisiveLabel names the finding a view's verdict rests on.
 func decisiveLabel(r *audit.Result) string {
 	if d := r.Decisive(); d.Index >= 0 {
-		return findingLabel(r.Findings[d.Index].Finding)
+		f := r.Findings[d.Index].Finding
+		if desc := checks.Description(f.Check); desc != "" {
+			return findingLabel(f) + ", " + desc
+		}
+		return findingLabel(f)
 	}
 	return "–"
 }

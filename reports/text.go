@@ -175,6 +175,9 @@ func verdictReason(r *audit.Result) string {
 	var dev, uni []string
 	for _, f := range r.Findings {
 		label := findingLabel(f.Finding)
+		if d := checks.Description(f.Check); d != "" {
+			label += ", " + d // lincomp L min bit 0, linear complexity
+		}
 		switch f.Mark {
 		case audit.MarkDeviates:
 			dev = append(dev, label)

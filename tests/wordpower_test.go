@@ -238,3 +238,22 @@ func TestWordShardsMerge(t *testing.T) {
 		}
 	}
 }
+
+// `borel audit mt.bin --raw --word 32` names linear complexity as the
+// reason of its one verdict.
+func TestMTNamesLinearComplexity(t *testing.T) {
+	mt := expand.NewMT19937(5489)
+	path := filepath.Join(t.TempDir(), "mt.bin")
+	os.WriteFile(path, words32(250_000, mt.Uint32), 0o644)
+	code, out, errs := runBorel(t, nil, "audit", path, "--raw", "--word", "32", "-q")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	flat := strings.Join(strings.Fields(string(out)), " ")
+	for _, want := range []string{"): NOT CONSISTENT", "in base 256 (lincomp L min bit 0, linear complexity)",
+		"largest deviations of the linear complexity: bit 0: L = 19937 in a segment of 100000 bits"} {
+		if !strings.Contains(flat, want) {
+			t.Errorf("the report lacks %q", want)
+		}
+	}
+}

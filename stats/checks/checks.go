@@ -280,6 +280,23 @@ type Named interface {
 	StatisticNames() map[string]StatName
 }
 
+// Described is implemented by a check whose identifier does not say what
+// it measures in words: the words (for a verdict's reason).
+type Described interface {
+	Description() string
+}
+
+// Description returns what a check measures in words, or "" for a check
+// whose identifier says it.
+func Description(check string) string {
+	for _, c := range All() {
+		if d, ok := c.(Described); ok && c.Name() == check {
+			return d.Description()
+		}
+	}
+	return ""
+}
+
 // StatName is the printed name of a statistic identifier.
 type StatName struct{ Text, TeX string }
 

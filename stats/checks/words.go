@@ -52,6 +52,7 @@ func wordNeeds(s Setting, test string) Needs {
 // is quadratic: 0.13 s a segment); the detail says how many.
 type lincompCheck struct{}
 
+func (lincompCheck) Description() string   { return "linear complexity" }
 func (lincompCheck) Name() string          { return "lincomp" }
 func (lincompCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.LinComp) }
 func (lincompCheck) StatisticNames() map[string]StatName {
@@ -126,8 +127,8 @@ func (lincompCheck) Run(in Input, out *Result) {
 			LogPUpper: up, LogPLower: lo, Discrete: true, LogPAtom: atom}
 		f.Detail = fmt.Sprintf("smallest linear complexity of bit %d over %d segments of %d words (n/2 = %d); segments tested: the first 8 and every 32nd", bit, S, n, m)
 		if lmin < m-C {
-			f.Where = fmt.Sprintf("L = %d in a segment of %d bits, %d below n/2", lmin, n, m-lmin)
-			f.WhereHow = "(complexity against n/2)"
+			f.Where = fmt.Sprintf("bit %d: L = %d in a segment of %d bits, %d below n/2 = %d", bit, lmin, n, m-lmin, m)
+			f.WhereHow = "of the linear complexity"
 		}
 		out.Findings = append(out.Findings, Clamp(f))
 		// X² of the classes L − m = −C (and below) … +C (and above).
@@ -222,6 +223,7 @@ func log1mExp(x float64) float64 {
 // counts of 5, df = classes − 1.
 type rankCheck struct{}
 
+func (rankCheck) Description() string   { return "GF(2) rank of word matrices" }
 func (rankCheck) Name() string          { return "rank" }
 func (rankCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Rank) }
 
@@ -274,6 +276,7 @@ func (rankCheck) Run(in Input, out *Result) {
 // on few lattice planes, make R too large.
 type birthdayCheck struct{}
 
+func (birthdayCheck) Description() string   { return "birthday spacings" }
 func (birthdayCheck) Name() string          { return "birthday" }
 func (birthdayCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Birthday) }
 func (birthdayCheck) StatisticNames() map[string]StatName {
@@ -371,6 +374,7 @@ func (birthdayCheck) Run(in Input, out *Result) {
 // none, and is caught on the too-uniform side.
 type wordcollCheck struct{}
 
+func (wordcollCheck) Description() string   { return "collisions of words" }
 func (wordcollCheck) Name() string          { return "wordcoll" }
 func (wordcollCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.WordColl) }
 func (wordcollCheck) StatisticNames() map[string]StatName {
@@ -420,6 +424,7 @@ func (wordcollCheck) Run(in Input, out *Result) {
 // expected counts of 5, df = cells − 1 (the null is fully specified).
 type hammingCheck struct{}
 
+func (hammingCheck) Description() string   { return "Hamming weights of word pairs" }
 func (hammingCheck) Name() string          { return "hamming" }
 func (hammingCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Hamming) }
 
@@ -475,6 +480,7 @@ func (hammingCheck) Run(in Input, out *Result) {
 // the detail). X² over the 120 orderings, df 119.
 type permCheck struct{}
 
+func (permCheck) Description() string   { return "relative order of 5 words" }
 func (permCheck) Name() string          { return "perm" }
 func (permCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.Perm) }
 
