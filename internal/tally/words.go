@@ -86,9 +86,9 @@ const (
 	// mean, which a sum over many more samples would turn into false
 	// alarms; 2048 samples catch the generators it is for many times over.
 	BirthdaySamples = 2048
-	birthdayCells = 17 // R = 0..15, ≥ 16, then ΣR
-	permSize      = 5
-	permCells     = 120 + 1
+	birthdayCells   = 17 // R = 0..15, ≥ 16, then ΣR
+	permSize        = 5
+	permCells       = 120 + 1
 	// HammingClasses: weights w ≤ W/2−2, W/2−1, W/2, W/2+1, ≥ W/2+2.
 	HammingClasses = 5
 )
