@@ -77,16 +77,8 @@ func runAudit(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	switch *word {
-	case 0, 8, 16, 24, 32, 64:
-	default:
-		return 0, usagef("--word %d: words are 8, 16, 24, 32 or 64 bits", *word)
-	}
-	if *endian != "little" && *endian != "big" {
-		return 0, usagef("--endian %q: little or big", *endian)
-	}
-	if (*word > 0 || fs.Changed("endian")) && (!*raw || *bits || *source != "") {
-		return 0, usagef("--word and --endian read a raw byte stream as words; use them with --raw on a file or standard input")
+	if err := checkWordFlags(*word, *endian, fs.Changed("endian"), *raw && !*bits && *source == ""); err != nil {
+		return 0, err
 	}
 	if *source != "" || *basesArg != "" || (*raw && !*bits) { // several bases, a built-in source, or byte regroupings
 		return runAuditAcross(e, fs, auditAcross{source: *source, bases: *basesArg, fromBase: *fromBase, base: *base,
@@ -275,4 +267,22 @@ func wrap(text string, width int) string {
 		}
 	}
 	return strings.Join(append(lines, line), "\n")
+}
+
+// checkWordFlags validates --word and --endian: a word size of 8, 16, 24,
+// 32 or 64 bits, a byte order, and raw input (raw: --raw on a file or
+// standard input) for either.
+func checkWordFlags(word int, endian string, endianGiven, raw bool) error {
+	switch word {
+	case 0, 8, 16, 24, 32, 64:
+	default:
+		return usagef("--word %d: words are 8, 16, 24, 32 or 64 bits", word)
+	}
+	if endian != "little" && endian != "big" {
+		return usagef("--endian %q: little or big", endian)
+	}
+	if (word > 0 || endianGiven) && !raw {
+		return usagef("--word and --endian read a raw byte stream as words; use them with --raw on a file or standard input")
+	}
+	return nil
 }

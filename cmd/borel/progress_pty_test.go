@@ -39,6 +39,24 @@ func openPTY(t *testing.T) (leader, follower *os.File) {
 	return leader, follower
 }
 
+// readPTY collects what the terminal shows until its other end closes.
+func readPTY(leader *os.File) (*bytes.Buffer, chan struct{}) {
+	var got bytes.Buffer
+	done := make(chan struct{})
+	go func() {
+		buf := make([]byte, 1<<16)
+		for {
+			n, err := leader.Read(buf)
+			got.Write(buf[:n])
+			if err != nil {
+				close(done)
+				return
+			}
+		}
+	}()
+	return &got, done
+}
+
 func itoa(n int) string {
 	if n < 10 {
 		return string(rune('0' + n))
@@ -52,19 +70,7 @@ func itoa(n int) string {
 func TestComputationProgressOnTerminal(t *testing.T) {
 	leader, follower := openPTY(t)
 	defer leader.Close()
-	var got bytes.Buffer
-	done := make(chan struct{})
-	go func() {
-		buf := make([]byte, 4096)
-		for {
-			n, err := leader.Read(buf)
-			got.Write(buf[:n])
-			if err != nil {
-				close(done)
-				return
-			}
-		}
-	}()
+	got, done := readPTY(leader)
 	out := filepath.Join(t.TempDir(), "pi.txt")
 	var stdout bytes.Buffer
 	code := run([]string{"digits", "pi", "--count", "3000000", "-o", out}, strings.NewReader(""), &stdout, follower)

@@ -85,16 +85,8 @@ func runTally(e env, args []string) (int, error) {
 	if opts.Null, err = af.nullFor(opt.Base); err != nil {
 		return 0, err
 	}
-	switch *word {
-	case 0, 8, 16, 24, 32, 64:
-	default:
-		return 0, usagef("--word %d: words are 8, 16, 24, 32 or 64 bits", *word)
-	}
-	if *endian != "little" && *endian != "big" {
-		return 0, usagef("--endian %q: little or big", *endian)
-	}
-	if (*word > 0 || fs.Changed("endian")) && !*raw {
-		return 0, usagef("--word and --endian read a raw byte stream as words; use them with --raw")
+	if err := checkWordFlags(*word, *endian, fs.Changed("endian"), *raw); err != nil {
+		return 0, err
 	}
 	opts.Word, opts.BigEndian = *word, *endian == "big"
 	input := fs.Arg(0)

@@ -26,19 +26,7 @@ func TestTextFitsTerminal(t *testing.T) {
 		if _, _, e := syscall.Syscall(syscall.SYS_IOCTL, follower.Fd(), syscall.TIOCSWINSZ, uintptr(unsafe.Pointer(&ws))); e != 0 {
 			t.Skipf("cannot set the terminal's size: %v", e)
 		}
-		var got bytes.Buffer
-		done := make(chan struct{})
-		go func() {
-			buf := make([]byte, 1<<16)
-			for {
-				n, err := leader.Read(buf)
-				got.Write(buf[:n])
-				if err != nil {
-					close(done)
-					return
-				}
-			}
-		}()
+		got, done := readPTY(leader)
 		var stderr bytes.Buffer
 		code := run([]string{"audit", in, "-q"}, strings.NewReader(""), follower, &stderr)
 		time.Sleep(100 * time.Millisecond)
