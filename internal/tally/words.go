@@ -1,11 +1,11 @@
 package tally
 
 import (
+	"encoding/binary"
 	"encoding/json"
 	"fmt"
 	"math/bits"
 	"slices"
-	"sort"
 
 	"borel/stats/gf2"
 )
@@ -192,6 +192,8 @@ type Words struct {
 
 	bufStart int64 // global position of Tail[0] during the pass
 	headDone bool  // the pass has met an item boundary
+	wbuf     []uint64
+	seen     []uint64 // wordcoll's open-addressing table, reused
 }
 
 // Words returns the word record of the given test, or nil.
@@ -209,6 +211,16 @@ func (r *Words) kernels(t *Tally) []kernel {
 func (r *Words) add(d []byte, pos int64) {
 	ib := r.itemBytes()
 	for len(d) > 0 {
+		if len(r.Tail) == 0 && pos%ib == 0 && int64(len(d)) >= ib { // whole items in place
+			n := int64(len(d)) / ib
+			for k := int64(0); k < n; k++ {
+				r.item(d[k*ib:(k+1)*ib], pos/ib+k)
+			}
+			pos += n * ib
+			d = d[n*ib:]
+			r.headDone = true
+			continue
+		}
 		if len(r.Tail) == 0 {
 			r.bufStart = pos
 		}
@@ -301,10 +313,36 @@ func (r *Words) clone() record {
 
 func (r *Words) settle(*Tally) {}
 
-// words decodes an item's bytes into words.
+// words decodes an item's bytes into words (in a buffer the next item
+// reuses).
 func (r *Words) words(b []byte) []uint64 {
 	per := r.Word / 8
-	out := make([]uint64, len(b)/per)
+	if cap(r.wbuf) < len(b)/per {
+		r.wbuf = make([]uint64, len(b)/per)
+	}
+	out := r.wbuf[:len(b)/per]
+	switch {
+	case per == 4 && !r.BigEndian:
+		for i := range out {
+			out[i] = uint64(binary.LittleEndian.Uint32(b[4*i:]))
+		}
+		return out
+	case per == 8 && !r.BigEndian:
+		for i := range out {
+			out[i] = binary.LittleEndian.Uint64(b[8*i:])
+		}
+		return out
+	case per == 4:
+		for i := range out {
+			out[i] = uint64(binary.BigEndian.Uint32(b[4*i:]))
+		}
+		return out
+	case per == 8:
+		for i := range out {
+			out[i] = binary.BigEndian.Uint64(b[8*i:])
+		}
+		return out
+	}
 	for i := range out {
 		w := b[i*per : (i+1)*per]
 		var v uint64
@@ -353,17 +391,7 @@ func (r *Words) item(b []byte, j int64) {
 		r.Counts[min(16, R)]++
 		r.Counts[birthdayCells-1] += int64(R)
 	case WordColl:
-		h := CollisionBits(W)
-		seen := make(map[uint64]struct{}, len(w))
-		c := 0
-		for _, v := range w {
-			k := v >> (W - h)
-			if _, ok := seen[k]; ok {
-				c++
-			} else {
-				seen[k] = struct{}{}
-			}
-		}
+		c := r.collisions(w)
 		r.Counts[0]++
 		r.Counts[1] += int64(c)
 		r.Counts[2+min(15, c)]++
@@ -372,6 +400,38 @@ func (r *Words) item(b []byte, j int64) {
 	default:
 		r.Counts[permIndex(w)]++
 	}
+}
+
+// collisions counts the words of a block whose top h bits an earlier word
+// of the block had, with an open-addressing table of twice the block's
+// size (keys below 2^32 are stored with bit 63 set; 0 is empty).
+func (r *Words) collisions(w []uint64) int {
+	h := CollisionBits(r.Word)
+	size := 2 * len(w)
+	if len(r.seen) != size {
+		r.seen = make([]uint64, size)
+	} else {
+		clear(r.seen)
+	}
+	mask := uint64(size - 1)
+	c := 0
+	for _, v := range w {
+		k := v>>(r.Word-h) | 1<<63
+		i := (k * 0x9E3779B97F4A7C15) >> 32 & mask
+		for {
+			switch r.seen[i] {
+			case 0:
+				r.seen[i] = k
+			case k:
+				c++
+			default:
+				i = (i + 1) & mask
+				continue
+			}
+			break
+		}
+	}
+	return c
 }
 
 // HammingClass pools a weight of a W-bit word: ≤ W/2−2, W/2−1, W/2,
@@ -405,25 +465,21 @@ func birthdaySpacings(w []uint64, W int) int {
 }
 
 // permIndex returns the index (0..119) of the relative order of 5 words,
-// or 120 when two are equal.
+// or 120 when two are equal: the Lehmer code Σ c_i (4−i)!, c_i the number
+// of later words smaller than word i, a bijection of the 120 orders.
 func permIndex(w []uint64) int {
-	idx := []int{0, 1, 2, 3, 4}
-	sort.SliceStable(idx, func(a, b int) bool { return w[idx[a]] < w[idx[b]] })
-	for i := 1; i < len(idx); i++ {
-		if w[idx[i]] == w[idx[i-1]] {
-			return 120
-		}
-	}
-	// Lehmer code of the permutation idx.
 	code := 0
 	for i := 0; i < 5; i++ {
-		smaller := 0
+		c := 0
 		for j := i + 1; j < 5; j++ {
-			if idx[j] < idx[i] {
-				smaller++
+			switch {
+			case w[j] < w[i]:
+				c++
+			case w[j] == w[i]:
+				return 120
 			}
 		}
-		code = code*(5-i) + smaller
+		code = code*(5-i) + c
 	}
 	return code
 }

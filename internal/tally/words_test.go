@@ -179,3 +179,20 @@ func TestPermIndexAndSpacings(t *testing.T) {
 		t.Errorf("R = %d, want 1", R)
 	}
 }
+
+// BenchmarkWordRecords is each word record's kernel over 4 MB of 32-bit
+// words (lincomp over the first 8 segments' worth).
+func BenchmarkWordRecords(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	d := randomDigits(rng, 4<<20, 256)
+	for _, test := range []string{Rank, Birthday, WordColl, Hamming, Perm} {
+		b.Run(test, func(b *testing.B) {
+			spec := Spec{Base: 256, MaxBlock: 1, Records: []RecordSpec{&WordSpec{Test: test, Word: 32}}}
+			b.SetBytes(int64(len(d)))
+			for b.Loop() {
+				tl, _ := New(spec, 0)
+				tl.Add(d)
+			}
+		})
+	}
+}

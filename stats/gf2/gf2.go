@@ -72,20 +72,6 @@ func LinearComplexity(s Bits) int {
 	return L
 }
 
-// extract returns the 64 bits of s starting at bit position p (bits past
-// the end read 0).
-func extract(s Bits, p int) uint64 {
-	w, o := p>>6, uint(p&63)
-	if w >= len(s.W) {
-		return 0
-	}
-	v := s.W[w] >> o
-	if o != 0 && w+1 < len(s.W) {
-		v |= s.W[w+1] << (64 - o)
-	}
-	return v
-}
-
 // xorShifted sets c ^= b·x^m for the coefficients up to degree deg (b's
 // degree is at most deg−m).
 func xorShifted(c, b []uint64, m, deg int) {
@@ -104,29 +90,28 @@ func xorShifted(c, b []uint64, m, deg int) {
 }
 
 // Rank returns the rank over GF(2) of the matrix whose rows are the given
-// words, each holding its cols ≤ 64 entries in its low bits, by Gaussian
-// elimination. The rows are modified.
+// words, each holding its cols ≤ 64 entries in its low bits: each row is
+// reduced by the basis vectors of its leading bits (Gaussian elimination,
+// row by row); a row left nonzero joins the basis. The rows are not
+// modified.
 func Rank(rows []uint64, cols int) int {
+	var basis [64]uint64
 	r := 0
-	for c := cols - 1; c >= 0 && r < len(rows); c-- {
-		bit := uint64(1) << c
-		p := -1
-		for i := r; i < len(rows); i++ {
-			if rows[i]&bit != 0 {
-				p = i
+	mask := ^uint64(0)
+	if cols < 64 {
+		mask = 1<<cols - 1
+	}
+	for _, v := range rows {
+		v &= mask
+		for v != 0 {
+			hb := 63 - bits.LeadingZeros64(v)
+			if basis[hb] == 0 {
+				basis[hb] = v
+				r++
 				break
 			}
+			v ^= basis[hb]
 		}
-		if p < 0 {
-			continue
-		}
-		rows[r], rows[p] = rows[p], rows[r]
-		for i := r + 1; i < len(rows); i++ {
-			if rows[i]&bit != 0 {
-				rows[i] ^= rows[r]
-			}
-		}
-		r++
 	}
 	return r
 }

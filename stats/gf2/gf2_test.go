@@ -147,3 +147,15 @@ func BenchmarkLinearComplexity100k(b *testing.B) {
 		LinearComplexity(s)
 	}
 }
+
+// BenchmarkRank32 is one 32×32 matrix of the rank check.
+func BenchmarkRank32(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	rows := make([]uint64, 32)
+	for i := range rows {
+		rows[i] = rng.Uint64() >> 32
+	}
+	for b.Loop() {
+		Rank(rows, 32)
+	}
+}
