@@ -30,8 +30,8 @@ an integer part and radix point may open it ("3.14159...") and are dropped. --bi
 bytes as bits (most significant first); --raw reads bytes and audits them as bits, bit
 pairs, nibbles and bytes side by side (--base 256 for bytes alone). --word 8|16|24|32|64
 also reads them as words (--endian little or big): the word-level checks (lincomp, rank,
-birthday, wordcoll, hamming, perm; they run only with --word) and views of the words' top
-bits, lowest bit and highest bit, for generator output.
+rowrank, birthday, wordcoll, hamming, perm; they run only with --word) and views of the
+words' top bits, lowest bit and highest bit, for generator output.
 
 Across bases: --bases re-expands a text file exactly from --from-base into each base, and
 --source audits a constant or generator made by borel (see borel digits --help).
@@ -60,7 +60,7 @@ func runAudit(e env, args []string) (int, error) {
 	raw := fs.Bool("raw", false, "read bytes as base-256 digits")
 	gz := fs.String("gzip", "auto", gzipUsage)
 	bits := fs.Bool("bits", false, "read bytes as bits, most significant bit first (base 2)")
-	word := fs.Int("word", 0, "with --raw, also read the bytes as words of 8, 16, 24, 32 or 64 bits: word-level checks (linear complexity, rank, birthday spacings, collisions, Hamming weights, order) and views of the words' top bits, lowest and highest bit")
+	word := fs.Int("word", 0, "with --raw, also read the bytes as words of 8, 16, 24, 32 or 64 bits: word-level checks (linear complexity, ranks, birthday spacings, collisions, Hamming weights, order) and views of the words' top bits, lowest and highest bit")
 	endian := fs.String("endian", "little", "byte order of --word: little (the usual memory order) or big")
 	var af auditFlags
 	af.register(fs, flNull|flAlpha|flAdjust|flMaxBlock|flMemory|flStrict|flSegments|flSeed|flWorkers|flChecks, nil)

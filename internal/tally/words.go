@@ -26,6 +26,9 @@ import (
 //	          j < 8 and every 32nd are tested (a quadratic statistic)
 //	rank      GF(2) rank of Word×Word matrices, one word per row: counts
 //	          of rank Word, Word−1 and less
+//	rowrank   GF(2) rank of 31×31 matrices whose rows are consecutive 31-bit
+//	          pieces of the bit stream (most significant bit of each byte
+//	          first), across word boundaries: 8 matrices in 961 bytes
 //	birthday  birthday spacings of the top 24 bits of 512 words, in the
 //	          first BirthdaySamples samples: a histogram of repeated
 //	          spacings R (0..15, 16 and more) and ΣR
@@ -54,6 +57,7 @@ func (s *WordSpec) segment() int {
 const (
 	LinComp  = "lincomp"
 	Rank     = "rank"
+	RowRank  = "rowrank"
 	Birthday = "birthday"
 	WordColl = "wordcoll"
 	Hamming  = "hamming"
@@ -61,7 +65,11 @@ const (
 )
 
 // WordTests lists the word tests in report order.
-var WordTests = []string{LinComp, Rank, Birthday, WordColl, Hamming, Perm}
+var WordTests = []string{LinComp, Rank, RowRank, Birthday, WordColl, Hamming, Perm}
+
+// RowBits is the row length of rowrank's matrices: rows of 31 bits never
+// line up with 8-, 16-, 32- or 64-bit words.
+const RowBits = 31
 
 func init() {
 	for _, k := range WordTests {
@@ -147,14 +155,19 @@ func (s *WordSpec) ItemWords() int {
 	}
 }
 
-func (s *WordSpec) itemBytes() int64 { return int64(s.ItemWords() * s.Word / 8) }
+func (s *WordSpec) itemBytes() int64 {
+	if s.Test == RowRank {
+		return RowBits * RowBits // 8 matrices of 31 × 31 bits
+	}
+	return int64(s.ItemWords() * s.Word / 8)
+}
 
 // Cells is the number of counters of the record.
 func (s *WordSpec) Cells() int {
 	switch s.Test {
 	case LinComp:
 		return 2 * (2*lincompClamp + 2) // per bit: histogram, then min L + 1
-	case Rank:
+	case Rank, RowRank:
 		return 3
 	case Birthday:
 		return birthdayCells
@@ -202,7 +215,7 @@ func (t *Tally) Words(test string) *Words { t.settle(); r, _ := t.find(test).(*W
 func (r *Words) kind() string { return r.Test }
 
 func (r *Words) kernels(t *Tally) []kernel {
-	cost := map[string]float64{LinComp: 0.5, Rank: 1, Birthday: 3, WordColl: 4, Hamming: 1, Perm: 2}[r.Test]
+	cost := map[string]float64{LinComp: 0.5, Rank: 1, RowRank: 1, Birthday: 3, WordColl: 4, Hamming: 1, Perm: 2}[r.Test]
 	return []kernel{{r.Test, cost, func(d []byte) { r.add(d, t.Offset+t.N) }}}
 }
 
@@ -365,6 +378,16 @@ func (r *Words) item(b []byte, j int64) {
 	if r.Test == LinComp && !LincompSelected(j) || r.Test == Birthday && j >= BirthdaySamples {
 		return
 	}
+	if r.Test == RowRank {
+		var rows [RowBits]uint64
+		for m := 0; m < 8; m++ {
+			for i := range rows {
+				rows[i] = bitsAt(b, (m*RowBits+i)*RowBits, RowBits)
+			}
+			r.Counts[min(2, RowBits-gf2.Rank(rows[:], RowBits))]++
+		}
+		return
+	}
 	w := r.words(b)
 	W := r.Word
 	switch r.Test {
@@ -432,6 +455,17 @@ func (r *Words) collisions(w []uint64) int {
 		}
 	}
 	return c
+}
+
+// bitsAt returns the n ≤ 57 bits of b from bit position p on, most
+// significant bit of each byte first, as the low n bits of the result.
+func bitsAt(b []byte, p, n int) uint64 {
+	var v uint64
+	k := p >> 3
+	for i := 0; i < 8 && k+i < len(b); i++ {
+		v |= uint64(b[k+i]) << (56 - 8*i)
+	}
+	return v << (p & 7) >> (64 - n)
 }
 
 // HammingClass pools a weight of a W-bit word: ≤ W/2−2, W/2−1, W/2,
@@ -535,6 +569,9 @@ func (r *Words) check(t *Tally) error {
 	}
 	if r.Test == Birthday {
 		items = max(0, min(last, BirthdaySamples)-first)
+	}
+	if r.Test == RowRank {
+		items *= 8 // matrices
 	}
 	var counted int64
 	switch r.Test {

@@ -114,6 +114,22 @@ func TestWordRecordsAgainstDefinition(t *testing.T) {
 	if got := tl.Words(Rank).Counts; !slices.Equal(got, rank) {
 		t.Errorf("rank counts %v, by definition %v", got, rank)
 	}
+	// rowrank: 31-bit rows read bit by bit, most significant bit of each
+	// byte first, 8 matrices to every 961 bytes.
+	bit := func(i int) uint64 { return uint64(d[i/8] >> (7 - i%8) & 1) }
+	rr := make([]int64, 3)
+	for m := 0; (m+1)*31*31 <= len(d)/961*961*8; m++ {
+		rows := make([]uint64, 31)
+		for i := range rows {
+			for k := 0; k < 31; k++ {
+				rows[i] = rows[i]<<1 | bit((m*31+i)*31+k)
+			}
+		}
+		rr[min(2, 31-gf2.Rank(rows, 31))]++
+	}
+	if got := tl.Words(RowRank).Counts; !slices.Equal(got, rr) {
+		t.Errorf("rowrank counts %v, by definition %v", got, rr)
+	}
 	ham := make([]int64, 25)
 	for i := 0; i+2 <= len(words); i += 2 {
 		ham[HammingClass(bits.OnesCount64(words[i]), W)*5+HammingClass(bits.OnesCount64(words[i+1]), W)]++

@@ -27,7 +27,7 @@ type Options struct {
 	Workers     int    // goroutines of the pass (results do not depend on it)
 	// Word, when not 0, reads a raw byte stream (base 256) as words of
 	// this many bits (8, 16, 24, 32 or 64), little-endian unless
-	// BigEndian, for the word-level checks (lincomp, rank, birthday,
+	// BigEndian, for the word-level checks (lincomp, rank, rowrank, birthday,
 	// wordcoll, hamming, perm) besides the byte-level battery.
 	Word      int
 	BigEndian bool

@@ -356,7 +356,7 @@ type Needs struct {
 func All() []Check {
 	return []Check{freqCheck{}, blocksCheck{}, serialCheck{}, gapCheck{}, pokerCheck{}, couponCheck{},
 		updownCheck{}, lagcorrCheck{}, maxrunCheck{}, driftCheck{}, entropyCheck{},
-		lincompCheck{}, rankCheck{}, birthdayCheck{}, wordcollCheck{}, hammingCheck{}, permCheck{}}
+		lincompCheck{}, rankCheck{}, rowrankCheck{}, birthdayCheck{}, wordcollCheck{}, hammingCheck{}, permCheck{}}
 }
 
 // chiSquareFinding fills both tails of a chi-square statistic formed from

@@ -241,26 +241,49 @@ func (rankCheck) Run(in Input, out *Result) {
 	if rec == nil {
 		return
 	}
-	W := rec.Word
+	rankFinding(in, out, "rank", rec.Counts, rec.Word, "one word a row")
+}
+
+// rankFinding adds the X² of the ranks of W×W matrices (counts of rank W,
+// W−1 and less).
+func rankFinding(in Input, out *Result, check string, counts []int64, W int, rows string) {
 	params := map[string]int{"size": W}
 	var N int64
-	for _, v := range rec.Counts {
+	for _, v := range counts {
 		N += v
 	}
 	pFull, pLess1 := math.Exp(RankLogP(W, W)), math.Exp(RankLogP(W, W-1))
 	exp := []float64{float64(N) * pFull, float64(N) * pLess1, float64(N) * (1 - pFull - pLess1)}
-	f, classes, ok := pooledX2("rank", params, rec.Counts, exp, N, in.Opts.MinExpected)
+	f, classes, ok := pooledX2(check, params, counts, exp, N, in.Opts.MinExpected)
 	if !ok {
 		need := int64(math.Ceil(in.Opts.MinExpected / math.Min(pFull, 1-pFull)))
-		out.Skips = append(out.Skips, Skip{Check: "rank", Params: params,
+		out.Skips = append(out.Skips, Skip{Check: check, Params: params,
 			Reason: fmt.Sprintf("%d matrices are too few; needs about %d matrices (%d bytes)", N, 2*need, 2*need*int64(W*W/8))})
 		return
 	}
-	f.Detail = fmt.Sprintf("%d matrices of %d×%d bits (one word a row): %d of full rank, %d of rank %d, %d lower; %d classes", N, W, W, rec.Counts[0], rec.Counts[1], W-1, rec.Counts[2], classes)
-	f.Where = topResiduals(rec.Counts, exp, 3, func(i int) string {
+	f.Detail = fmt.Sprintf("%d matrices of %d×%d bits (%s): %d of full rank, %d of rank %d, %d lower; %d classes", N, W, W, rows, counts[0], counts[1], W-1, counts[2], classes)
+	f.Where = topResiduals(counts, exp, 3, func(i int) string {
 		return []string{fmt.Sprintf("rank %d", W), fmt.Sprintf("rank %d", W-1), fmt.Sprintf("rank ≤ %d", W-2)}[i]
 	})
 	out.Findings = append(out.Findings, f)
+}
+
+// rowrankCheck is rankCheck on 31×31 matrices whose rows are consecutive
+// 31-bit pieces of the bit stream (most significant bit of each byte
+// first), so that rows cut across words: the stream cut into rows of a
+// length no word has (31×31: P(full rank) = 0.2888, as for 32×32).
+type rowrankCheck struct{}
+
+func (rowrankCheck) Description() string   { return "GF(2) rank of 31-bit rows" }
+func (rowrankCheck) Name() string          { return "rowrank" }
+func (rowrankCheck) Needs(s Setting) Needs { return wordNeeds(s, tally.RowRank) }
+
+func (rowrankCheck) Run(in Input, out *Result) {
+	rec := in.Tally.Words(tally.RowRank)
+	if rec == nil {
+		return
+	}
+	rankFinding(in, out, "rowrank", rec.Counts, tally.RowBits, fmt.Sprintf("31-bit rows of the bit stream, across %d-bit words", rec.Word))
 }
 
 // birthdayCheck is Marsaglia's birthday spacings (Knuth, TAOCP vol. 2, 3rd
