@@ -56,13 +56,22 @@ func perfectRoot(n int) int {
 // powerNotes says which audited bases are powers of a common base: for
 // them normality is one claim, not several (Schmidt 1960), so their
 // verdicts are not independent evidence.
+//
+// Views read from words (Source.View) are other sequences, not the same
+// digits in another base, and take no part.
 func powerNotes(results []*audit.Result) {
 	groups := map[int][]int{}
 	for _, r := range results {
+		if r.Source.View != "" {
+			continue
+		}
 		root := perfectRoot(r.Base)
 		groups[root] = append(groups[root], r.Base)
 	}
 	for _, r := range results {
+		if r.Source.View != "" {
+			continue
+		}
 		g := groups[perfectRoot(r.Base)]
 		if len(g) < 2 {
 			continue

@@ -90,3 +90,25 @@ func TestColumnsIgnoredForPipes(t *testing.T) {
 		t.Errorf("--width 20: exit %d, %q", code, errs)
 	}
 }
+
+// Word views are other sequences than the byte regroupings: the note that
+// powers of one base share normality lists the regroupings only (it read
+// "bases 2, 2, 2, 4, 16, 32, 256"); under a fitted null the word-level
+// checks say why they do not run.
+func TestWordViewNotes(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 9))
+	b := make([]byte, 200_000)
+	for i := range b {
+		b[i] = byte(rng.Uint32())
+	}
+	in := writeFile(t, "gen.bin", b)
+	_, out, _ := borel(t, "", "audit", in, "--raw", "--word", "32", "-q")
+	flat := strings.Join(strings.Fields(out), " ")
+	if !strings.Contains(flat, "bases 2, 4, 16, 256 are powers of 2") || strings.Contains(flat, "bases 2, 2") {
+		t.Errorf("the powers-of-two note mixes in the word views:\n%s", out)
+	}
+	_, out, _ = borel(t, "", "audit", in, "--raw", "--word", "32", "--null", "fitted", "-q")
+	if flat := strings.Join(strings.Fields(out), " "); !strings.Contains(flat, "the word-level checks test i.i.d. uniform 32-bit words, so under a fitted null they do not run") {
+		t.Errorf("no note that the word checks do not run under a fitted null")
+	}
+}

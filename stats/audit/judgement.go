@@ -234,6 +234,9 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 			break
 		}
 	}
+	if opts.Word > 0 && res.Base == 256 && opts.Null.Kind != checks.Uniform {
+		res.Notes = append(res.Notes, fmt.Sprintf("the word-level checks test i.i.d. uniform %d-bit words, so under a %s null they do not run", opts.Word, opts.Null.Kind))
+	}
 	wrongBase := missingTopDigits(res.DigitCounts, res.Digits, opts)
 	if wrongBase != "" {
 		res.Notes = append(res.Notes, wrongBase)
