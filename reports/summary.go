@@ -185,6 +185,9 @@ func comparisonText(w io.Writer, doc Document) error {
 	return err
 }
 
+// FindingLabel names a finding as the reports do ("serial ∇ψ² k=2").
+func FindingLabel(f checks.Finding) string { return findingLabel(f) }
+
 // findingLabel names a finding: check, statistic and its parameters when it
 // has any (maxrun's and drift's whole-sequence findings have none).
 func findingLabel(f checks.Finding) string {

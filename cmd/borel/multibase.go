@@ -179,27 +179,83 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 	if err != nil {
 		return nil, err
 	}
-	type lane struct {
-		base         int
-		plan         *audit.Plan
-		buf          []byte
-		format, view string
-		digits       func(chunk, out []byte) []byte
+	bytesHint := int64(-1)
+	if src.Bytes >= 0 && !src.Compressed {
+		bytesHint = src.Bytes
 	}
-	knownBytes := src.Bytes >= 0 && !src.Compressed
-	byteOpts := opts
+	lanes, err := byteLanes(bases, opts, bytesHint)
+	if err != nil {
+		return nil, err
+	}
+	for _, l := range lanes {
+		if err := l.plan.Start(); err != nil {
+			return nil, err
+		}
+	}
+	prog := newProgress(e, quiet, src.Bytes)
+	for r.Scan() {
+		feedLanes(lanes, r.Digits())
+		prog.update(r.Count(), r.Offset())
+	}
+	prog.done()
+	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	src.Compressed = r.Compressed()
+	src.SHA256 = hex.EncodeToString(hash.Sum(nil))
+	var results []*audit.Result
+	for _, l := range lanes {
+		res, err := l.plan.Done(l.source(src))
+		if err != nil {
+			return nil, err
+		}
+		results = append(results, res)
+	}
+	return results, nil
+}
+
+// lane is one view of a byte stream: the digits it makes of each chunk
+// and the plan they fill.
+type lane struct {
+	base         int
+	plan         *audit.Plan
+	buf          []byte
+	format, view string
+	digits       func(chunk, out []byte) []byte
+}
+
+// source is the input as this lane's audit names it.
+func (l *lane) source(src audit.Source) audit.Source {
+	src.Format, src.View = l.format, l.view
+	return src
+}
+
+// feedLanes adds a chunk of bytes to every lane.
+func feedLanes(lanes []*lane, chunk []byte) {
+	for _, l := range lanes {
+		l.buf = l.digits(chunk, l.buf)
+		if len(l.buf) > 0 {
+			l.plan.Add(l.buf)
+		}
+	}
+}
+
+// byteLanes plans the views of a byte stream of at most bytesHint bytes
+// (< 0: unknown): the regroupings in bases (2, 4, 16, 256), and with
+// opts.Word the word views; the bytes view has the word-level checks.
+func byteLanes(bases []int, opts audit.Options, bytesHint int64) ([]*lane, error) {
 	plain := opts
 	plain.Word, plain.BigEndian = 0, false
 	var lanes []*lane
 	for _, b := range bases {
 		bitsPer := map[int]int{2: 1, 4: 2, 16: 4, 256: 8}[b]
 		hint := int64(-1)
-		if knownBytes {
-			hint = src.Bytes * int64(8/bitsPer)
+		if bytesHint >= 0 {
+			hint = bytesHint * int64(8/bitsPer)
 		}
 		o := plain
 		if b == 256 {
-			o = byteOpts
+			o = opts
 		}
 		plan, err := audit.NewPlan(b, hint, o)
 		if err != nil {
@@ -224,8 +280,8 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 			order = "big-endian"
 		}
 		words := int64(-1)
-		if knownBytes {
-			words = src.Bytes / int64(per)
+		if bytesHint >= 0 {
+			words = bytesHint / int64(per)
 		}
 		h := topBits(words, W)
 		for _, v := range []struct {
@@ -270,39 +326,7 @@ func auditRegrouped(e env, input string, bases []int, opts audit.Options, quiet 
 				}})
 		}
 	}
-	for _, l := range lanes {
-		if err := l.plan.Start(); err != nil {
-			return nil, err
-		}
-	}
-	prog := newProgress(e, quiet, src.Bytes)
-	for r.Scan() {
-		chunk := r.Digits()
-		for _, l := range lanes {
-			l.buf = l.digits(chunk, l.buf)
-			if len(l.buf) > 0 {
-				l.plan.Add(l.buf)
-			}
-		}
-		prog.update(r.Count(), r.Offset())
-	}
-	prog.done()
-	if err := r.Err(); err != nil {
-		return nil, err
-	}
-	src.Compressed = r.Compressed()
-	src.SHA256 = hex.EncodeToString(hash.Sum(nil))
-	var results []*audit.Result
-	for _, l := range lanes {
-		s := src
-		s.Format, s.View = l.format, l.view
-		res, err := l.plan.Done(s)
-		if err != nil {
-			return nil, err
-		}
-		results = append(results, res)
-	}
-	return results, nil
+	return lanes, nil
 }
 
 // topBits is the number h of top bits of each word that the top-bits view

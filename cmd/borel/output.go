@@ -276,7 +276,7 @@ func writeAtomic(path string, data []byte) error {
 		os.Remove(name)
 		return fmt.Errorf("cannot write %s: %v", path, err)
 	}
-	if interrupted.Load() {
+	if interrupted.Load() && !writesAfterSignal.Load() {
 		return fail(errInterrupted{})
 	}
 	if err := os.Rename(name, path); err != nil {

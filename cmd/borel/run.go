@@ -48,6 +48,7 @@ func subcommands() []subcommand {
 		{"rebase", "re-expand a digit string exactly into another base", runRebase},
 		{"tally", "tally one stretch of a long sequence into a shard (for merge)", runTally},
 		{"merge", "join shards in offset order and audit the whole", runMerge},
+		{"watch", "audit a stream that need not end, at checkpoints of doubling length", runWatch},
 		{"compare", "audit several sequences and put them side by side", runCompare},
 		{"dimension", "print the Besicovitch–Eggleston dimension of a frequency vector", runDimension},
 	}
@@ -93,7 +94,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	for _, c := range subcommands() {
 		if c.name == args[0] {
 			code, err := c.run(e, args[1:])
-			if interrupted.Load() {
+			if interrupted.Load() && !writesAfterSignal.Load() {
 				fmt.Fprintln(stderr, "borel: interrupted; nothing was written")
 				return exitInterrupted
 			}
@@ -135,7 +136,7 @@ func parseFlags(fs *pflag.FlagSet, args []string, help string, stdout io.Writer)
 // valueNames are the placeholders the help shows for option values (pflag
 // would show the Go type: "string" for --alpha, a number).
 var valueNames = map[string]string{
-	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "width": "N", "word": "W", "endian": "ORDER", "bases": "LIST", "checks": "LIST",
+	"alpha": "A", "adjust": "METHOD", "append": "DOC", "base": "B", "width": "N", "start": "SIZE", "until": "SIZE", "save": "PATH", "resume": "PATH", "word": "W", "endian": "ORDER", "bases": "LIST", "checks": "LIST",
 	"count": "N", "format": "FORMAT", "from": "B", "from-base": "B", "max-block": "K", "memory": "SIZE",
 	"null": "NULL", "offset": "N", "output": "FILE", "plots": "DIR", "section": "NAME", "seed": "N",
 	"segments": "M", "source": "NAME", "to": "B", "workers": "N", "wrap": "W", "gzip": "MODE",

@@ -19,6 +19,14 @@ const exitInterrupted = 130
 var (
 	interrupted       atomic.Bool
 	passCtx, stopPass = context.WithCancel(context.Background())
+	// forceExitAfter is how long after a signal borel waits for the
+	// command to end before it exits anyway (a read may block): a second,
+	// or longer for a live audit writing its interrupted report.
+	forceExitAfter atomic.Int64
+	// writesAfterSignal is set by a command that ends a signalled run with
+	// a report of its own (watch): its writes then go ahead, and it sets
+	// its exit status itself.
+	writesAfterSignal atomic.Bool
 )
 
 // tempFiles holds the temporary files being written, so that a forced exit
@@ -37,7 +45,11 @@ func watchSignals() {
 		<-ch
 		interrupted.Store(true)
 		stopPass()
-		time.Sleep(time.Second)
+		wait := time.Duration(forceExitAfter.Load())
+		if wait <= 0 {
+			wait = time.Second
+		}
+		time.Sleep(wait)
 		removeTempFiles()
 		os.Stderr.WriteString("borel: interrupted; nothing was written\n")
 		os.Exit(exitInterrupted)

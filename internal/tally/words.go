@@ -223,6 +223,9 @@ func (r *Words) kernels(t *Tally) []kernel {
 // the bytes before the first boundary become Head, the rest wait in Tail.
 func (r *Words) add(d []byte, pos int64) {
 	ib := r.itemBytes()
+	if len(r.Tail) > 0 { // the waiting bytes end where d starts (also after a merge or a decoded shard)
+		r.bufStart = pos - int64(len(r.Tail))
+	}
 	for len(d) > 0 {
 		if len(r.Tail) == 0 && pos%ib == 0 && int64(len(d)) >= ib { // whole items in place
 			n := int64(len(d)) / ib

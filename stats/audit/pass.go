@@ -175,3 +175,37 @@ func (p *Plan) startSegments() error {
 	p.seg = seg
 	return err
 }
+
+// Snapshot audits the digits added so far at level alpha without ending the
+// pass: it finishes a copy of the tally, so the plan goes on adding (a
+// live audit's checkpoint). The second level is not available here.
+func (p *Plan) Snapshot(src Source, alpha float64) (*Result, error) {
+	if p.t == nil || p.t.N == 0 {
+		return nil, fmt.Errorf("%s: the sequence is empty", src.Name)
+	}
+	if p.seg != nil {
+		return nil, optionErrorf(OptSegments, int64(p.opts.Segments), 0, 0, "the second level (%s) needs the whole sequence; a checkpoint has part of it", p.opts.name(OptSegments))
+	}
+	q := *p
+	q.opts.Alpha = alpha
+	return q.Finish(p.t.Clone(), src)
+}
+
+// Tally returns the tally the plan is filling (to write as a shard; it
+// must not be finished).
+func (p *Plan) Tally() *tally.Tally { return p.t }
+
+// Resume continues the pass from t, a tally of this plan's spec read back
+// from a shard: the next digits added follow t's stretch.
+func (p *Plan) Resume(t *tally.Tally) error {
+	if !t.Spec.Equal(p.Spec) {
+		return fmt.Errorf("the saved tally was made with other options (base %d, block length %d, %d records) than this run's (base %d, block length %d, %d records); resume with the options of the first run",
+			t.Base, t.MaxBlock, len(t.Records), p.Spec.Base, p.Spec.MaxBlock, len(p.Spec.Records))
+	}
+	if p.opts.Segments > 0 {
+		return optionErrorf(OptSegments, int64(p.opts.Segments), 0, 0, "the second level (%s) needs the whole sequence in one pass", p.opts.name(OptSegments))
+	}
+	p.t = t
+	p.run = tally.NewRunner(t, p.opts.Workers)
+	return nil
+}

@@ -99,6 +99,10 @@ type Options struct {
 	// offers for "Base", "Raw" and "Bits" (the base, and reading bytes as
 	// raw digits or as bits); by default those words are used.
 	OptionName func(option string) string
+	// Live hands over the digits of each read at once instead of filling
+	// the buffer first: a slow producer's digits reach the caller as they
+	// come (a live audit).
+	Live bool
 }
 
 func (o Options) name(opt string) string {
@@ -338,6 +342,9 @@ func (r *Reader) fill() (int, error) {
 		n += k
 		if err != nil {
 			return n, err
+		}
+		if r.opt.Live && n > 0 {
+			return n, nil
 		}
 	}
 	return n, nil
