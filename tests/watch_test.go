@@ -248,4 +248,3 @@ func TestCalibrationWatchRuns(t *testing.T) {
 	}
 	t.Logf("%d of %d live runs raised a false alarm at some checkpoint (alpha 0.01; bound %d)", failed, runs, hi)
 }
-

@@ -68,10 +68,12 @@ Examples:
   $ borel demo
   $ borel audit digits.txt --base 7
   $ borel audit - --raw < generator.bin
+  $ some-generator | borel watch - --raw --word 32
 
 Exit status: 0 success; 1 the input could not be read or is not a sequence of the base;
-2 invalid options or arguments; 3 with --strict, a verdict other than consistent; 130 stopped
-by SIGINT or SIGTERM (nothing written).
+2 invalid options or arguments; 3 with --strict, a verdict other than consistent (watch: a
+failing checkpoint); 130 stopped by SIGINT or SIGTERM (nothing written; watch writes the
+report of what it read, marked as interrupted).
 `
 
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
