@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"errors"
 	"io"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -217,6 +218,12 @@ func TestHelpExamplesRun(t *testing.T) {
 		binary.LittleEndian.PutUint32(mtBytes[i:], mt.Uint32())
 	}
 	os.WriteFile(filepath.Join(tmp, "mt.bin"), mtBytes, 0o644)
+	gen := make([]byte, 300_000)
+	cc := rand.New(rand.NewChaCha8([32]byte{'g', 'e', 'n'}))
+	for i := range gen {
+		gen[i] = byte(cc.Uint32())
+	}
+	os.WriteFile(filepath.Join(tmp, "gen.bin"), gen, 0o644)
 	claim := regexp.MustCompile(`(?:^Example: |\()(\d[\d ]*\d|\d) (?:[a-z]+ )?digits`)
 	checked := 0
 	for _, c := range subcommands() {
@@ -250,7 +257,7 @@ func TestHelpExamplesRun(t *testing.T) {
 			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
 			for i, a := range args { // examples name files in the working folder
 				switch a {
-				case "lab.txt", "lab.json", "mt.bin":
+				case "lab.txt", "lab.json", "mt.bin", "gen.bin":
 					args[i] = filepath.Join(tmp, a)
 				case "/tmp/borel-part0.shard":
 					args[i] = filepath.Join(tmp, "part0.shard")

@@ -48,6 +48,13 @@ report of what was read, marked as interrupted, and exits 130.
 
 Example: a generator's raw output as 32-bit words, stopping at 64 MiB:
   $ some-generator | borel watch - --raw --word 32 --until 64MiB -o latest.txt
+
+A file of generator output, with checkpoints from 64 KiB (the status lines on standard
+error, the last checkpoint's report on standard output):
+  $ borel watch gen.bin --raw --start 64KiB
+  ...
+  Side by side
+  ...
 `
 
 // watchRun is one live audit: its lanes (views) and where it stands.
