@@ -1,4 +1,4 @@
-module borel
+module github.com/borel-audit/borel
 
 go 1.26.8
 

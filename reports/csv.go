@@ -10,7 +10,7 @@ import (
 	"strings"
 	"time"
 
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // CSVHeader is the header of the CSV report: one row per finding, numbers at

@@ -7,7 +7,7 @@ package reports
 import (
 	"time"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // Document is everything one run of borel reports.

@@ -6,8 +6,8 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // formatP prints a probability given as its natural log: 4 significant

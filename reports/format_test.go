@@ -7,8 +7,8 @@ import (
 	"strings"
 	"testing"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // Printing rules (ours): 4 significant digits; below 1e-10 the

@@ -8,7 +8,7 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 type htmlAudit struct {

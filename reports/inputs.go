@@ -5,8 +5,8 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // inputHeadline returns the one verdict of an input audited in several

@@ -7,7 +7,7 @@ import (
 	"slices"
 	"time"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // SchemaName and SchemaVersion identify the JSON document. The version goes

@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // texEscape makes text safe in a LaTeX paragraph: the ten special

@@ -7,7 +7,7 @@ import (
 	"math"
 	"strings"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // findingTable returns the human rows of the findings table, shared by the

@@ -16,8 +16,8 @@ import (
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // Figure is one plot of an audit, ready to write as SVG or PNG.

@@ -12,9 +12,9 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // plotResults are audits whose figures cover every axis kind: uniform

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"time"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // provenance returns what a reader needs to reproduce one audit, as

@@ -9,7 +9,7 @@ import (
 	"strings"
 	"time"
 
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // summaryRows returns one row per sequence and base: the verdict, the

@@ -8,11 +8,11 @@ import (
 	"strconv"
 	"testing"
 
-	"borel/internal/tally"
-	"borel/stats"
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // Calibration: under the null every check's p-values are uniform, and the

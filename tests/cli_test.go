@@ -19,7 +19,7 @@ import (
 	"strings"
 	"testing"
 
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files")

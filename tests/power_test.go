@@ -12,8 +12,8 @@ import (
 	"strings"
 	"testing"
 
-	"borel/stats/audit"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // Power: named flawed sources with the verdict each must get. Each case

@@ -7,10 +7,10 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"borel/reports"
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/reports"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // Properties over random sequences, bases, lengths and nulls: every p-value

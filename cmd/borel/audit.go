@@ -11,11 +11,11 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/internal/tally"
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/expand"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // auditHelp is the help of borel audit; the battery's list is the checks'

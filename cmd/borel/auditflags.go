@@ -5,7 +5,7 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // The audit options the subcommands share. Each subcommand registers the

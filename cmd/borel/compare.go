@@ -7,10 +7,10 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/reports"
-	"borel/stats/audit"
-	"borel/stats/expand"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/reports"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/expand"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 const compareHelp = `Usage: borel compare SOURCE... [options]

@@ -7,9 +7,9 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/reports"
-	"borel/stats/audit"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/reports"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 const demoHelp = `Usage: borel demo [--format text|md|csv|json|tex|html] [-o OUT] [--plots DIR]

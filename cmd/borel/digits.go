@@ -11,8 +11,8 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/stats/expand"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/stats/expand"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 const digitsHelp = `Usage: borel digits SOURCE --count N [--base B] [--offset K] [--wrap W] [-o OUT]

@@ -7,7 +7,7 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 const dimensionHelp = `Usage: borel dimension p0,p1,... [--base B]

@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // FuzzOptionParsers: the vector, list and size parsers return a value or

@@ -8,7 +8,7 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // machineMemory returns the machine's physical memory in bytes (Linux:

@@ -12,10 +12,10 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/expand"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // rawRegroupings are the bases a byte stream splits into exactly: bits,

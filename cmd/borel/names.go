@@ -4,8 +4,8 @@ import (
 	"io"
 	"strconv"
 
-	"borel/stats/audit"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // flagName is the command's name for an option that the libraries'

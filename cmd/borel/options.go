@@ -6,9 +6,9 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // parseBase reads --base: an integer in lo..hi.

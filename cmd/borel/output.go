@@ -13,8 +13,8 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/reports"
-	"borel/stats/audit"
+	"github.com/borel-audit/borel/reports"
+	"github.com/borel-audit/borel/stats/audit"
 )
 
 // formats are the report formats borel writes (the reports registry).

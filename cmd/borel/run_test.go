@@ -15,8 +15,8 @@ import (
 	"strings"
 	"testing"
 
-	"borel/stats/audit"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // borel runs the command in-process and returns exit status, stdout, stderr.

@@ -10,10 +10,10 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/internal/tally"
-	"borel/stats/audit"
-	"borel/stats/checks"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 const tallyHelp = `Usage: borel tally FILE|- --offset N --max-block K [--base B | --bits | --raw [--word W]] [--null ...] [--workers N] [--quiet] -o SHARD

@@ -16,10 +16,10 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"borel/internal/tally"
-	"borel/reports"
-	"borel/stats/audit"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/reports"
+	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 const watchHelp = `Usage: borel watch FILE|- [--raw [--word W] | --bits | --base B] [options]

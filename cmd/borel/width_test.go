@@ -6,7 +6,7 @@ import (
 	"testing"
 	"unicode/utf8"
 
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // widthInput is a sticky decimal sequence (every table has marks and

@@ -7,7 +7,7 @@ import (
 	"math/bits"
 	"slices"
 
-	"borel/stats/gf2"
+	"github.com/borel-audit/borel/stats/gf2"
 )
 
 // WordSpec asks for one word-level record of a raw byte stream (base 256)

@@ -7,7 +7,7 @@ import (
 	"slices"
 	"testing"
 
-	"borel/stats/gf2"
+	"github.com/borel-audit/borel/stats/gf2"
 )
 
 // wordSpec is a base-256 spec with every word record for W-bit words

@@ -7,8 +7,8 @@ import (
 	"strings"
 	"testing"
 
-	"borel/stats/checks"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/checks"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // deBruijn returns the cyclic de Bruijn sequence B(b, k) of length b^k, by

@@ -3,7 +3,7 @@ package audit
 import (
 	"math"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 // InputVerdict is the one verdict of an input audited in several views

@@ -1,6 +1,6 @@
 package audit
 
-import "borel/stats"
+import "github.com/borel-audit/borel/stats"
 
 // BandLevel is the level of the frequency band drawn with the digit
 // frequencies.

@@ -10,9 +10,9 @@ import (
 	"strings"
 	"sync"
 
-	"borel/internal/tally"
-	"borel/stats"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // SegmentSeries is the p-values one statistic took in the segments.

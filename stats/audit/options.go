@@ -5,7 +5,7 @@ import (
 	"runtime"
 	"strings"
 
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // NullSpec is the null as the user gave it, before the data are seen.
@@ -53,7 +53,8 @@ func (o Options) selected(name string) bool {
 }
 
 // DefaultOptions returns alpha 0.01, Holm, automatic K, 256 MiB, minimum
-// expected count 5, uniform null.
+// expected count 5, uniform null, seed 1, all cores. The zero Options
+// means the same: every entry point fills the fields left zero from these.
 func DefaultOptions() Options {
 	return Options{Alpha: 0.01, Adjustment: Holm, MemoryBytes: 256 << 20, MinExpected: 5, Seed: 1,
 		Workers: runtime.GOMAXPROCS(0)}
@@ -74,6 +75,28 @@ type Source struct {
 	SHA256      string   // hex SHA-256 of the input bytes as read, "" for built-in sources
 	Parameters  string   // for a built-in source: how it was made
 	Checks      []string // for a computed constant: how its value and digits were checked
+}
+
+// withDefaults fills the fields left zero from DefaultOptions, so that the
+// zero Options works (Seed 0 is a seed like any other and stays).
+func (o Options) withDefaults() Options {
+	d := DefaultOptions()
+	if o.Alpha == 0 {
+		o.Alpha = d.Alpha
+	}
+	if o.Adjustment == "" {
+		o.Adjustment = d.Adjustment
+	}
+	if o.MemoryBytes == 0 {
+		o.MemoryBytes = d.MemoryBytes
+	}
+	if o.MinExpected == 0 {
+		o.MinExpected = d.MinExpected
+	}
+	if o.Workers == 0 {
+		o.Workers = d.Workers
+	}
+	return o
 }
 
 func validateOptions(o Options) error {

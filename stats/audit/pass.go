@@ -7,8 +7,8 @@ import (
 	"context"
 	"fmt"
 
-	"borel/internal/tally"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // Start prepares the plan's tally (and second level) for Add.

@@ -6,7 +6,7 @@ import (
 	"errors"
 	"testing"
 
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 // A cancelled context stops the pass after the chunk in hand, with one

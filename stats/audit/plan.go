@@ -7,8 +7,8 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // Plan is what an audit decides before reading: the tally to fill.
@@ -73,6 +73,7 @@ func mib(bytes float64) string { return fmt.Sprintf("%.0f MiB", math.Ceil(bytes/
 // most sizeHint digits (sizeHint < 0: unknown). An explicit MaxBlock whose
 // tables exceed the memory budget is an error that says what it would need.
 func NewPlan(base int, sizeHint int64, opts Options) (*Plan, error) {
+	opts = opts.withDefaults()
 	if err := validateOptions(opts); err != nil {
 		return nil, err
 	}
@@ -155,6 +156,7 @@ func countedBlocks(K, base int, sizeHint int64, opts Options) int {
 // PlanForSpec returns the plan of a tally made elsewhere (merged shards),
 // for Finish.
 func PlanForSpec(spec tally.Spec, opts Options) (*Plan, error) {
+	opts = opts.withDefaults()
 	if err := validateOptions(opts); err != nil {
 		return nil, err
 	}

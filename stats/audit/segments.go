@@ -8,9 +8,9 @@ import (
 	"sort"
 	"strings"
 
-	"borel/internal/tally"
-	"borel/stats"
-	"borel/stats/checks"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // MinSegmentDigits is the shortest segment the second level accepts.

@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"borel/internal/tally"
+	"github.com/borel-audit/borel/internal/tally"
 )
 
 // damage applies ops to a decoded tally, three bytes an operation: which

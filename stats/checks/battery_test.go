@@ -5,9 +5,9 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"borel/internal/tally"
-	"borel/stats"
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // Poker probabilities, Knuth's formula (TAOCP §3.3.2 D); numbers

@@ -13,8 +13,8 @@ import (
 	"strconv"
 	"strings"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // Finding is one row of results: one statistic of one check at one parameter.

@@ -6,9 +6,9 @@ import (
 	"os"
 	"testing"
 
-	"borel/internal/tally"
-	"borel/stats/expand"
-	"borel/stats/seq"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats/expand"
+	"github.com/borel-audit/borel/stats/seq"
 )
 
 func closeTo(got, want, tol float64) bool {

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
+	"github.com/borel-audit/borel/internal/tally"
 )
 
 // couponCheck is the coupon-collector test: the sequence (digit classes

@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // driftCheck is the maximal excursion of the digit-sum walk. With the null's

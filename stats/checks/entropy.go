@@ -7,7 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 // EntropyRow is the entropy profile at one block length k (nats).

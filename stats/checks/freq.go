@@ -5,7 +5,7 @@ import (
 	"math"
 	"slices"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 // freqCheck tests the digit frequencies.

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
+	"github.com/borel-audit/borel/internal/tally"
 )
 
 // gapCheck is Knuth's gap test, once per digit class (one class per digit

@@ -6,7 +6,7 @@ import (
 	"sort"
 	"strings"
 
-	"borel/internal/tally"
+	"github.com/borel-audit/borel/internal/tally"
 )
 
 // lagcorrCheck is the serial correlation of digit values at lags h = 1..H,

@@ -3,8 +3,8 @@ package checks
 import (
 	"fmt"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // maxrunCheck is the longest run: of identical digits (any digit), and of

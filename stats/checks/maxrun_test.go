@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"borel/internal/tally"
+	"github.com/borel-audit/borel/internal/tally"
 )
 
 // π's first 10^6 decimals: the longest run of identical digits is 7

@@ -5,7 +5,7 @@ import (
 	"math"
 	"slices"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 // NullKind names the hypothesis the checks measure against.

@@ -8,8 +8,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // pokerCheck is the poker (partition) test: disjoint hands of h digits,

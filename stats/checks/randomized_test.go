@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"borel/stats/expand"
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // RandomizedP of a discrete finding is P(T > t) + u·P(T = t) with the

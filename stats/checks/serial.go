@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"borel/stats"
+	"github.com/borel-audit/borel/stats"
 )
 
 // serialCheck is Good's serial test on overlapping cyclic k-blocks.

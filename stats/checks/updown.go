@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // updownCheck counts runs up and down (Levene & Wolfowitz 1944). Digits

@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
-	"borel/internal/tally"
-	"borel/stats"
+	"github.com/borel-audit/borel/internal/tally"
+	"github.com/borel-audit/borel/stats"
 )
 
 // The word-level checks read a raw byte stream as words (Setting.Word bits,
