@@ -92,13 +92,13 @@ func CSV(w io.Writer, doc Document) error {
 	}
 	for _, r := range doc.Results {
 		for _, f := range r.Findings {
-			row := []string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), r.Verdict,
+			row := []string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), string(r.Verdict),
 				f.Check, f.Statistic, csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
 				full(f.Value), fullDF(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
 				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),
 				full(math.Exp(f.LogHolmUpper)), full(math.Exp(f.LogHolmLower)), full(math.Exp(f.LogBHUpper)), full(math.Exp(f.LogBHLower)),
-				f.Mark, strings.Join(f.Notes, "; ")}
+				string(f.Mark), strings.Join(f.Notes, "; ")}
 			if err := cw.Write(row); err != nil {
 				return err
 			}

@@ -129,7 +129,7 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 		Style: template.HTML(htmlStyle)}
 	for _, v := range doc.Inputs {
 		h, reason := inputHeadline(v)
-		pg.Inputs = append(pg.Inputs, htmlInput{Headline: h, Reason: reason, Class: strings.ReplaceAll(v.Verdict, " ", "-")})
+		pg.Inputs = append(pg.Inputs, htmlInput{Headline: h, Reason: reason, Class: strings.ReplaceAll(string(v.Verdict), " ", "-")})
 	}
 	if len(doc.Results) > 1 {
 		pg.SummaryHeader, pg.SummaryRows = summaryRows(doc)
@@ -151,8 +151,8 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 }
 
 func htmlAuditOf(doc Document, r *audit.Result) (htmlAudit, error) {
-	a := htmlAudit{Title: "borel audit of " + seqName(r) + " in base " + itoa(r.Base), Verdict: r.Verdict,
-		VerdictClass: strings.ReplaceAll(r.Verdict, " ", "-"), Reason: verdictReason(r), Provenance: provenance(doc, r),
+	a := htmlAudit{Title: "borel audit of " + seqName(r) + " in base " + itoa(r.Base), Verdict: string(r.Verdict),
+		VerdictClass: strings.ReplaceAll(string(r.Verdict), " ", "-"), Reason: verdictReason(r), Provenance: provenance(doc, r),
 		AuditNotes: r.Notes}
 	a.Header, a.Rows, a.Notes = findingTable(r)
 	for _, s := range r.Skips {

@@ -25,7 +25,7 @@ func inputHeadline(v audit.InputVerdict) (headline, reason string) {
 	if len(views) > 0 {
 		list += "; " + strings.Join(views, "; ")
 	}
-	headline = fmt.Sprintf("Verdict for %s over its %d views (%s): %s", v.Input, len(v.Views), list, strings.ToUpper(v.Verdict))
+	headline = fmt.Sprintf("Verdict for %s over its %d views (%s): %s", v.Input, len(v.Views), list, strings.ToUpper(string(v.Verdict)))
 	alpha := 0.0
 	if len(v.Views) > 0 {
 		alpha = v.Views[0].Alpha

@@ -231,7 +231,7 @@ func ToJSON(doc Document) JSONDocument {
 		out.Audits = append(out.Audits, jsonAudit(r))
 	}
 	for _, v := range doc.Inputs {
-		in := JSONInput{Input: v.Input, Verdict: v.Verdict, Rule: "holm across views of each view's smallest adjusted p, both sides",
+		in := JSONInput{Input: v.Input, Verdict: string(v.Verdict), Rule: "holm across views of each view's smallest adjusted p, both sides",
 			Views: []int{}, PDeviation: math.Exp(v.LogPDeviation), Log10PDeviation: log10(v.LogPDeviation),
 			PTooUniform: math.Exp(v.LogPTooUniform), Log10PTooUniform: log10(v.LogPTooUniform), Decisive: -1}
 		for _, view := range v.Views {
@@ -263,8 +263,8 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			SHA256: r.Source.SHA256, Parameters: r.Source.Parameters, Checks: slices.Clone(r.Source.Checks)},
 		Segments: r.Segments, Seed: r.Seed,
 		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
-		Alpha: r.Alpha, Adjustment: r.Adjustment, MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
-		Verdict: r.Verdict, Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),
+		Alpha: r.Alpha, Adjustment: string(r.Adjustment), MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
+		Verdict: string(r.Verdict), Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),
 		Plots: plotData(r),
 	}
 	if r.Source.Bytes >= 0 {
@@ -279,7 +279,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
 			Holm: tails(f.LogHolmUpper, f.LogHolmLower), BH: tails(f.LogBHUpper, f.LogBHLower),
-			Mark: f.Mark, Where: f.Where, WhereHow: f.WhereHow, Detail: f.Detail, Notes: nonNil(f.Notes),
+			Mark: string(f.Mark), Where: f.Where, WhereHow: f.WhereHow, Detail: f.Detail, Notes: nonNil(f.Notes),
 		})
 	}
 	for _, s := range r.Skips {

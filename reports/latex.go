@@ -160,8 +160,8 @@ func texFindings(w io.Writer, r *audit.Result) {
 	fmt.Fprintln(w, `\begingroup\footnotesize\setlength{\tabcolsep}{3pt}\setlength{\LTcapwidth}{\linewidth}`)
 	fmt.Fprintln(w, `\begin{longtable}{@{}p{0.25\linewidth}rrrrrl@{}}`)
 	fmt.Fprintf(w, "\\caption{borel audit of \\texttt{%s} in base %d: %d digits against the %s null, %s adjustment over %d $p$-values, $\\alpha = %s$. Verdict: \\textbf{%s}.}\\tabularnewline\n",
-		texName(seqName(r)), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(r.Adjustment),
-		2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(r.Verdict))
+		texName(seqName(r)), r.Base, r.Digits, r.Null.Kind.String(), adjustmentName(string(r.Adjustment)),
+		2*len(r.Findings), strconv.FormatFloat(r.Alpha, 'g', -1, 64), texEscape(string(r.Verdict)))
 	fmt.Fprintln(w, texFindingsHead)
 	fmt.Fprintln(w, `\endfirsthead`)
 	fmt.Fprintln(w, `\multicolumn{7}{@{}l}{\emph{(continued)}}\tabularnewline`)
@@ -176,7 +176,7 @@ func texFindings(w io.Writer, r *audit.Result) {
 		if p := findingParams(f.Finding); p != "" {
 			label += " " + texEscape(p)
 		}
-		mark := texEscape(f.Mark)
+		mark := texEscape(string(f.Mark))
 		var refs []string
 		for _, n := range f.Notes {
 			refs = append(refs, strconv.Itoa(number[n]))

@@ -29,7 +29,7 @@ func findingTable(r *audit.Result) (header []string, rows [][]string, notes []st
 		}
 		rows = append(rows, []string{f.Check, statisticName(f.Statistic), findingParams(f.Finding),
 			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
-			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), f.Mark, ref})
+			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), string(f.Mark), ref})
 	}
 	return header, rows, notes
 }
@@ -114,7 +114,7 @@ func Markdown(w io.Writer, doc Document) error {
 		header, frows, notes := findingTable(r)
 		mdTable(bw, header, frows, findingAlign)
 		fmt.Fprintln(bw)
-		fmt.Fprintln(bw, "*p upper*: chance of a statistic at least this large (deviation); *p lower*: at most this small (fit too good); *adjusted*: the smaller of the two after "+adjustmentName(r.Adjustment)+" adjustment over the whole family.")
+		fmt.Fprintln(bw, "*p upper*: chance of a statistic at least this large (deviation); *p lower*: at most this small (fit too good); *adjusted*: the smaller of the two after "+adjustmentName(string(r.Adjustment))+" adjustment over the whole family.")
 		for i, n := range notes {
 			fmt.Fprintf(bw, "\n[%d] %s\n", i+1, mdCell(n))
 		}

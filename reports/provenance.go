@@ -40,7 +40,7 @@ func provenance(doc Document, r *audit.Result) [][2]string {
 	rows = append(rows,
 		[2]string{"null", describeNull(r.Null, r.Base)},
 		[2]string{"alpha", strconv.FormatFloat(r.Alpha, 'g', -1, 64)},
-		[2]string{"adjustment", fmt.Sprintf("%s over %d p-values (%d findings × 2 tails)", adjustmentName(r.Adjustment), 2*len(r.Findings), len(r.Findings))},
+		[2]string{"adjustment", fmt.Sprintf("%s over %d p-values (%d findings × 2 tails)", adjustmentName(string(r.Adjustment)), 2*len(r.Findings), len(r.Findings))},
 		[2]string{"windows", fmt.Sprintf("k ≤ %d digits (serial, entropy; blocks where counts allow): %s", r.MaxBlock, r.BlockChoice)},
 	)
 	if r.Segments > 0 {

@@ -26,9 +26,9 @@ func JSONSchema() ([]byte, error) {
 
 // enums are the values some string fields can take, by JSON name.
 var enums = map[string][]string{
-	"verdict":    {audit.Consistent, audit.NotConsistent, audit.TooUniform, audit.Untested},
-	"mark":       {"", audit.MarkDeviates, audit.MarkTooUniform},
-	"adjustment": {audit.Holm, audit.BH},
+	"verdict":    {string(audit.Consistent), string(audit.NotConsistent), string(audit.TooUniform), string(audit.Untested)},
+	"mark":       {"", string(audit.MarkDeviates), string(audit.MarkTooUniform)},
+	"adjustment": {string(audit.Holm), string(audit.BH)},
 }
 
 func schemaOf(t reflect.Type, name string) map[string]any {

@@ -36,7 +36,7 @@ func summaryRows(doc Document) (header []string, rows [][]string) {
 			}
 		}
 		rows = append(rows, []string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10),
-			r.Verdict, formatP(worst), label, deficit, dim, interval})
+			string(r.Verdict), formatP(worst), label, deficit, dim, interval})
 	}
 	return header, rows
 }
@@ -117,7 +117,7 @@ func comparisonCSVRows(w io.Writer, doc Document) error {
 			deficit, dim = num(e.Summary.Deficit), num(e.Summary.Dimension)
 			lo, hi = num(e.Summary.DimLow), num(e.Summary.DimHigh)
 		}
-		cw.Write([]string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Verdict, logP, p, from, tail, deficit, dim, lo, hi})
+		cw.Write([]string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), string(r.Verdict), logP, p, from, tail, deficit, dim, lo, hi})
 	}
 	cw.Flush()
 	return cw.Error()

@@ -90,7 +90,7 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		return err
 	}
 	hanging(w, m, "  ", "p upper: chance of a statistic at least this large (deviation); p lower: at most this small (fit too good); "+
-		fmt.Sprintf("adjusted: the smaller of the two after %s adjustment over the whole family.", adjustmentName(r.Adjustment)))
+		fmt.Sprintf("adjusted: the smaller of the two after %s adjustment over the whole family.", adjustmentName(string(r.Adjustment))))
 	_, _, notes := findingTable(r)
 	for i, n := range notes {
 		hanging(w, m, fmt.Sprintf("  [%d] ", i+1), n)
@@ -127,7 +127,7 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		}
 	}
 	fmt.Fprintln(w)
-	hanging(w, m, "", fmt.Sprintf("Verdict for %s in base %d: %s", seqName(r), r.Base, strings.ToUpper(r.Verdict)))
+	hanging(w, m, "", fmt.Sprintf("Verdict for %s in base %d: %s", seqName(r), r.Base, strings.ToUpper(string(r.Verdict))))
 	hanging(w, m, "  ", verdictReason(r))
 	return nil
 }
@@ -153,7 +153,7 @@ func findingLayouts(r *audit.Result) []textTable {
 }
 
 func adjustmentName(a string) string {
-	if a == audit.BH {
+	if audit.Adjustment(a) == audit.BH {
 		return "Benjamini–Hochberg"
 	}
 	return "Holm"

@@ -50,12 +50,12 @@ var calibrationLengths = []int{10_000, 30_000, 100_000}
 
 type calibration struct {
 	pValues  map[string][]float64
-	verdicts map[string]int
+	verdicts map[audit.Verdict]int
 }
 
 func calibrate(t *testing.T, base int, p []float64, opts audit.Options, seedTag byte) calibration {
 	t.Helper()
-	c := calibration{pValues: map[string][]float64{}, verdicts: map[string]int{}}
+	c := calibration{pValues: map[string][]float64{}, verdicts: map[audit.Verdict]int{}}
 	u := rand.New(rand.NewPCG(uint64(base), 99))
 	for i := range calibrationRuns {
 		var key [32]byte
@@ -128,7 +128,7 @@ func checkCalibration(t *testing.T, name string, c calibration) {
 		t.Errorf("%s: only %d statistics tested", name, tested)
 	}
 	_, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
-	for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
+	for _, v := range []audit.Verdict{audit.NotConsistent, audit.TooUniform} {
 		if k := c.verdicts[v]; k > hi {
 			t.Errorf("%s: %d of %d verdicts %q, above the 99.9%% binomial interval's end %d for rate 0.01", name, k, calibrationRuns, v, hi)
 		}
@@ -178,7 +178,7 @@ func TestCalibrationShortInputs(t *testing.T) {
 		for i := range p {
 			p[i] = 1 / float64(c.base)
 		}
-		verdicts, exactTail := map[string]int{}, map[string]int{}
+		verdicts, exactTail := map[audit.Verdict]int{}, map[string]int{}
 		for i := range calibrationRuns {
 			var key [32]byte
 			key[0], key[1], key[2], key[3], key[4] = 's', byte(c.base), byte(c.n), byte(c.n>>8), byte(i)
@@ -201,7 +201,7 @@ func TestCalibrationShortInputs(t *testing.T) {
 				}
 			}
 		}
-		for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
+		for _, v := range []audit.Verdict{audit.NotConsistent, audit.TooUniform} {
 			if k := verdicts[v]; k > hi {
 				t.Errorf("base %d, n = %d: %d of %d verdicts %q, above %d (the 99.9%% binomial interval's end for rate 0.01)", c.base, c.n, k, calibrationRuns, v, hi)
 			}
@@ -534,7 +534,7 @@ func TestCalibrationWords(t *testing.T) {
 				}
 			}
 		}
-		c := calibration{pValues: map[string][]float64{}, verdicts: map[string]int{}}
+		c := calibration{pValues: map[string][]float64{}, verdicts: map[audit.Verdict]int{}}
 		u := rand.New(rand.NewPCG(uint64(W), 7))
 		opts := checks.Options{MinExpected: 5, Confidence: 0.99}
 		for i := range calibrationRuns {
@@ -591,7 +591,7 @@ func TestCalibrationWords(t *testing.T) {
 			}
 		}
 		_, hi := binomialInterval(calibrationRuns, 0.01, 0.0005)
-		for _, v := range []string{audit.NotConsistent, audit.TooUniform} {
+		for _, v := range []audit.Verdict{audit.NotConsistent, audit.TooUniform} {
 			if k := c.verdicts[v]; k > hi {
 				t.Errorf("%s: %d of %d verdicts %q, above the 99.9%% binomial interval's end %d", name, k, calibrationRuns, v, hi)
 			}

@@ -35,7 +35,7 @@ func markovRepeat(n int, repeat float64, rng *rand.Rand) []byte {
 	return d
 }
 
-func caughtBy(r *audit.Result, mark string) []string {
+func caughtBy(r *audit.Result, mark audit.Mark) []string {
 	seen := map[string]bool{}
 	for _, f := range r.Findings {
 		if f.Mark == mark {
@@ -64,8 +64,8 @@ func TestPower(t *testing.T) {
 	cases := []struct {
 		name    string
 		digits  []byte
-		verdict string
-		mark    string
+		verdict audit.Verdict
+		mark    audit.Mark
 		notBy   string // a check that must not catch it
 	}{
 		{"Markov chain repeating the last digit with probability 0.12 instead of 0.10, 10^6 digits",

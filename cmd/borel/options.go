@@ -125,7 +125,7 @@ func parseGzip(s string) (seq.Gzip, error) {
 }
 
 // parseAdjust reads --adjust.
-func parseAdjust(s string) (string, error) {
+func parseAdjust(s string) (audit.Adjustment, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {
 	case "holm":
 		return audit.Holm, nil

@@ -369,7 +369,7 @@ func (w *watchRun) end(why string) (int, error) {
 }
 
 // status prints the checkpoint's line on standard error.
-func (w *watchRun) status(verdict string, results []*audit.Result, level float64, why string) {
+func (w *watchRun) status(verdict audit.Verdict, results []*audit.Result, level float64, why string) {
 	if w.out.quiet {
 		return
 	}

@@ -15,26 +15,45 @@
 // options by their Go names (messages.go), never by a command's flags.
 package audit
 
+// Verdict is the outcome of an audit (or of an input over its views).
+type Verdict string
+
+// String returns the verdict as the reports write it.
+func (v Verdict) String() string { return string(v) }
+
 // Verdicts.
 const (
-	Consistent    = "consistent"
-	NotConsistent = "not consistent"
-	TooUniform    = "too uniform"
+	Consistent    Verdict = "consistent"
+	NotConsistent Verdict = "not consistent"
+	TooUniform    Verdict = "too uniform"
 	// Untested: no check could form a statistic (every one was skipped:
 	// too few digits, or nothing to test under the chosen null and
 	// checks). It is not evidence of consistency, and --strict-style
 	// gating must not pass it.
-	Untested = "nothing tested"
+	Untested Verdict = "nothing tested"
 )
+
+// Mark is what the adjustment made of a finding: nothing (""), deviates,
+// or too uniform.
+type Mark string
+
+// String returns the mark as the reports write it ("" for none).
+func (m Mark) String() string { return string(m) }
 
 // Finding marks.
 const (
-	MarkDeviates   = "deviates"    // upper tail significant after adjustment
-	MarkTooUniform = "too uniform" // lower tail significant after adjustment
+	MarkDeviates   Mark = "deviates"    // upper tail significant after adjustment
+	MarkTooUniform Mark = "too uniform" // lower tail significant after adjustment
 )
+
+// Adjustment is a multiple-testing adjustment.
+type Adjustment string
+
+// String returns the adjustment's name (holm, bh).
+func (a Adjustment) String() string { return string(a) }
 
 // Adjustment methods.
 const (
-	Holm = "holm"
-	BH   = "bh"
+	Holm Adjustment = "holm"
+	BH   Adjustment = "bh"
 )

@@ -23,7 +23,7 @@ import (
 type InputVerdict struct {
 	Input   string
 	Views   []*Result
-	Verdict string
+	Verdict Verdict
 	// LogPDeviation and LogPTooUniform: the smallest p of each side after
 	// the adjustment across views (natural logs; 0 when the side is empty).
 	LogPDeviation, LogPTooUniform float64

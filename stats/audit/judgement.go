@@ -29,7 +29,7 @@ type Finding struct {
 	LogAdjUpper, LogAdjLower   float64
 	LogHolmUpper, LogHolmLower float64
 	LogBHUpper, LogBHLower     float64
-	Mark                       string
+	Mark                       Mark
 }
 
 // Result is the audit of one sequence in one base.
@@ -39,13 +39,13 @@ type Result struct {
 	Digits      int64
 	Null        checks.Null
 	Alpha       float64
-	Adjustment  string
+	Adjustment  Adjustment
 	MaxBlock    int    // largest block length the checks used
 	BlockChoice string // how MaxBlock was chosen, in words
 	Findings    []Finding
 	Skips       []checks.Skip
 	Entropy     *checks.EntropyProfile
-	Verdict     string
+	Verdict     Verdict
 	Notes       []string
 
 	Segments       int                // second level: number of segments (0: none)
@@ -121,7 +121,9 @@ func missingTopDigits(counts []int64, n int64, opts Options) string {
 }
 
 // Finish runs the checks on a finished tally of the whole sequence and
-// returns the audit result.
+// returns the audit result. It consumes t: the cyclic tables are made in
+// place, so t can be neither added to nor finished again (Snapshot
+// finishes a copy instead).
 func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	opts := p.opts
 	res := &Result{Source: src, Base: t.Base, Digits: t.N, Alpha: opts.Alpha, Adjustment: opts.Adjustment,
@@ -256,7 +258,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 // (finding, tail) and returns the verdict: not consistent when any adjusted
 // upper-tail p (or either tail of a two-sided z score) is at or below alpha,
 // else too uniform when any adjusted lower-tail p is, else consistent.
-func adjust(fs []checks.Finding, opts Options) ([]Finding, string) {
+func adjust(fs []checks.Finding, opts Options) ([]Finding, Verdict) {
 	logP := make([]float64, 0, 2*len(fs))
 	for _, f := range fs {
 		logP = append(logP, f.LogPUpper, f.LogPLower)

@@ -16,11 +16,11 @@ type NullSpec struct {
 
 // Options holds the tunables of an audit.
 type Options struct {
-	Alpha       float64 // significance level of the verdict, in (0, 1)
-	Adjustment  string  // Holm (default) or BH
-	MaxBlock    int     // 0: choose automatically
-	MemoryBytes int64   // budget for the count tables
-	MinExpected float64 // smallest expected count per cell (rule of thumb 5)
+	Alpha       float64    // significance level of the verdict, in (0, 1)
+	Adjustment  Adjustment // Holm (default) or BH
+	MaxBlock    int        // 0: choose automatically
+	MemoryBytes int64      // budget for the count tables
+	MinExpected float64    // smallest expected count per cell (rule of thumb 5)
 	Null        NullSpec
 	Segments    int    // second level: number of segments, 0 for none
 	Seed        uint64 // seed of the randomized p-values of discrete statistics

@@ -212,6 +212,15 @@ type Skip struct {
 	Reason string
 }
 
+// String writes the skip as the reports list it: "blocks k=5: reason".
+func (s Skip) String() string {
+	label := s.Check
+	for _, k := range ParamNames(s.Params) {
+		label += fmt.Sprintf(" %s=%d", k, s.Params[k])
+	}
+	return label + ": " + s.Reason
+}
+
 // Result gathers what checks produce for one sequence and base.
 type Result struct {
 	Findings []Finding

@@ -16,6 +16,7 @@
 package audittest
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"testing"
 
@@ -77,16 +78,23 @@ func retried(tb testing.TB, src rand.Source, n int64, opts audit.Options, first,
 	return r
 }
 
-// deviating lists the marked findings, a line each.
+// deviating lists the marked findings, a line each (the first 8).
 func deviating(r *audit.Result) string {
-	s := ""
+	s, n := "", 0
 	for _, f := range r.Findings {
-		if f.Mark != "" {
-			s += "\n\t" + f.Label() + ": " + f.Mark
-			if f.Where != "" {
-				s += " (" + f.Where + ")"
-			}
+		if f.Mark == "" {
+			continue
 		}
+		if n++; n > 8 {
+			continue
+		}
+		s += "\n\t" + f.Label() + ": " + string(f.Mark)
+		if f.Where != "" {
+			s += " (" + f.Where + ")"
+		}
+	}
+	if n > 8 {
+		s += fmt.Sprintf("\n\tand %d more", n-8)
 	}
 	return s
 }
