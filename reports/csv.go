@@ -93,7 +93,7 @@ func CSV(w io.Writer, doc Document) error {
 	for _, r := range doc.Results {
 		for _, f := range r.Findings {
 			row := []string{seqName(r), strconv.Itoa(r.Base), strconv.FormatInt(r.Digits, 10), r.Null.Kind.String(), string(r.Verdict),
-				f.Check, f.Statistic, csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
+				f.Check, string(f.Statistic), csvParams(f.Params), f.Of, strconv.FormatBool(f.TwoSided),
 				full(f.Value), fullDF(f.DF), full(math.Exp(f.LogPUpper)), full(math.Exp(f.LogPLower)),
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
 				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),

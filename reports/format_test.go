@@ -71,7 +71,7 @@ func TestFormatStat(t *testing.T) {
 // check, statistic, parameters when it has any, and the tail — one space
 // between the parts (a drift finding has no parameters).
 func TestSummaryFrom(t *testing.T) {
-	f := func(check, stat string, params map[string]int, adjUp, adjLow float64) audit.Finding {
+	f := func(check string, stat checks.Statistic, params map[string]int, adjUp, adjLow float64) audit.Finding {
 		return audit.Finding{Finding: checks.Finding{Check: check, Statistic: stat, Params: params, LogPUpper: adjUp, LogPLower: adjLow},
 			LogAdjUpper: adjUp, LogAdjLower: adjLow}
 	}

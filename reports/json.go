@@ -273,7 +273,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 	}
 	for _, f := range r.Findings {
 		a.Findings = append(a.Findings, JSONFinding{
-			Check: f.Check, Statistic: f.Statistic, Params: f.Params, Of: f.Of, TwoSided: f.TwoSided, Value: f.Value, DF: f.DF,
+			Check: f.Check, Statistic: string(f.Statistic), Params: f.Params, Of: f.Of, TwoSided: f.TwoSided, Value: f.Value, DF: f.DF,
 			PUpper: math.Exp(f.LogPUpper), PLower: math.Exp(f.LogPLower),
 			Log10PUpper: log10(f.LogPUpper), Log10PLower: log10(f.LogPLower),
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),

@@ -172,7 +172,7 @@ func texFindings(w io.Writer, r *audit.Result) {
 	fmt.Fprintln(w, `\bottomrule`)
 	fmt.Fprintln(w, `\endlastfoot`)
 	for _, f := range r.Findings {
-		label := texEscape(f.Check) + " " + texStatistic(f.Statistic)
+		label := texEscape(f.Check) + " " + texStatistic(string(f.Statistic))
 		if p := findingParams(f.Finding); p != "" {
 			label += " " + texEscape(p)
 		}

@@ -27,7 +27,7 @@ func findingTable(r *audit.Result) (header []string, rows [][]string, notes []st
 			}
 			ref += fmt.Sprintf("[%d]", number[n])
 		}
-		rows = append(rows, []string{f.Check, statisticName(f.Statistic), findingParams(f.Finding),
+		rows = append(rows, []string{f.Check, statisticName(string(f.Statistic)), findingParams(f.Finding),
 			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
 			formatP(math.Min(f.LogAdjUpper, f.LogAdjLower)), string(f.Mark), ref})
 	}

@@ -192,7 +192,7 @@ func FindingLabel(f checks.Finding) string { return findingLabel(f) }
 // has any (maxrun's and drift's whole-sequence findings have none).
 func findingLabel(f checks.Finding) string {
 	if p := findingParams(f); p != "" {
-		return f.Check + " " + statisticName(f.Statistic) + " " + p
+		return f.Check + " " + statisticName(string(f.Statistic)) + " " + p
 	}
-	return f.Check + " " + statisticName(f.Statistic)
+	return f.Check + " " + statisticName(string(f.Statistic))
 }

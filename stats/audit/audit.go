@@ -13,6 +13,18 @@
 //
 // It returns data; rendering is the reports package's job. Messages name
 // options by their Go names (messages.go), never by a command's flags.
+//
+// In five lines, from a Go program or test:
+//
+//	r, err := audit.Generator(rand.NewChaCha8(seed), 1<<20, audit.Options{})
+//	if err != nil {
+//		return err
+//	}
+//	fmt.Println(r.Verdict, r.Summary()) // consistent, or the finding that decided
+//
+// Reader and Bytes audit a stream (text digits, raw bytes), Digits digits in
+// memory; the zero Options means DefaultOptions. Package audittest turns
+// the verdict into a test failure.
 package audit
 
 // Verdict is the outcome of an audit (or of an input over its views).

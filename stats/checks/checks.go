@@ -17,13 +17,26 @@ import (
 	"github.com/borel-audit/borel/stats"
 )
 
+// Statistic identifies a statistic within its check ("X2", "G", "dpsi2",
+// "Lmin", …); StatisticName gives its printed name.
+type Statistic string
+
+// String returns the printed name of the statistic (X², ∇ψ², …), or the
+// identifier when none is declared.
+func (s Statistic) String() string {
+	if n, ok := StatisticName(string(s)); ok {
+		return n.Text
+	}
+	return string(s)
+}
+
 // Finding is one row of results: one statistic of one check at one parameter.
 // LogPUpper is ln P(T ≥ t) under the null (small when the data deviate);
 // LogPLower is ln P(T ≤ t) (small when the data fit too well). Both are
 // computed directly, never one from the other.
 type Finding struct {
 	Check     string         // check identifier, e.g. "serial"
-	Statistic string         // statistic name, e.g. "X2", "G", "dpsi2", "d2psi2"
+	Statistic Statistic      // statistic identifier, e.g. "X2", "G", "dpsi2", "d2psi2"
 	Params    map[string]int // e.g. {"k": 3} or {"digit": 7}
 	Value     float64
 	DF        float64
@@ -155,7 +168,7 @@ func atomFromTails(up, lo float64) float64 {
 // Label identifies a finding's statistic: check, statistic and parameters,
 // e.g. "serial dpsi2 k=2".
 func (f Finding) Label() string {
-	s := f.Check + " " + f.Statistic
+	s := f.Check + " " + string(f.Statistic)
 	for _, k := range ParamNames(f.Params) {
 		s += fmt.Sprintf(" %s=%d", k, f.Params[k])
 	}
@@ -380,7 +393,7 @@ func All() []Check {
 // sequences). For bits' freq at X² = 0 the corrected value is
 // P(χ²_1 ≤ 2/n), against an exact P(N_1 = n/2) ≈ 0.8/√n: conservative, as a
 // claim of "too uniform" should be.
-func chiSquareFinding(check, stat string, params map[string]int, value, df, minExp float64) Finding {
+func chiSquareFinding(check string, stat Statistic, params map[string]int, value, df, minExp float64) Finding {
 	f := Finding{Check: check, Statistic: stat, Params: params, Value: value, DF: df}
 	f.LogPUpper = chiSquareLogSF(value, df)
 	half := 0.0
@@ -417,7 +430,7 @@ func (c *cellStat) add(count int64, expected float64) {
 }
 
 // normalFinding fills both tails of a standard normal z score.
-func normalFinding(check, stat string, params map[string]int, z float64) Finding {
+func normalFinding(check string, stat Statistic, params map[string]int, z float64) Finding {
 	return Finding{Check: check, Statistic: stat, Params: params, Value: z,
 		LogPUpper: stats.NormalLogSF(z), LogPLower: stats.NormalLogSF(-z), TwoSided: true}
 }

@@ -46,7 +46,7 @@ func input(t testing.TB, d []byte, base, K int, null Null) Input {
 	return Input{Tally: tl, Cyclic: cyc, Null: null, Opts: DefaultOptions()}
 }
 
-func find(t *testing.T, r Result, check, stat string, param string, v int) Finding {
+func find(t *testing.T, r Result, check string, stat Statistic, param string, v int) Finding {
 	t.Helper()
 	for _, f := range r.Findings {
 		if f.Check == check && f.Statistic == stat && f.Params[param] == v {
@@ -141,7 +141,7 @@ func TestPiMillionDigits(t *testing.T) {
 		{"d2psi2", 3, 775.07, 810, 0.806},
 		{"dpsi2", 4, 9021.18, 9000, 0.435},
 	} {
-		f := find(t, r, "serial", c.stat, "k", c.k)
+		f := find(t, r, "serial", Statistic(c.stat), "k", c.k)
 		if !closeTo(f.Value, c.value, 6e-6) || f.DF != c.df || !closeTo(math.Exp(f.LogPUpper), c.p, 2e-3) {
 			t.Errorf("%s_%d = %.3f on %g df (p %.3f), want %.3f on %g (p %.3f)", c.stat, c.k, f.Value, f.DF, math.Exp(f.LogPUpper), c.value, c.df, c.p)
 		}
@@ -225,7 +225,7 @@ func TestDegreesOfFreedomBySimulation(t *testing.T) {
 			var r Result
 			check.Run(in, &r)
 			for _, f := range r.Findings {
-				sum[key{f.Statistic, f.Params["k"]}] += f.Value
+				sum[key{string(f.Statistic), f.Params["k"]}] += f.Value
 			}
 		}
 		for k, df := range want {

@@ -40,7 +40,7 @@ func (maxrunCheck) Needs(s Setting) Needs {
 
 func (maxrunCheck) Run(in Input, out *Result) {
 	t := in.Tally
-	add := func(stat string, params map[string]int, class int, l int64) {
+	add := func(stat Statistic, params map[string]int, class int, l int64) {
 		up, lo, approx := stats.LongestRunLogTails(t.N, in.Null.P, class, l)
 		f := Finding{Check: "maxrun", Statistic: stat, Params: params, Value: float64(l)}
 		f.setDiscrete(up, lo, atomFromTails(up, lo))
