@@ -409,13 +409,9 @@ func formatLogP(l float64) string {
 	return strconv.FormatFloat(math.Exp(l), 'g', 3, 64)
 }
 
+// unitName is the unit the run counts its input in: bytes of a raw or bit
+// stream, digits of text.
 func (w *watchRun) unitName() string {
-	switch w.lanes[0].format {
-	case "bits", "bit pairs", "nibbles", "bytes", "words":
-		if len(w.lanes) > 1 {
-			return "B"
-		}
-	}
 	switch w.src.Format {
 	case "raw":
 		return "B"

@@ -62,13 +62,7 @@ func TestMergeEqualsWhole(t *testing.T) {
 			p.Add(d[cuts[i-1]:cuts[i]])
 			parts = append(parts, p)
 		}
-		left := parts[0]
-		for _, p := range parts[1:] {
-			var err error
-			if left, err = Merge(left, p); err != nil {
-				t.Fatal(err)
-			}
-		}
+		left := mergeLeft(t, parts)
 		if !same(left, whole) {
 			t.Fatalf("trial %d (base %d, K %d, n %d, cuts %v): left-fold merge differs from the whole", trial, base, K, n, cuts)
 		}
@@ -122,6 +116,19 @@ func TestMergeEqualsWhole(t *testing.T) {
 			t.Fatalf("trial %d: incremental Add differs from one Add", trial)
 		}
 	}
+}
+
+// mergeLeft merges the parts left to right.
+func mergeLeft(t *testing.T, parts []*Tally) *Tally {
+	t.Helper()
+	left := parts[0]
+	for _, p := range parts[1:] {
+		var err error
+		if left, err = Merge(left, p); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return left
 }
 
 func mergeTree(t *testing.T, parts []*Tally) *Tally {

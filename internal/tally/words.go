@@ -204,7 +204,6 @@ type Words struct {
 	Tail   []byte
 
 	bufStart int64 // global position of Tail[0] during the pass
-	headDone bool  // the pass has met an item boundary
 	wbuf     []uint64
 	seen     []uint64 // wordcoll's open-addressing table, reused
 }
@@ -234,7 +233,6 @@ func (r *Words) add(d []byte, pos int64) {
 			}
 			pos += n * ib
 			d = d[n*ib:]
-			r.headDone = true
 			continue
 		}
 		if len(r.Tail) == 0 {
@@ -249,14 +247,11 @@ func (r *Words) add(d []byte, pos int64) {
 			if pos+take == end {
 				if r.bufStart%ib == 0 {
 					r.item(r.Tail, r.bufStart/ib)
-				} else if !r.headDone {
+				} else { // only the stretch's first item can start before it
 					r.Head = slices.Clone(r.Tail)
 				}
 				r.Tail = r.Tail[:0]
 			}
-		}
-		if pos+take == end {
-			r.headDone = true
 		}
 		pos += take
 		d = d[take:]
@@ -301,7 +296,6 @@ func (r *Words) merge(nx record, sm *seam) {
 		r.Head = joined
 		r.Tail = slices.Clone(next.Tail)
 	}
-	r.headDone = r.headDone || bBound
 	r.bufStart = tailStart
 	if bBound {
 		r.bufStart = (b.Offset + b.N) / ib * ib

@@ -66,13 +66,7 @@ func TestWordRecordsMergeExactly(t *testing.T) {
 			}
 			parts = append(parts, p)
 		}
-		left := parts[0]
-		for _, p := range parts[1:] {
-			var err error
-			if left, err = Merge(left, p); err != nil {
-				t.Fatal(err)
-			}
-		}
+		left := mergeLeft(t, parts)
 		if !same(left, whole) {
 			t.Fatalf("trial %d (W %d, n %d, %d parts): the merge differs from the whole", trial, W, n, len(parts))
 		}
