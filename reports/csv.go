@@ -82,7 +82,7 @@ func CSV(w io.Writer, doc Document) error {
 			fmt.Fprintf(w, "# %s %s: %s\n", r.Source.Name, p[0], p[1])
 		}
 		for _, n := range r.Notes {
-			fmt.Fprintf(w, "# %s note: %s\n", r.Source.Name, strings.ReplaceAll(n, "\n", " "))
+			fmt.Fprintf(w, "# %s note: %s\n", r.Source.Name, strings.ReplaceAll(n.Text, "\n", " "))
 		}
 	}
 	fmt.Fprintf(w, "# %s\n", Caution)
@@ -98,7 +98,7 @@ func CSV(w io.Writer, doc Document) error {
 				fullLog10(f.LogPUpper), fullLog10(f.LogPLower),
 				full(math.Exp(f.LogAdjUpper)), full(math.Exp(f.LogAdjLower)), fullLog10(f.LogAdjUpper), fullLog10(f.LogAdjLower),
 				full(math.Exp(f.LogHolmUpper)), full(math.Exp(f.LogHolmLower)), full(math.Exp(f.LogBHUpper)), full(math.Exp(f.LogBHLower)),
-				string(f.Mark), strings.Join(f.Notes, "; ")}
+				string(f.Mark), strings.Join(checks.NoteTexts(f.Notes), "; ")}
 			if err := cw.Write(row); err != nil {
 				return err
 			}

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 type htmlAudit struct {
@@ -153,7 +154,7 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 func htmlAuditOf(doc Document, r *audit.Result) (htmlAudit, error) {
 	a := htmlAudit{Title: "borel audit of " + seqName(r) + " in base " + itoa(r.Base), Verdict: string(r.Verdict),
 		VerdictClass: strings.ReplaceAll(string(r.Verdict), " ", "-"), Reason: verdictReason(r), Provenance: provenance(doc, r),
-		AuditNotes: r.Notes}
+		AuditNotes: checks.NoteTexts(r.Notes)}
 	a.Header, a.Rows, a.Notes = findingTable(r)
 	for _, s := range r.Skips {
 		a.Skips = append(a.Skips, s.Check+" "+formatParams(s.Params)+": "+s.Reason)

@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 )
 
 // SchemaName and SchemaVersion identify the JSON document. The version goes
@@ -264,7 +265,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 		Segments: r.Segments, Seed: r.Seed,
 		Base: r.Base, Digits: r.Digits, Null: JSONNull{Kind: r.Null.Kind.String(), P: slices.Clone(r.Null.P)},
 		Alpha: r.Alpha, Adjustment: string(r.Adjustment), MaxBlock: r.MaxBlock, BlockChoice: r.BlockChoice,
-		Verdict: string(r.Verdict), Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: nonNil(r.Notes),
+		Verdict: string(r.Verdict), Findings: []JSONFinding{}, Skipped: []JSONSkip{}, Notes: checks.NoteTexts(r.Notes),
 		Plots: plotData(r),
 	}
 	if r.Source.Bytes >= 0 {
@@ -279,7 +280,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 			AdjPUpper: math.Exp(f.LogAdjUpper), AdjPLower: math.Exp(f.LogAdjLower),
 			Log10AdjPUpper: log10(f.LogAdjUpper), Log10AdjPLower: log10(f.LogAdjLower),
 			Holm: tails(f.LogHolmUpper, f.LogHolmLower), BH: tails(f.LogBHUpper, f.LogBHLower),
-			Mark: string(f.Mark), Where: f.Where, WhereHow: f.WhereHow, Detail: f.Detail, Notes: nonNil(f.Notes),
+			Mark: string(f.Mark), Where: f.Where, WhereHow: f.WhereHow, Detail: f.Detail, Notes: checks.NoteTexts(f.Notes),
 		})
 	}
 	for _, s := range r.Skips {

@@ -179,7 +179,7 @@ func texFindings(w io.Writer, r *audit.Result) {
 		mark := texEscape(string(f.Mark))
 		var refs []string
 		for _, n := range f.Notes {
-			refs = append(refs, strconv.Itoa(number[n]))
+			refs = append(refs, strconv.Itoa(number[n.Text]))
 		}
 		if len(refs) > 0 {
 			mark += "$^{" + strings.Join(refs, ",") + "}$"

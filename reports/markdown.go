@@ -18,14 +18,14 @@ func findingTable(r *audit.Result) (header []string, rows [][]string, notes []st
 	for _, f := range r.Findings {
 		ref := ""
 		for _, n := range f.Notes {
-			if number[n] == 0 {
-				notes = append(notes, n)
-				number[n] = len(notes)
+			if number[n.Text] == 0 {
+				notes = append(notes, n.Text)
+				number[n.Text] = len(notes)
 			}
 			if ref != "" {
 				ref += ","
 			}
-			ref += fmt.Sprintf("[%d]", number[n])
+			ref += fmt.Sprintf("[%d]", number[n.Text])
 		}
 		rows = append(rows, []string{f.Check, statisticName(string(f.Statistic)), findingParams(f.Finding),
 			formatStat(f.Value), formatDF(f.DF), formatP(f.LogPUpper), formatP(f.LogPLower),
@@ -131,7 +131,7 @@ func Markdown(w io.Writer, doc Document) error {
 		if len(r.Notes) > 0 {
 			fmt.Fprintln(bw, "\nNotes:")
 			for _, n := range r.Notes {
-				fmt.Fprintf(bw, "- %s\n", mdCell(n))
+				fmt.Fprintf(bw, "- %s\n", mdCell(n.Text))
 			}
 		}
 		fmt.Fprintln(bw)

@@ -123,7 +123,7 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		fmt.Fprintln(w)
 		fmt.Fprintln(w, "Notes:")
 		for _, n := range r.Notes {
-			hanging(w, m, "  - ", n)
+			hanging(w, m, "  - ", n.Text)
 		}
 	}
 	fmt.Fprintln(w)

@@ -81,7 +81,7 @@ func powerNotes(results []*audit.Result) {
 		for i, b := range g {
 			list[i] = strconv.Itoa(b)
 		}
-		r.Notes = append(r.Notes, fmt.Sprintf("bases %s are powers of %d: normality in one is normality in all (Schmidt 1960), so their verdicts are one piece of evidence, not %d",
+		r.Notes = append(r.Notes, checks.Notef(checks.NotePowerBases, "bases %s are powers of %d: normality in one is normality in all (Schmidt 1960), so their verdicts are one piece of evidence, not %d",
 			strings.Join(list, ", "), perfectRoot(r.Base), len(g)))
 	}
 }

@@ -19,6 +19,7 @@ import (
 	"github.com/borel-audit/borel/internal/tally"
 	"github.com/borel-audit/borel/reports"
 	"github.com/borel-audit/borel/stats/audit"
+	"github.com/borel-audit/borel/stats/checks"
 	"github.com/borel-audit/borel/stats/seq"
 )
 
@@ -287,12 +288,12 @@ func (w *watchRun) checkpoint(why string) (stop bool, err error) {
 		if err != nil {
 			return true, err
 		}
-		res.Notes = append(res.Notes, fmt.Sprintf("live audit (borel watch): checkpoint %d at %s of input, judged at alpha/2^%d = %.3g so that all checkpoints together keep the false-alarm rate at %g", w.index, w.units(w.read), w.index+1, level, w.alpha))
+		res.Notes = append(res.Notes, checks.Notef(checks.NoteLive, "live audit (borel watch): checkpoint %d at %s of input, judged at alpha/2^%d = %.3g so that all checkpoints together keep the false-alarm rate at %g", w.index, w.units(w.read), w.index+1, level, w.alpha))
 		if w.readAtStart > 0 {
-			res.Notes = append(res.Notes, fmt.Sprintf("resumed from a saved tally of %s; the SHA-256 covers the input read since", w.units(w.readAtStart)))
+			res.Notes = append(res.Notes, checks.Notef(checks.NoteResumed, "resumed from a saved tally of %s; the SHA-256 covers the input read since", w.units(w.readAtStart)))
 		}
 		if why == "interrupted" {
-			res.Notes = append(res.Notes, "interrupted by a signal: this report covers what was read up to the last complete chunk")
+			res.Notes = append(res.Notes, audit.Note{Kind: checks.NoteInterrupted, Text: "interrupted by a signal: this report covers what was read up to the last complete chunk"})
 		}
 		results = append(results, res)
 	}

@@ -382,7 +382,7 @@ func TestMissingTopDigitsNote(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		return strings.Join(r.Notes, "\n")
+		return strings.Join(checks.NoteTexts(r.Notes), "\n")
 	}
 	if n := notes(seven); !strings.Contains(n, "digits 7 to 9 never occur") || !strings.Contains(n, "may be in base 7 (audit it with Base 7)") || strings.Contains(n, "construction") {
 		t.Errorf("base-7 digits read as base 10: notes %q", n)
@@ -418,7 +418,7 @@ func TestFindingsSayWhere(t *testing.T) {
 	}
 	seen := false
 	for _, f := range r.Findings {
-		note := strings.Join(f.Notes, " ")
+		note := strings.Join(checks.NoteTexts(f.Notes), " ")
 		if f.Check == "freq" && f.Statistic == "X2" {
 			seen = true
 			if f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "byte 0x00: +") || !strings.Contains(note, "largest deviations (O − E)/√E: byte 0x00: +") {
@@ -447,7 +447,7 @@ func TestFindingsSayWhere(t *testing.T) {
 	}
 	// Gap's classes of bytes are explained: in the notes, and in each
 	// class finding's detail.
-	if n := strings.Join(r.Notes, " "); !strings.Contains(n, "class 0 is 0x00–0x0f") {
+	if n := strings.Join(checks.NoteTexts(r.Notes), " "); !strings.Contains(n, "class 0 is 0x00–0x0f") {
 		t.Errorf("no note on gap's classes: %q", n)
 	}
 	for _, f := range r.Findings {
@@ -509,7 +509,7 @@ func TestLagsAndSegmentsSayWhere(t *testing.T) {
 	}
 	for _, f := range r.Findings {
 		if f.Check == "lagcorr" && f.Statistic == "Q" {
-			if note := strings.Join(f.Notes, " "); f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "lag 1: +") ||
+			if note := strings.Join(checks.NoteTexts(f.Notes), " "); f.Mark != MarkDeviates || !strings.HasPrefix(f.Where, "lag 1: +") ||
 				!strings.Contains(note, "largest deviations (z of each lag's correlation): lag 1: +") {
 				t.Errorf("lagcorr Q: mark %q, where %q, notes %q", f.Mark, f.Where, note)
 			}

@@ -46,7 +46,7 @@ type Result struct {
 	Skips       []checks.Skip
 	Entropy     *checks.EntropyProfile
 	Verdict     Verdict
-	Notes       []string
+	Notes       []Note
 
 	Segments       int                // second level: number of segments (0: none)
 	Seed           uint64             // seed of the randomized p-values
@@ -153,7 +153,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		res.Skips = append(res.Skips, checks.Skip{Check: "all checks",
 			Reason: "the fitted vector gives one digit all the probability: an i.i.d. model fits a constant sequence exactly, so nothing can be tested; audit against " + opts.name(OptNull) + " uniform or a vector"})
 		res.Findings, res.Verdict = []Finding{}, Untested
-		res.Notes = append(res.Notes, "the sequence uses a single digit")
+		res.Notes = append(res.Notes, Note{Kind: checks.NoteSingleDigit, Text: "the sequence uses a single digit"})
 		return res, nil
 	}
 	K := p.Spec.MaxBlock
@@ -161,10 +161,10 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	if p.Auto {
 		switch {
 		case valid > K && src.Bytes < 0:
-			res.Notes = append(res.Notes, fmt.Sprintf("the input length was not known before reading (stdin or compressed), so blocks were tallied up to k=%d; k=%d would be valid for %d digits: audit a file, or set %s %d",
+			res.Notes = append(res.Notes, checks.Notef(checks.NoteBlockLimit, "the input length was not known before reading (stdin or compressed), so blocks were tallied up to k=%d; k=%d would be valid for %d digits: audit a file, or set %s %d",
 				K, valid, t.N, opts.name(OptMaxBlock), valid))
 		case valid > K:
-			res.Notes = append(res.Notes, fmt.Sprintf("blocks stop at k=%d because of the memory budget (%s); k=%d would be valid for %d digits", K, opts.name(OptMemory), valid, t.N))
+			res.Notes = append(res.Notes, checks.Notef(checks.NoteBlockLimit, "blocks stop at k=%d because of the memory budget (%s); k=%d would be valid for %d digits", K, opts.name(OptMemory), valid, t.N))
 		}
 		K = max(1, min(K, valid))
 		res.BlockChoice = fmt.Sprintf("largest k with every expected count n·min p(w) at least %g (rule of thumb), within the memory budget", opts.MinExpected)
@@ -175,7 +175,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	} else {
 		res.BlockChoice = "set by " + opts.name(OptMaxBlock)
 		if valid < K {
-			res.Notes = append(res.Notes, fmt.Sprintf("%s %d is beyond the rule of thumb (k ≤ %d for %d digits): expect notes on sparse cells", opts.name(OptMaxBlock), K, valid, t.N))
+			res.Notes = append(res.Notes, checks.Notef(checks.NoteBlockBeyondRule, "%s %d is beyond the rule of thumb (k ≤ %d for %d digits): expect notes on sparse cells", opts.name(OptMaxBlock), K, valid, t.N))
 		}
 	}
 	if t.N < int64(K) {
@@ -190,7 +190,7 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 		Opts: checks.Options{MinExpected: opts.MinExpected, Confidence: 1 - opts.Alpha, OptionName: opts.OptionName}}
 	out := runChecks(in, opts)
 	if len(opts.Checks) > 0 {
-		res.Notes = append(res.Notes, "checks run ("+opts.name(OptChecks)+"): "+strings.Join(opts.Checks, ", "))
+		res.Notes = append(res.Notes, Note{Kind: checks.NoteChecksSubset, Text: "checks run (" + opts.name(OptChecks) + "): " + strings.Join(opts.Checks, ", ")})
 	}
 	if p.seg != nil {
 		if t.N/int64(opts.Segments) < MinSegmentDigits {
@@ -217,13 +217,13 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 			// stay uniform; only the lengths differ.
 			size = fmt.Sprintf("of %d to %d digits", shortest, longest)
 		}
-		res.Notes = append(res.Notes, fmt.Sprintf("second level: %d segments %s; discrete statistics enter with randomized p-values (seed %d)",
+		res.Notes = append(res.Notes, checks.Notef(checks.NoteSecondLevel, "second level: %d segments %s; discrete statistics enter with randomized p-values (seed %d)",
 			opts.Segments, size, opts.Seed))
 	}
 	res.Skips = out.Skips
 	res.Entropy = out.Entropy
 	if src.IntegerPart != "" {
-		res.Notes = append(res.Notes, fmt.Sprintf("integer part %q dropped: the sequence is the digits after the radix point", src.IntegerPart))
+		res.Notes = append(res.Notes, checks.Notef(checks.NoteIntegerPart, "integer part %q dropped: the sequence is the digits after the radix point", src.IntegerPart))
 	}
 	res.Findings, res.Verdict = adjust(out.Findings, opts)
 	if len(res.Findings) == 0 {
@@ -232,21 +232,21 @@ func (p *Plan) Finish(t *tally.Tally, src Source) (*Result, error) {
 	qqBand(res)
 	for _, f := range res.Findings {
 		if _, ok := f.Params["class"]; ok && f.Check == "gap" {
-			res.Notes = append(res.Notes, gapClassNote(res.Base))
+			res.Notes = append(res.Notes, Note{Kind: checks.NoteGapClasses, Text: gapClassNote(res.Base)})
 			break
 		}
 	}
 	if opts.Word > 0 && res.Base == 256 && opts.Null.Kind != checks.Uniform {
-		res.Notes = append(res.Notes, fmt.Sprintf("the word-level checks test i.i.d. uniform %d-bit words, so under a %s null they do not run", opts.Word, opts.Null.Kind))
+		res.Notes = append(res.Notes, checks.Notef(checks.NoteWordNull, "the word-level checks test i.i.d. uniform %d-bit words, so under a %s null they do not run", opts.Word, opts.Null.Kind))
 	}
 	wrongBase := missingTopDigits(res.DigitCounts, res.Digits, opts)
 	if wrongBase != "" {
-		res.Notes = append(res.Notes, wrongBase)
+		res.Notes = append(res.Notes, Note{Kind: checks.NoteWrongBase, Text: wrongBase})
 	}
 	if res.Verdict == NotConsistent && wrongBase == "" { // digits of a smaller base fit too well in some checks: not construction
 		for _, f := range res.Findings {
 			if f.Mark == MarkTooUniform {
-				res.Notes = append(res.Notes, "some findings are also too uniform: the sequence deviates in some respects and fits better than chance allows in others, which points to construction rather than chance")
+				res.Notes = append(res.Notes, Note{Kind: checks.NoteMixed, Text: "some findings are also too uniform: the sequence deviates in some respects and fits better than chance allows in others, which points to construction rather than chance"})
 				break
 			}
 		}
@@ -279,7 +279,7 @@ func adjust(fs []checks.Finding, opts Options) ([]Finding, Verdict) {
 			a.Mark = MarkDeviates
 			verdict = NotConsistent
 			if a.Where != "" { // say where, in every format's notes
-				a.Notes = append(slices.Clone(a.Notes), a.Finding.WhereNote())
+				a.Notes = append(slices.Clone(a.Notes), Note{Kind: checks.NoteWhere, Text: a.Finding.WhereNote()})
 			}
 		case a.LogAdjLower <= lnAlpha:
 			a.Mark = MarkTooUniform
@@ -328,3 +328,7 @@ func runCheck(c checks.Check, in checks.Input, out *checks.Result) {
 		out.Findings[i] = checks.Clamp(out.Findings[i])
 	}
 }
+
+// Note is a finding's or an audit's note: its kind (checks.NoteKind) and
+// its sentence.
+type Note = checks.Note

@@ -13,13 +13,12 @@ import (
 
 // Plan is what an audit decides before reading: the tally to fill.
 type Plan struct {
-	Spec  tally.Spec
-	Auto  bool
-	Notes []string
-	opts  Options
-	seg   *segmenter
-	t     *tally.Tally
-	run   *tally.Runner
+	Spec tally.Spec
+	Auto bool
+	opts Options
+	seg  *segmenter
+	t    *tally.Tally
+	run  *tally.Runner
 	// OnChunk, when set, is called after each chunk with the digits and
 	// input bytes read so far (for a progress display).
 	OnChunk func(digits, bytes int64)

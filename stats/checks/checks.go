@@ -35,15 +35,15 @@ func (s Statistic) String() string {
 // LogPLower is ln P(T ≤ t) (small when the data fit too well). Both are
 // computed directly, never one from the other.
 type Finding struct {
-	Check     string         // check identifier, e.g. "serial"
-	Statistic Statistic      // statistic identifier, e.g. "X2", "G", "dpsi2", "d2psi2"
-	Params    map[string]int // e.g. {"k": 3} or {"digit": 7}
+	Check     string    // check identifier, e.g. "serial"
+	Statistic Statistic // statistic identifier, e.g. "X2", "G", "dpsi2", "d2psi2"
+	Params    Params    // e.g. {"k": 3} or {"digit": 7}
 	Value     float64
 	DF        float64
 	LogPUpper float64
 	LogPLower float64
-	Detail    string   // information on how the statistic was formed
-	Notes     []string // caveats: validity rules that bite, and how to fix them
+	Detail    string // information on how the statistic was formed
+	Notes     []Note // caveats: validity rules that bite, and how to fix them
 	// TwoSided marks a statistic whose both tails are deviations (a z
 	// score); for the others a small lower tail means "fits too well".
 	TwoSided bool
@@ -169,14 +169,32 @@ func atomFromTails(up, lo float64) float64 {
 // e.g. "serial dpsi2 k=2".
 func (f Finding) Label() string {
 	s := f.Check + " " + string(f.Statistic)
-	for _, k := range ParamNames(f.Params) {
-		s += fmt.Sprintf(" %s=%d", k, f.Params[k])
+	if len(f.Params) > 0 {
+		s += " " + f.Params.String()
 	}
 	return s
 }
 
+// Params are a finding's or a skip's parameters by name. The names in use:
+// k (block length), digit, digits, class, classes, lag, lags, bit, bits,
+// pairs, size, hand and t, each documented with the check that sets it.
+type Params map[string]int
+
+// String writes the parameters in name order, "digit=7 k=3"; empty when
+// there are none.
+func (p Params) String() string {
+	var b strings.Builder
+	for i, k := range ParamNames(p) {
+		if i > 0 {
+			b.WriteByte(' ')
+		}
+		b.WriteString(k + "=" + strconv.Itoa(p[k]))
+	}
+	return b.String()
+}
+
 // ParamNames returns the names of a finding's parameters in sorted order.
-func ParamNames(p map[string]int) []string {
+func ParamNames(p Params) []string {
 	keys := make([]string, 0, len(p))
 	for k := range p {
 		keys = append(keys, k)
@@ -221,15 +239,15 @@ func RandomizedP(f Finding, u float64) stats.LogPPair {
 // Skip records a check, or one parameter of it, that was not run, and why.
 type Skip struct {
 	Check  string
-	Params map[string]int
+	Params Params
 	Reason string
 }
 
 // String writes the skip as the reports list it: "blocks k=5: reason".
 func (s Skip) String() string {
 	label := s.Check
-	for _, k := range ParamNames(s.Params) {
-		label += fmt.Sprintf(" %s=%d", k, s.Params[k])
+	if len(s.Params) > 0 {
+		label += " " + s.Params.String()
 	}
 	return label + ": " + s.Reason
 }

@@ -285,7 +285,7 @@ func (couponCheck) Run(in Input, out *Result) {
 		return fmt.Sprintf("segments of %d–%d digits", d+lo, d+hi)
 	})
 	if in.Null.Kind == Fitted {
-		f.Notes = append(f.Notes, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)")
+		f.Notes = append(f.Notes, Note{NoteFittedNull, "fitted null: df not reduced for the estimated vector; the exact law lies between the reported df and df minus the fitted parameters (Chernoff–Lehmann)"})
 	}
 	out.Findings = append(out.Findings, f)
 }

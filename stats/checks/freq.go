@@ -111,7 +111,7 @@ func (freqCheck) Run(in Input, out *Result) {
 			pcs.add(po[i], pe[i])
 		}
 		pdf := float64(len(po) - 1)
-		note := fmt.Sprintf("digits pooled into %d classes of expected count %g or more (the smallest digit expects %.3g); %d digits test every digit", len(po), in.Opts.MinExpected, cs.minExp, need)
+		note := Notef(NotePooled, "digits pooled into %d classes of expected count %g or more (the smallest digit expects %.3g); %d digits test every digit", len(po), in.Opts.MinExpected, cs.minExp, need)
 		x2 := chiSquareFinding("freq", "X2", params, pcs.x2, pdf, pcs.minExp)
 		x2.Notes = append(x2.Notes, note)
 		g := chiSquareFinding("freq", "G", params, pcs.g, pdf, pcs.minExp)

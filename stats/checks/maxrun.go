@@ -45,7 +45,7 @@ func (maxrunCheck) Run(in Input, out *Result) {
 		f := Finding{Check: "maxrun", Statistic: stat, Params: params, Value: float64(l)}
 		f.setDiscrete(up, lo, atomFromTails(up, lo))
 		if approx {
-			f.Notes = append(f.Notes, "a tail beyond the exact chain uses the Poisson approximation (Erdős–Rényi)")
+			f.Notes = append(f.Notes, Note{NoteApproximation, "a tail beyond the exact chain uses the Poisson approximation (Erdős–Rényi)"})
 		}
 		out.Findings = append(out.Findings, f)
 	}

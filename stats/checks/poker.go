@@ -182,10 +182,10 @@ func (pokerCheck) Run(in Input, out *Result) {
 		for i, l := range lam {
 			ws[i] = fmt.Sprintf("%.3g", l)
 		}
-		f.Notes = append(f.Notes, fmt.Sprintf("fitted null: the vector is estimated from these digits, so X² follows Σ λ_i χ²_1 with λ = (%s) instead of χ² with %d df (Chernoff–Lehmann weights for this vector)",
+		f.Notes = append(f.Notes, Notef(NoteFittedNull, "fitted null: the vector is estimated from these digits, so X² follows Σ λ_i χ²_1 with λ = (%s) instead of χ² with %d df (Chernoff–Lehmann weights for this vector)",
 			strings.Join(ws, ", "), classes-1))
 	default: // a segment against the whole sequence's estimate: a known vector to it
-		f.Notes = append(f.Notes, "fitted null estimated from the whole sequence: within a segment it acts as a known vector")
+		f.Notes = append(f.Notes, Note{NoteFittedNull, "fitted null estimated from the whole sequence: within a segment it acts as a known vector"})
 	}
 	out.Findings = append(out.Findings, f)
 }

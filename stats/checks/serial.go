@@ -100,10 +100,10 @@ func (serialCheck) Run(in Input, out *Result) {
 	fitted := in.Null.Kind == Fitted
 	for k := 2; k <= K; k++ {
 		params := map[string]int{"k": k}
-		var notes []string
+		var notes []Note
 		minExp := float64(n) * math.Pow(in.Null.MinProb(), float64(k))
 		if e := minExp; e < in.Opts.MinExpected {
-			notes = append(notes, fmt.Sprintf("smallest expected count %.3g is below %g: the chi-square law is rough at this k", e, in.Opts.MinExpected))
+			notes = append(notes, Notef(NoteSparse, "smallest expected count %.3g is below %g: the chi-square law is rough at this k", e, in.Opts.MinExpected))
 		}
 		dfD := math.Pow(S, float64(k)) - math.Pow(S, float64(k-1))
 		if fitted {

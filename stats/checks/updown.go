@@ -74,7 +74,7 @@ func (updownCheck) Run(in Input, out *Result) {
 		sq += p * p
 	}
 	if expTies := (mf - 1) * math.Pow(sq, float64(L)); ud.Ties > 0 || expTies > 0.01 {
-		f.Notes = append(f.Notes, fmt.Sprintf("%d ties between consecutive values (%.3g expected under the null); the run law assumes none", ud.Ties, expTies))
+		f.Notes = append(f.Notes, Notef(NoteTies, "%d ties between consecutive values (%.3g expected under the null); the run law assumes none", ud.Ties, expTies))
 	}
 	out.Findings = append(out.Findings, f)
 }
