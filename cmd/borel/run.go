@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"sort"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -50,6 +51,7 @@ func subcommands() []subcommand {
 		{"merge", "join shards in offset order and audit the whole", runMerge},
 		{"watch", "audit a stream that need not end, at checkpoints of doubling length", runWatch},
 		{"compare", "audit several sequences and put them side by side", runCompare},
+		{"verify", "check that a file holds the digits of a constant, at random spots or in full", runVerify},
 		{"dimension", "print the Besicovitch–Eggleston dimension of a frequency vector", runDimension},
 	}
 }
@@ -111,7 +113,12 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			return code
 		}
 	}
-	fmt.Fprintf(stderr, "borel: unknown command %q; the commands are audit, compare, demo, digits, dimension, merge, rebase and tally (borel --help)\n", args[0])
+	var names []string
+	for _, c := range subcommands() {
+		names = append(names, c.name)
+	}
+	sort.Strings(names)
+	fmt.Fprintf(stderr, "borel: unknown command %q; the commands are %s and %s (borel --help)\n", args[0], strings.Join(names[:len(names)-1], ", "), names[len(names)-1])
 	return exitUsage
 }
 

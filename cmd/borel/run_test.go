@@ -224,6 +224,12 @@ func TestHelpExamplesRun(t *testing.T) {
 		gen[i] = byte(cc.Uint32())
 	}
 	os.WriteFile(filepath.Join(tmp, "gen.bin"), gen, 0o644)
+	piSrc, _ := expand.ParseSource("pi")
+	pi16, _, err := piSrc.CheckedDigits(100_000, 0, 16)
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(tmp, "pi16.txt"), formatDigits(pi16, 0), 0o644)
 	claim := regexp.MustCompile(`(?:^Example: |\()(\d[\d ]*\d|\d) (?:[a-z]+ )?digits`)
 	checked := 0
 	for _, c := range subcommands() {
@@ -257,7 +263,7 @@ func TestHelpExamplesRun(t *testing.T) {
 			args := strings.Fields(strings.TrimPrefix(line, "$ borel "))
 			for i, a := range args { // examples name files in the working folder
 				switch a {
-				case "lab.txt", "lab.json", "mt.bin", "gen.bin":
+				case "lab.txt", "lab.json", "mt.bin", "gen.bin", "pi16.txt":
 					args[i] = filepath.Join(tmp, a)
 				case "/tmp/borel-part0.shard":
 					args[i] = filepath.Join(tmp, "part0.shard")

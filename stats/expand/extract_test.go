@@ -44,42 +44,52 @@ func TestExtractionAgainstMpmath(t *testing.T) {
 	}
 }
 
-// The Montgomery lanes against the 128-bit path, at random moduli and
-// exponents across the fast range, its edges included.
-func TestFrac64x4(t *testing.T) {
+// The Montgomery lanes (R = 2^32 and R = 2^64) and the scalar path against
+// math/big: W = 3 words of floor(2^(64W)·frac(2^E/m)) = floor(2^(E+64W)/m)
+// mod 2^(64W), at random odd moduli across each range, its edges included,
+// and at lanes of mixed ranges.
+func TestFracWordsAgainstBig(t *testing.T) {
 	rng := rand.New(rand.NewPCG(21, 1))
-	odd := func() uint64 {
+	in := func(lo, hi uint64) uint64 {
 		switch rng.IntN(4) {
 		case 0:
-			return montMin + 1
+			return lo | 1
 		case 1:
-			return montMax - 1
+			return hi - 1
 		}
-		return (montMin + rng.Uint64N(montMax-montMin)) | 1
+		return (lo + rng.Uint64N(hi-lo-1)) | 1
 	}
-	for range 20000 {
-		var E, m [4]uint64
+	ranges := [][2]uint64{{montMin, montMax}, {mont64Min, mont64Max}, {1, montMin}}
+	const W = 3
+	q := make([]uint64, W)
+	for n := range 6000 {
+		var E, m, r, inv [4]uint64
 		for i := range 4 {
-			E[i], m[i] = rng.Uint64N(1<<uint(1+rng.IntN(40))), odd()
+			rg := ranges[n%3]
+			if n%7 == 6 {
+				rg = ranges[rng.IntN(3)] // mixed lanes
+			}
+			E[i], m[i] = rng.Uint64N(1<<uint(1+rng.IntN(40))), in(rg[0], rg[1])
 		}
-		f0, f1, f2, f3 := frac64x4(E[0], E[1], E[2], E[3], m[0], m[1], m[2], m[3])
-		for i, f := range [4]uint64{f0, f1, f2, f3} {
-			if want := frac64(E[i], m[i]); f != want {
-				t.Fatalf("frac(2^%d/%d): lanes %x, 128-bit %x", E[i], m[i], f, want)
+		pow2Mod4(&E, &m, &r, &inv)
+		for i := range 4 {
+			s := make(wideSum, W)
+			s.addFrac(r[i], inv[i], m[i], false, q)
+			// With 2^E = a·m + b, the words are floor(2^(64W)·b/m).
+			b := new(big.Int).Exp(big.NewInt(2), new(big.Int).SetUint64(E[i]), new(big.Int).SetUint64(m[i]))
+			b.Lsh(b, 64*W)
+			b.Quo(b, new(big.Int).SetUint64(m[i]))
+			got := new(big.Int)
+			for _, w := range s {
+				got.Lsh(got, 64)
+				got.Or(got, new(big.Int).SetUint64(w))
+			}
+			if got.Cmp(b) != 0 {
+				t.Fatalf("frac(2^%d/%d) in %d words: %x, big %x", E[i], m[i], W, got, b)
 			}
 		}
 	}
-	// frac64 against math/big: floor(2^64·frac(2^E/m)) = floor(2^(E+64)/m) mod 2^64.
-	for range 2000 {
-		E, m := rng.Uint64N(3000), 1+rng.Uint64N(1<<uint(1+rng.IntN(62)))
-		q := new(big.Int).Lsh(big.NewInt(1), uint(E+64))
-		q.Quo(q, new(big.Int).SetUint64(m))
-		want := new(big.Int).And(q, mask64).Uint64()
-		if got := frac64(E, m); got != want {
-			t.Fatalf("frac64(%d, %d) = %x, big %x", E, m, got, want)
-		}
-	}
-	if montMax*montMax > 1<<62 || bits.Len64(montMax) != 32 {
-		t.Fatal("the Montgomery range no longer keeps products below 2^62")
+	if montMax*montMax > 1<<62 || bits.Len64(montMax) != 32 || mont64Max > 1<<62 {
+		t.Fatal("the Montgomery ranges no longer keep the sums below 2^64")
 	}
 }
