@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"errors"
 	"io"
+	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -182,9 +183,66 @@ func TestDimensionCommand(t *testing.T) {
 			t.Errorf("%v: exit %d %q %q, want %q", c.args, code, out, errs, c.want)
 		}
 	}
-	for _, bad := range [][]string{{"dimension", "0.5,0.6"}, {"dimension", "1"}, {"dimension", "0.5,0.5", "--base", "1"}, {"dimension"}} {
-		if code, _, _ := borel(t, "", bad...); code != 2 {
-			t.Errorf("%v: exit %d, want 2", bad, code)
+	for _, bad := range [][]string{{"dimension", "0.5,0.6"}, {"dimension", "1"}, {"dimension", "0.5,0.5", "--base", "1"}, {"dimension"},
+		{"dimension", "--only", "0,2"}, {"dimension", "--only", "0,3", "--base", "3"}, {"dimension", "--only", "1,1", "--base", "3"},
+		{"dimension", "0.5,0.5", "--format", "pdf"}} {
+		if code, _, errs := borel(t, "", bad...); code != 2 || strings.Count(errs, "\n") != 1 {
+			t.Errorf("%v: exit %d, want 2 and one line: %q", bad, code, errs)
+		}
+	}
+}
+
+// The spectrum in every format: the check values of stats' tests (mpmath)
+// reach the reports, the restricted-digit set prints log m/log b, and the
+// HTML page and --plots carry the drawing.
+func TestDimensionSpectrumFormats(t *testing.T) {
+	code, out, _ := borel(t, "", "dimension", "0.5,0.3,0.2", "--alpha", "0.9")
+	for _, want := range []string{"α_min = −log_3 max p = 0.630930", "α_max = −log_3 min p = 1.464974", "peak f = 1.000000 at α = 1.063936",
+		"f(α) = α = 0.937231 at q = 1", "f(0.9) = 0.894166 (at q = 1.31661)", "│ 2 │ 0.880733 │ 0.828849 │ 0.776965 │"} {
+		if flat := strings.Join(strings.Fields(out), " "); code != 0 || !strings.Contains(flat, want) {
+			t.Errorf("dimension 0.5,0.3,0.2: no %q in\n%s", want, out)
+		}
+	}
+	_, out, _ = borel(t, "", "dimension", "--only", "0,2", "--base", "3")
+	if out = strings.Join(strings.Fields(out), " "); !strings.Contains(out, "restricted digits {0, 2} in base 3: dimension log 2 / log 3 = 0.630930") || !strings.Contains(out, "the single point α = f(α) = 0.630930") {
+		t.Errorf("Cantor set:\n%s", out)
+	}
+	_, out, _ = borel(t, "", "dimension", "0.5,0.3,0.2", "--alpha", "2")
+	if !strings.Contains(strings.Join(strings.Fields(out), " "), "f(2) = −∞: no number has local dimension 2") {
+		t.Errorf("α outside the spectrum:\n%s", out)
+	}
+	_, out, _ = borel(t, "", "dimension", "0.5,0.3,0.2", "--format", "json", "--alpha", "0.9")
+	var doc struct {
+		Dimension float64 `json:"dimension"`
+		AlphaMin  float64 `json:"alpha_min"`
+		FAsked    float64 `json:"f_at_asked_alpha"`
+		Spectrum  []struct {
+			Q     *float64 `json:"q"`
+			QEnd  string   `json:"q_end"`
+			Alpha float64  `json:"alpha"`
+			F     float64  `json:"f"`
+		} `json:"spectrum"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil || math.Abs(doc.Dimension-0.93723056321612954) > 1e-12 ||
+		math.Abs(doc.FAsked-0.8941663379851626) > 1e-9 || doc.Spectrum[0].QEnd != "-inf" || doc.Spectrum[0].Q != nil {
+		t.Errorf("json: %v %+v", err, doc)
+	}
+	for _, f := range []string{"md", "csv", "tex", "html"} {
+		_, out, _ := borel(t, "", "dimension", "0.5,0.3,0.2", "--format", f)
+		if !strings.Contains(out, "0.776965") {
+			t.Errorf("--format %s lacks the table:\n%s", f, out)
+		}
+		if f == "html" && (!strings.Contains(out, "<svg") || !strings.Contains(out, "Multifractal spectrum")) {
+			t.Errorf("the HTML page has no spectrum drawing")
+		}
+	}
+	dir := filepath.Join(t.TempDir(), "plots")
+	if code, _, errs := borel(t, "", "dimension", "0.5,0.3,0.2", "--plots", dir); code != 0 {
+		t.Fatalf("--plots: %s", errs)
+	}
+	for _, name := range []string{"dimension-spectrum.svg", "dimension-spectrum.png"} {
+		if st, err := os.Stat(filepath.Join(dir, name)); err != nil || st.Size() < 1000 {
+			t.Errorf("--plots: %s missing or empty", name)
 		}
 	}
 }
