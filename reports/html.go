@@ -23,6 +23,10 @@ type htmlAudit struct {
 	EntropyHeader                        []string
 	EntropyRows                          [][]string
 	EntropyNote                          string
+	PositionTitle, PositionCaption       string
+	PositionLines                        []string
+	PositionHeader                       []string
+	PositionRows                         [][]string
 	AuditNotes                           []string
 	Figures                              []htmlFigure
 }
@@ -74,6 +78,11 @@ var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"i
 <table><tr>{{range .EntropyHeader}}<th>{{.}}</th>{{end}}</tr>
 {{range .EntropyRows}}<tr>{{range .}}<td class="n">{{.}}</td>{{end}}</tr>{{end}}</table>
 <p><small>{{.EntropyNote}}</small></p>{{end}}
+{{if .PositionLines}}<p>{{.PositionTitle}}:</p><ul>{{range .PositionLines}}<li>{{.}}</li>{{end}}</ul>
+{{if .PositionRows}}<table><caption style="caption-side: top; text-align: left">{{.PositionCaption}}</caption>
+<tr>{{range .PositionHeader}}<th>{{.}}</th>{{end}}</tr>
+{{range .PositionRows}}<tr>{{range $i, $c := .}}<td{{if or (eq $i 1) (eq $i 3)}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>{{end}}</table>
+{{else if .PositionCaption}}<p>{{.PositionCaption}}.</p>{{end}}{{end}}
 {{if .AuditNotes}}<p>Notes:</p><ul>{{range .AuditNotes}}<li>{{.}}</li>{{end}}</ul>{{end}}
 {{range .Figures}}<figure>{{.SVG}}<figcaption>{{.Title}}</figcaption></figure>
 {{end}}
@@ -161,7 +170,10 @@ func htmlAuditOf(doc Document, r *audit.Result) (htmlAudit, error) {
 	}
 	a.EntropyHeader, a.EntropyRows = entropyTable(r)
 	if r.Entropy != nil {
-		a.EntropyNote = "dimension = entropy rate / ln " + itoa(r.Base) + "; the null's Besicovitch–Eggleston dimension is " + formatDim(r.Entropy.NullDimension) + "."
+		a.EntropyNote = "dimension = entropy rate / ln " + itoa(r.Base) + "; the null's Besicovitch–Eggleston dimension is " + formatDim(r.Entropy.NullDimension) +
+			"; the last column is the likelihood-ratio test of a Markov chain of order k-2 against k-1 (Anderson & Goodman 1957)."
+		a.PositionTitle, a.PositionLines = positionTitle(r), positionLines(r)
+		a.PositionHeader, a.PositionRows, a.PositionCaption = positionTable(r)
 	}
 	figs, err := Figures(r)
 	if err != nil {

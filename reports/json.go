@@ -141,6 +141,28 @@ type JSONEntropy struct {
 	Confidence    float64          `json:"confidence"`
 	NullDimension float64          `json:"null_dimension"`
 	Rows          []JSONEntropyRow `json:"rows"`
+	Position      *JSONPosition    `json:"position,omitempty"`
+}
+
+// JSONPosition is where the sequence sits among the sets F(q): the digit
+// frequencies q_hat with the simultaneous intervals q_low, q_high of the
+// Pearson region n·Σ(q̂_j − q_j)²/q_j ≤ region_a (Quesenberry–Hurst, at the
+// profile's confidence), whether the null's vector lies in the region, the
+// dimension of F(q̂) with its interval, and under a stated vector the local
+// dimension alpha of μ_p along the sequence with its interval (absent
+// otherwise).
+type JSONPosition struct {
+	QHat       []float64 `json:"q_hat"`
+	QLow       []float64 `json:"q_low"`
+	QHigh      []float64 `json:"q_high"`
+	RegionA    float64   `json:"region_a"`
+	NullInside bool      `json:"null_inside"`
+	Dimension  float64   `json:"dimension"`
+	DimLow     *float64  `json:"dimension_low"`
+	DimHigh    *float64  `json:"dimension_high"`
+	Alpha      *float64  `json:"alpha,omitempty"`
+	AlphaLow   *float64  `json:"alpha_low,omitempty"`
+	AlphaHigh  *float64  `json:"alpha_high,omitempty"`
 }
 
 // JSONEntropyRow is one block length of the entropy profile (nats).
@@ -153,6 +175,10 @@ type JSONEntropyRow struct {
 	DimLow      *float64 `json:"dimension_low"`
 	DimHigh     *float64 `json:"dimension_high"`
 	Deficit     float64  `json:"deficit"`
+	// The likelihood-ratio test of Markov order k−2 against k−1 (null at k = 1).
+	OrderG      *float64 `json:"order_g"`
+	OrderDF     *float64 `json:"order_df"`
+	OrderLog10P *float64 `json:"order_log10_p"`
 }
 
 // JSONPlotData is the data behind every plot of the report, so that a
@@ -291,7 +317,16 @@ func jsonAudit(r *audit.Result) JSONAudit {
 		for _, row := range e.Rows {
 			je.Rows = append(je.Rows, JSONEntropyRow{K: row.K, PlugIn: row.PlugIn, MillerMadow: row.MillerMadow,
 				Conditional: row.Conditional, Dimension: row.Dimension, DimLow: finite(row.DimLow),
-				DimHigh: finite(row.DimHigh), Deficit: row.Deficit})
+				DimHigh: finite(row.DimHigh), Deficit: row.Deficit,
+				OrderG: finite(row.OrderG), OrderDF: finite(row.OrderDF), OrderLog10P: finite(row.OrderLogP / math.Ln10)})
+		}
+		if p := e.Position; p != nil {
+			jp := &JSONPosition{QHat: p.Region.QHat, QLow: p.Region.Low, QHigh: p.Region.High, RegionA: p.Region.A,
+				NullInside: p.NullInside, Dimension: p.Dimension, DimLow: finite(p.DimLow), DimHigh: finite(p.DimHigh)}
+			if p.HasAlpha {
+				jp.Alpha, jp.AlphaLow, jp.AlphaHigh = finite(p.Alpha), finite(p.AlphaLow), finite(p.AlphaHigh)
+			}
+			je.Position = jp
 		}
 		a.Entropy = je
 	}

@@ -140,8 +140,46 @@ func LaTeX(w io.Writer, doc Document) error {
 			fmt.Fprintf(bw, "%% %s: %s\n", p[0], strings.ReplaceAll(p[1], "\n", " "))
 		}
 		texFindings(bw, r)
+		texPosition(bw, r)
 	}
 	return bw.Flush()
+}
+
+// texPosition writes where the sequence sits: the sentences as a list and
+// the frequency table (with its caption) as a tabular below them.
+func texPosition(w io.Writer, r *audit.Result) {
+	lines := positionLines(r)
+	if len(lines) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "\\begingroup\\footnotesize\n\\paragraph{%s.}\n\\begin{itemize}\\setlength{\\itemsep}{0pt}\n", texEscape(positionTitle(r)))
+	for _, l := range lines {
+		fmt.Fprintf(w, "\\item %s\n", texEscape(l))
+	}
+	fmt.Fprintln(w, `\end{itemize}`)
+	header, rows, caption := positionTable(r)
+	if len(rows) == 0 {
+		if caption != "" {
+			fmt.Fprintf(w, "%s.\n", texEscape(caption))
+		}
+		fmt.Fprintln(w, `\endgroup`)
+		return
+	}
+	fmt.Fprintf(w, "%s:\\\\[0.3em]\n\\begin{tabular}{@{}lrlr@{}}\n\\toprule\n", texEscape(caption))
+	esc := func(r []string) string {
+		out := make([]string, len(r))
+		for i, c := range r {
+			out[i] = texEscape(c)
+		}
+		return strings.Join(out, " & ")
+	}
+	fmt.Fprintf(w, "%s \\\\\n\\midrule\n", esc(header))
+	for _, row := range rows {
+		fmt.Fprintf(w, "%s \\\\\n", esc(row))
+	}
+	fmt.Fprintln(w, `\bottomrule`)
+	fmt.Fprintln(w, `\end{tabular}`)
+	fmt.Fprintln(w, `\endgroup`)
 }
 
 // texFindingsHead is the findings table's header (repeated on each page).

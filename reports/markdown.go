@@ -36,7 +36,7 @@ func findingTable(r *audit.Result) (header []string, rows [][]string, notes []st
 
 // entropyTable returns the rows of the entropy profile.
 func entropyTable(r *audit.Result) (header []string, rows [][]string) {
-	header = []string{"k", "H_k plug-in", "H_k Miller–Madow", "h given k-1 digits", "dimension", "interval", "deficit"}
+	header = []string{"k", "H_k plug-in", "H_k Miller–Madow", "h given k-1 digits", "dimension", "interval", "deficit", "order k-1 vs k-2: p"}
 	if r.Entropy == nil {
 		return header, nil
 	}
@@ -46,7 +46,7 @@ func entropyTable(r *audit.Result) (header []string, rows [][]string) {
 			interval = fmt.Sprintf("[%s, %s]", formatDim(row.DimLow), formatDim(row.DimHigh))
 		}
 		rows = append(rows, []string{fmt.Sprint(row.K), formatFixed(row.PlugIn), formatFixed(row.MillerMadow),
-			formatFixed(row.Conditional), formatDim(row.Dimension), interval, formatDeficit(row.Deficit)})
+			formatFixed(row.Conditional), formatDim(row.Dimension), interval, formatDeficit(row.Deficit), orderCell(row)})
 	}
 	return header, rows
 }
@@ -126,7 +126,20 @@ func Markdown(w io.Writer, doc Document) error {
 		}
 		if eh, erows := entropyTable(r); len(erows) > 0 {
 			fmt.Fprintf(bw, "\nEntropy profile (nats; dimension = entropy rate / ln %d, %g%% interval):\n\n", r.Base, 100*r.Entropy.Confidence)
-			mdTable(bw, eh, erows, []bool{true, true, true, true, true, false, true})
+			mdTable(bw, eh, erows, entropyAlign)
+			fmt.Fprintf(bw, "\n%s (the last column: the likelihood-ratio test of a Markov chain of order k-2 against k-1, Anderson & Goodman 1957).\n", entropyNote(r))
+		}
+		if lines := positionLines(r); len(lines) > 0 {
+			fmt.Fprintf(bw, "\n%s:\n\n", positionTitle(r))
+			for _, l := range lines {
+				fmt.Fprintf(bw, "- %s\n", mdCell(l))
+			}
+			if ph, prows, cap := positionTable(r); len(prows) > 0 {
+				fmt.Fprintf(bw, "\n%s:\n\n", cap)
+				mdTable(bw, ph, prows, []bool{false, true, false, true})
+			} else if cap != "" {
+				fmt.Fprintf(bw, "\n%s.\n", cap)
+			}
 		}
 		if len(r.Notes) > 0 {
 			fmt.Fprintln(bw, "\nNotes:")

@@ -108,14 +108,25 @@ func textResult(w io.Writer, doc Document, r *audit.Result) error {
 		fmt.Fprintln(w)
 		hanging(w, m, "", fmt.Sprintf("Entropy profile (nats; dimension = entropy rate / ln %d, with a %g%% interval)", r.Base, 100*e.Confidence))
 		eh, erows := entropyTable(r)
-		if err := writeFitted(w, doc.Width, textTable{header: eh, rows: erows, right: []bool{true, true, true, true, true, false, true},
+		if err := writeFitted(w, doc.Width, textTable{header: eh, rows: erows, right: entropyAlign,
 			key: 1}); err != nil {
 			return err
 		}
-		if r.Null.Kind == checks.Uniform {
-			fmt.Fprintf(w, "  full dimension is 1 (ln %d = %s nats per digit).\n", r.Base, formatFixed(math.Log(float64(r.Base))))
-		} else {
-			fmt.Fprintf(w, "  the null's Besicovitch–Eggleston dimension H(p)/ln %d = %s.\n", r.Base, formatDim(e.NullDimension))
+		hanging(w, m, "  ", entropyNote(r)+"; the last column is the likelihood-ratio test of a Markov chain of order k-2 against k-1 (Anderson & Goodman 1957).")
+		if lines := positionLines(r); len(lines) > 0 {
+			fmt.Fprintln(w)
+			hanging(w, m, "", positionTitle(r))
+			for _, l := range lines {
+				hangingPad(w, m, "  - ", "    ", l)
+			}
+			if ph, prows, cap := positionTable(r); len(prows) > 0 {
+				hanging(w, m, "  ", cap+":")
+				if err := writeFitted(w, doc.Width, textTable{header: ph, rows: prows, right: []bool{false, true, false, true}, key: 1}); err != nil {
+					return err
+				}
+			} else if cap != "" {
+				hanging(w, m, "  ", cap+".")
+			}
 		}
 	}
 

@@ -351,3 +351,75 @@ func TestCouponCDFGrouped(t *testing.T) {
 		t.Errorf("distinct probabilities give %d terms, want the 8 subsets", len(base))
 	}
 }
+
+// Calibration of the Markov order test: for seeded i.i.d. digits its
+// p-values are uniform at every order, thin contexts included (base 4,
+// n = 6000, k = 5: about 23 windows per context; base 2, n = 4000, k = 9),
+// so the rate at or below 0.05 stays near 5% and the p-values' mean near
+// 1/2; and it detects a Markov chain of order 1 at order 1 (k = 2) but
+// not at order 2 against 1 (k = 3), where the chain has nothing more.
+func TestMarkovOrderCalibration(t *testing.T) {
+	for _, c := range []struct{ base, n, K int }{{4, 6000, 5}, {2, 4000, 9}, {10, 20000, 3}} {
+		rng := rand.New(rand.NewPCG(uint64(c.base), 77))
+		const reps = 400
+		small := make([]int, c.K+1)
+		sum := make([]float64, c.K+1)
+		for range reps {
+			d := make([]byte, c.n)
+			for i := range d {
+				d[i] = byte(rng.IntN(c.base))
+			}
+			in := input(t, d, c.base, c.K, UniformNull(c.base))
+			var r Result
+			entropyCheck{}.Run(in, &r)
+			for _, row := range r.Entropy.Rows[1:] {
+				p := math.Exp(row.OrderLogP)
+				sum[row.K] += p
+				if p <= 0.05 {
+					small[row.K]++
+				}
+			}
+		}
+		for k := 2; k <= c.K; k++ {
+			// Binomial(400, 0.05): mean 20, sd 4.4; the mean of 400 uniforms: sd 0.0144.
+			if small[k] > 36 || small[k] < 6 || math.Abs(sum[k]/reps-0.5) > 0.05 {
+				t.Errorf("base %d, k=%d: %d of %d p-values at or below 0.05, mean %.3f", c.base, k, small[k], reps, sum[k]/reps)
+			}
+		}
+	}
+	// A sticky chain: the next digit repeats the last with probability 0.3 + 0.7/4.
+	rng := rand.New(rand.NewPCG(5, 6))
+	d := make([]byte, 20000)
+	for i := 1; i < len(d); i++ {
+		if rng.Float64() < 0.3 {
+			d[i] = d[i-1]
+		} else {
+			d[i] = byte(rng.IntN(4))
+		}
+	}
+	in := input(t, d, 4, 4, UniformNull(4))
+	var r Result
+	entropyCheck{}.Run(in, &r)
+	if lp := r.Entropy.Rows[1].OrderLogP; lp > math.Log(1e-10) {
+		t.Errorf("order 1 against 0: ln p = %g for a sticky chain", lp)
+	}
+	if lp := r.Entropy.Rows[2].OrderLogP; lp < math.Log(1e-3) {
+		t.Errorf("order 2 against 1: ln p = %g for a chain of order 1", lp)
+	}
+}
+
+// exactMeanQ is the same from call to call (it once summed in a map's
+// order, and reports differed in their last digits from run to run).
+func TestExactMeanQDeterministic(t *testing.T) {
+	ctx := make([]int64, 5000)
+	for i := range ctx {
+		ctx[i] = int64(1 + i*7919%300)
+	}
+	p := []float64{0.2, 0.3, 0.5}
+	want := exactMeanQ(p, ctx, 1000)
+	for range 30 {
+		if got := exactMeanQ(p, ctx, 1000); got != want {
+			t.Fatalf("exactMeanQ: %v then %v", want, got)
+		}
+	}
+}
