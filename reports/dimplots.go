@@ -18,6 +18,9 @@ type SpectrumMark struct {
 	Label         string
 	Alpha, Lo, Hi float64
 	HasInterval   bool
+	// Dim, with HasDim, also places the point (α̂, dim F(q̂)).
+	Dim    float64
+	HasDim bool
 }
 
 // spectrumCurve samples (α(q), f(α(q))) densely along the curve: q =
@@ -91,12 +94,21 @@ func SpectrumFigure(s *stats.Spectrum, name string, marks ...SpectrumMark) (Figu
 			if err != nil {
 				return Figure{}, err
 			}
-			band.Color = color.RGBA{180, 60, 0, 40}
+			band.Color = color.NRGBA{180, 60, 0, 50}
 			band.LineStyle.Width = 0
 			p.Add(band)
 			label += fmt.Sprintf(" [%.4f, %.4f]", m.Lo, m.Hi)
 		}
 		p.Legend.Add(label, v)
+		if m.HasDim {
+			pt, err := plotter.NewScatter(plotter.XYs{{X: m.Alpha, Y: m.Dim}})
+			if err != nil {
+				return Figure{}, err
+			}
+			pt.GlyphStyle = draw.GlyphStyle{Color: color.RGBA{180, 60, 0, 255}, Radius: vg.Points(4), Shape: draw.TriangleGlyph{}}
+			p.Add(pt)
+			p.Legend.Add(fmt.Sprintf("%s at (α̂, dim F(q̂)) = (%.4f, %.4f)", m.Label, m.Alpha, m.Dim), pt)
+		}
 	}
 	p.X.Min, p.X.Max = lo, hi
 	p.Y.Min, p.Y.Max = 0, 1.05*math.Max(s.Peak, 0.05)

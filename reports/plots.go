@@ -207,6 +207,7 @@ func newPlot(title, x, y string) *plot.Plot {
 	p.X.Label.Text = x
 	p.Y.Label.Text = y
 	p.Legend.Top = true
+	p.Legend.Padding = vg.Points(1.5) // room between entries: hats and subscripts touched the next line
 	p.Y.Tick.Marker = preciseTicks{}
 	return p
 }
@@ -217,7 +218,7 @@ func newPlot(title, x, y string) *plot.Plot {
 func Figures(r *audit.Result) ([]Figure, error) {
 	var figs []Figure
 	for _, build := range []func(*audit.Result) (Figure, bool, error){
-		frequencyFigure, pHistogramFigure, pQQFigure, dimensionFigure, runningFigure, segmentFigure,
+		frequencyFigure, pHistogramFigure, pQQFigure, dimensionFigure, landscapeFigure, landscapeNearFigure, auditSpectrumFigure, runningFigure, segmentFigure,
 	} {
 		f, ok, err := build(r)
 		if err != nil {
