@@ -62,7 +62,8 @@ var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"i
 <tr>{{range .SummaryHeader}}<th>{{.}}</th>{{end}}</tr>
 {{range .SummaryRows}}<tr>{{range $i, $c := .}}<td{{if or (eq $i 1) (eq $i 2) (eq $i 4) (eq $i 6) (eq $i 7)}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
 {{end}}</table>
-<p>Contents:</p><ol>{{range .Audits}}<li><a href="#{{.Anchor}}">{{.Title}}</a>: {{.Verdict}}</li>{{end}}</ol>
+{{range .DocFigures}}<figure>{{.SVG}}<figcaption>{{.Title}}</figcaption></figure>
+{{end}}<p>Contents:</p><ol>{{range .Audits}}<li><a href="#{{.Anchor}}">{{.Title}}</a>: {{.Verdict}}</li>{{end}}</ol>
 {{end}}{{range .Audits}}
 <h2 id="{{.Anchor}}">{{.Title}}: <span class="verdict {{.VerdictClass}}">{{.Verdict}}</span></h2>
 <p>{{.Reason}}</p>
@@ -122,6 +123,7 @@ type htmlDoc struct {
 	SummaryHeader          []string // the side-by-side table, for two results or more
 	SummaryRows            [][]string
 	Audits                 []htmlAudit
+	DocFigures             []htmlFigure // across bases
 	Caution, Version, Date string
 	Style                  template.HTML
 }
@@ -144,6 +146,17 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 	if len(doc.Results) > 1 {
 		pg.SummaryHeader, pg.SummaryRows = summaryRows(doc)
 	}
+	docFigs, err := DocumentFigures(doc)
+	if err != nil {
+		return err
+	}
+	for _, f := range docFigs {
+		svg, err := f.SVG()
+		if err != nil {
+			return err
+		}
+		pg.DocFigures = append(pg.DocFigures, htmlFigure{Title: f.Title, SVG: inlineSVG(svg)})
+	}
 	for i, r := range doc.Results {
 		a, err := htmlAuditOf(doc, r)
 		if err != nil {
@@ -156,7 +169,7 @@ func htmlRender(w io.Writer, doc Document, name string) error {
 	if err := htmlTemplates.ExecuteTemplate(&buf, name, pg); err != nil {
 		return err
 	}
-	_, err := w.Write(buf.Bytes())
+	_, err = w.Write(buf.Bytes())
 	return err
 }
 

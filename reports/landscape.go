@@ -113,7 +113,29 @@ func (g boxGrid) Z(c, r int) float64 {
 func (g boxGrid) Min() float64 { return g.lo }
 func (g boxGrid) Max() float64 { return g.hi }
 
+// ternaryNear and landscapeTernary draw their heat maps as vector cells in
+// the SVG (a raster image there is letterboxed to its pixels' aspect by
+// browsers) and as a raster in the PNG (vector cells leave seams there).
 func ternaryNear(r *audit.Result, pos *checks.Position) (Figure, bool, error) {
+	return withRasterPNG(func(raster bool) (Figure, bool, error) { return ternaryNearPlot(r, pos, raster) })
+}
+
+func landscapeTernary(r *audit.Result, pos *checks.Position) (Figure, bool, error) {
+	return withRasterPNG(func(raster bool) (Figure, bool, error) { return landscapeTernaryPlot(r, pos, raster) })
+}
+
+// withRasterPNG builds a figure for the SVG and again, rasterized, for the PNG.
+func withRasterPNG(build func(raster bool) (Figure, bool, error)) (Figure, bool, error) {
+	f, ok, err := build(false)
+	if !ok || err != nil {
+		return f, ok, err
+	}
+	g, _, err := build(true)
+	f.pngPlot = g.plot
+	return f, ok, err
+}
+
+func ternaryNearPlot(r *audit.Result, pos *checks.Position, raster bool) (Figure, bool, error) {
 	center := ternary(pos.Region.QHat)
 	var ring plotter.XYs
 	reach := 0.0
@@ -139,7 +161,7 @@ func ternaryNear(r *audit.Result, pos *checks.Position) (Figure, bool, error) {
 	p := newPlot(fmt.Sprintf("dim F(q) near q̂ (base 3, %g%% region; the view is %.2g wide in q_1)", 100*pos.Region.Confidence, g.x1-g.x0), "", "")
 	hm := plotter.NewHeatMap(g, grayPalette{})
 	hm.Min, hm.Max = g.lo, g.hi
-	hm.Rasterized = true
+	hm.Rasterized = raster
 	var levels []float64
 	for i := 1; i <= 4; i++ {
 		levels = append(levels, g.lo+(g.hi-g.lo)*float64(i)/5)
@@ -308,12 +330,12 @@ func (grayPalette) Colors() []color.Color {
 
 var _ palette.Palette = grayPalette{}
 
-func landscapeTernary(r *audit.Result, pos *checks.Position) (Figure, bool, error) {
+func landscapeTernaryPlot(r *audit.Result, pos *checks.Position, raster bool) (Figure, bool, error) {
 	p := newPlot(fmt.Sprintf("Where the sequence sits: dim F(q) over the simplex (base 3, %g%% region)", 100*pos.Region.Confidence), "", "")
 	grid := dimGrid{nx: 121, ny: 105}
 	hm := plotter.NewHeatMap(grid, grayPalette{})
 	hm.Min, hm.Max = 0, 1
-	hm.Rasterized = true // cells drawn one by one left seams between them
+	hm.Rasterized = raster
 	levels := []float64{0.5, 0.8, 0.9, 0.95, 0.99}
 	ct := plotter.NewContour(grid, levels, nil)
 	ct.LineStyles = nil

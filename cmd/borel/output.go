@@ -186,6 +186,13 @@ func writePlots(dir string, doc reports.Document) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("cannot create the plot folder %s: %v", dir, unwrapPathError(err))
 	}
+	docFigs, err := reports.DocumentFigures(doc)
+	if err != nil {
+		return err
+	}
+	if err := writeFigures(dir, "all", docFigs); err != nil {
+		return err
+	}
 	for i, r := range doc.Results {
 		figs, err := reports.Figures(r)
 		if err != nil {

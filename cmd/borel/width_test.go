@@ -1,10 +1,10 @@
 package main
 
 import (
+	"github.com/olekukonko/tablewriter/pkg/twwidth"
 	"math/rand/v2"
 	"strings"
 	"testing"
-	"unicode/utf8"
 
 	"github.com/borel-audit/borel/stats/expand"
 )
@@ -20,12 +20,12 @@ func widthInput(t *testing.T) string {
 	return writeFile(t, "sticky.txt", d)
 }
 
-// widest is the widest line of out in terminal columns (every character
-// borel prints is one column wide).
+// widest is the widest line of out in terminal columns (a combining mark,
+// as in q̂, takes none).
 func widest(out string) (int, string) {
 	w, line := 0, ""
 	for _, l := range strings.Split(out, "\n") {
-		if n := utf8.RuneCountInString(l); n > w {
+		if n := twwidth.Width(l); n > w {
 			w, line = n, l
 		}
 	}
