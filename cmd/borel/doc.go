@@ -32,13 +32,26 @@
 //	$ borel rebase --from 10 --to 3 testdata/pi-1e6.txt.gz -q
 //	$ borel audit --source pi --count 20000 --bases 2,3,10,16
 //
+// Hexadecimal digits of π far out, by digit extraction (in constant
+// memory, each digit certified):
+//
+//	$ borel digits pi --base 16 --offset 999999 --count 14
+//
+// Check a file of digits against a source at random spots (or every digit
+// with --all) before auditing it:
+//
+//	$ borel verify testdata/pi-1e6.txt.gz --source pi --spots 8
+//
 // The Hausdorff dimension of the numbers with given digit frequencies
-// (Besicovitch–Eggleston):
+// (Besicovitch–Eggleston), the multifractal spectrum of the product
+// measure, and a restricted-digit set:
 //
 //	$ borel dimension 0.5,0,0.5
+//	$ borel dimension 0.5,0.3,0.2 --alpha 0.9
+//	$ borel dimension --only 0,2 --base 3
 //
 // Exit status: 0 success; 1 the input could not be read or is not a sequence
 // of the base; 2 invalid options or arguments, found before any work; 3 with
-// --strict, a verdict other than consistent. Every error is one line on
+// --strict, a verdict other than consistent (verify: a digit that differs). Every error is one line on
 // standard error starting with "borel:".
 package main

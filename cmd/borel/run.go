@@ -71,10 +71,11 @@ Examples:
   $ borel audit digits.txt --base 7
   $ borel audit - --raw < generator.bin
   $ some-generator | borel watch - --raw --word 32
+  $ borel verify pi-hex.txt --source pi --base 16
 
 Exit status: 0 success; 1 the input could not be read or is not a sequence of the base;
 2 invalid options or arguments; 3 with --strict, a verdict other than consistent (watch: a
-failing checkpoint); 130 stopped by SIGINT or SIGTERM (nothing written; watch writes the
+failing checkpoint; verify: a digit that differs); 130 stopped by SIGINT or SIGTERM (nothing written; watch writes the
 report of what it read, marked as interrupted).
 `
 
