@@ -17,7 +17,16 @@ import (
 // written as LaTeX commands so that pdflatex needs no extra packages.
 func texEscape(s string) string {
 	var b strings.Builder
-	for _, r := range s {
+	rs := []rune(s)
+	for i := 0; i < len(rs); i++ {
+		r := rs[i]
+		if i+1 < len(rs) && rs[i+1] == '\u0302' { // a letter with a combining hat: q̂, α̂
+			base := texEscape(string(r))
+			base = strings.TrimSuffix(strings.TrimPrefix(base, "$"), "$")
+			b.WriteString(`$\hat{` + base + `}$`)
+			i++
+			continue
+		}
 		switch t, ok := texRunes[r]; {
 		case ok:
 			b.WriteString(t)
@@ -66,7 +75,7 @@ var texRunes = map[rune]string{
 	'×': `$\times$`, '≤': `$\le$`, '≥': `$\ge$`, '√': `$\surd$`, '·': `$\cdot$`, '²': `$^2$`,
 	'ψ': `$\psi$`, '∇': `$\nabla$`, 'π': `$\pi$`, 'χ': `$\chi$`, 'α': `$\alpha$`,
 	'−': `$-$`, 'σ': `$\sigma$`, 'μ': `$\mu$`, '≈': `$\approx$`, '∞': `$\infty$`, '±': `$\pm$`, '…': `\ldots{}`,
-	'Δ': `$\Delta$`, '→': `$\to$`,
+	'Δ': `$\Delta$`, '→': `$\to$`, 'Σ': `$\Sigma$`, 'τ': `$\tau$`, '∓': `$\mp$`, '₂': `$_2$`,
 }
 
 // texStatistic writes a statistic's name in math mode (checks.StatisticName).

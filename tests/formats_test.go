@@ -123,10 +123,15 @@ func TestLaTeXFitsArticle(t *testing.T) {
 		{"champernowne", []string{"audit", "--source", "champernowne", "--count", "20000", "-q"}},
 		{"raw", []string{"audit", rawFile, "--raw", "-q"}},
 		{"compare", []string{"compare", "pi", "e", "champernowne", "--count", "20000", "-q"}},
+		{"dimension", []string{"dimension", "0.5,0.3,0.2", "--alpha", "0.9"}},
 	} {
 		code, out, errs := runBorel(t, nil, append(c.args, "--format", "tex")...)
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s", c.name, code, errs)
+		}
+		// Every character has its LaTeX form (q̂ and Σ once printed as [U+0302] and [U+03A3]).
+		if i := bytes.Index(out, []byte("[U+")); i >= 0 {
+			t.Errorf("%s: a character without its LaTeX form: %q", c.name, out[max(0, i-40):min(len(out), i+20)])
 		}
 		dir := t.TempDir()
 		doc := "\\documentclass[11pt]{article}\n\\usepackage[utf8]{inputenc}\n\\usepackage{booktabs}\n\\usepackage{longtable}\n\\begin{document}\n\\input{report}\n\\end{document}\n"
