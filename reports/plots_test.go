@@ -174,3 +174,82 @@ func labelValue(label string, base int, digits bool) (v float64, decimals int, o
 	}
 	return 0, 0, false
 }
+
+// The dimension workbench's figures: the landscape in each shape (base 2,
+// base 3 with its close view, larger bases), the spectrum only against a
+// stated vector, and across bases only for a sequence audited in two bases
+// or more; each renders as SVG and PNG, and the heat map writes each
+// audit's −log10 p in its cell.
+func TestDimensionWorkbenchFigures(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 9))
+	run := func(name string, d []byte, base int, opts audit.Options) *audit.Result {
+		r, err := audit.Digits(d, base, audit.Source{Name: name, Kind: "built-in", Bytes: -1}, opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	vec := audit.DefaultOptions()
+	vec.Null = audit.NullSpec{Kind: checks.Vector, P: []float64{0.5, 0.3, 0.2}}
+	cases := []struct {
+		r    *audit.Result
+		want []string
+		not  []string
+	}{
+		{run("bits", expand.IID(50000, []float64{0.5, 0.5}, rng), 2, audit.DefaultOptions()), []string{"landscape", "landscape-near"}, []string{"spectrum"}},
+		{run("trits", expand.IID(50000, []float64{0.48, 0.32, 0.2}, rng), 3, vec), []string{"landscape", "landscape-near", "spectrum"}, nil},
+		{run("few trits", expand.IID(300, []float64{0.5, 0.3, 0.2}, rng), 3, vec), []string{"landscape", "spectrum"}, []string{"landscape-near"}},
+		{run("decimals", expand.IID(50000, uniform10(), rng), 10, audit.DefaultOptions()), []string{"landscape"}, []string{"landscape-near", "spectrum"}},
+	}
+	for _, c := range cases {
+		figs, err := Figures(c.r)
+		if err != nil {
+			t.Fatal(err)
+		}
+		names := map[string]bool{}
+		for _, f := range figs {
+			names[f.Name] = true
+			for _, render := range []func() ([]byte, error){f.SVG, f.PNG} {
+				if b, err := render(); err != nil || len(b) < 1000 {
+					t.Errorf("%s %s: %d bytes, %v", c.r.Source.Name, f.Name, len(b), err)
+				}
+			}
+		}
+		for _, w := range c.want {
+			if !names[w] {
+				t.Errorf("%s: no %s figure (have %v)", c.r.Source.Name, w, names)
+			}
+		}
+		for _, w := range c.not {
+			if names[w] {
+				t.Errorf("%s: a %s figure it should not have", c.r.Source.Name, w)
+			}
+		}
+	}
+	one := Document{Results: []*audit.Result{cases[0].r, cases[3].r}}
+	if figs, _ := DocumentFigures(one); len(figs) != 0 {
+		t.Errorf("two sequences in one base each: %d across-bases figures", len(figs))
+	}
+	a := run("pi", expand.IID(20000, []float64{0.5, 0.5}, rng), 2, audit.DefaultOptions())
+	b := run("pi", expand.IID(20000, uniform10(), rng), 10, audit.DefaultOptions())
+	many := Document{Results: []*audit.Result{a, b, cases[1].r}}
+	figs, err := DocumentFigures(many)
+	if err != nil || len(figs) != 2 || figs[0].Name != "bases-deficit" || figs[1].Name != "bases-heatmap" {
+		t.Fatalf("across bases: %v %v", figs, err)
+	}
+	svg, _ := figs[1].SVG()
+	for _, r := range many.Results {
+		want := strconv.FormatFloat(math.Max(0, -r.Decisive().LogAdj/math.Ln10), 'f', 1, 64)
+		if !strings.Contains(string(svg), ">"+want) {
+			t.Errorf("the heat map lacks %s's value %s", r.Source.Name, want)
+		}
+	}
+}
+
+func uniform10() []float64 {
+	p := make([]float64, 10)
+	for i := range p {
+		p[i] = 0.1
+	}
+	return p
+}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/borel-audit/borel/stats"
 	"github.com/borel-audit/borel/stats/audit"
 	"github.com/borel-audit/borel/stats/checks"
 )
@@ -51,6 +52,11 @@ func positionLines(r *audit.Result) []string {
 		} else {
 			lines = append(lines, fmt.Sprintf("local dimension of μ_p along the sequence α̂ = −Σ q̂_j log_%d p_j = %s [%s, %s]; a sequence generic for μ_p has α = dim F(p) = %s",
 				r.Base, formatDim(p.Alpha), formatDim(p.AlphaLow), formatDim(p.AlphaHigh), formatDim(e.NullDimension)))
+			if s, err := stats.NewSpectrum(p.P, r.Base); err == nil {
+				if f, _, ok := s.F(p.Alpha); ok {
+					lines = append(lines, fmt.Sprintf("the spectrum of μ_p there: f(α̂) = %s, the dimension of the numbers at which μ_p has local dimension α̂ (dim F(q̂) ≤ f(α̂), equal when q̂ is a tilted vector of p)", formatDim(f)))
+				}
+			}
 		}
 	}
 	return lines
