@@ -41,7 +41,7 @@ The group computed pi and sqrt 2 itself and wants to know whether the digits loo
 type demoSequence struct {
 	name, params string
 	base         int
-	null         []float64 // a stated vector, or nil for the uniform null
+	null         []float64                        // a stated vector, or nil for the uniform null
 	digits       func() ([]byte, []string, error) // the digits, and how a computed constant was checked
 }
 
