@@ -35,10 +35,10 @@ var (
 // it across): the region, the contour lines near it and the null's vector
 // when it is in view.
 func landscapeNearFigure(r *audit.Result) (Figure, bool, error) {
-	if r.Entropy == nil || r.Entropy.Position == nil || r.Entropy.Position.Region.N == 0 {
+	pos := positionOf(r)
+	if pos == nil {
 		return Figure{}, false, nil
 	}
-	pos := r.Entropy.Position
 	switch len(pos.Region.QHat) {
 	case 2:
 		if pos.Region.High[0]-pos.Region.Low[0] >= 0.05 {
@@ -207,10 +207,10 @@ func ternaryNearPlot(r *audit.Result, pos *checks.Position, raster bool) (Figure
 
 // landscapeFigure draws the landscape for an audit with a position.
 func landscapeFigure(r *audit.Result) (Figure, bool, error) {
-	if r.Entropy == nil || r.Entropy.Position == nil || r.Entropy.Position.Region.N == 0 {
+	pos := positionOf(r)
+	if pos == nil {
 		return Figure{}, false, nil
 	}
-	pos := r.Entropy.Position
 	switch len(pos.Region.QHat) {
 	case 2:
 		return landscapeBinary(r, pos)
@@ -219,6 +219,15 @@ func landscapeFigure(r *audit.Result) (Figure, bool, error) {
 	default:
 		return landscapeSegment(r, pos)
 	}
+}
+
+// positionOf returns the audit's position among the sets F(q), or nil
+// when it has none (no digits, no entropy profile).
+func positionOf(r *audit.Result) *checks.Position {
+	if r.Entropy == nil || r.Entropy.Position == nil || r.Entropy.Position.Region.N == 0 {
+		return nil
+	}
+	return r.Entropy.Position
 }
 
 func dimOf(q []float64, base int) float64 { return stats.BesicovitchEgglestonDimension(q, base) }

@@ -207,22 +207,8 @@ func writePlots(dir string, doc reports.Document) error {
 		if len(doc.Results) > 1 {
 			stem = fmt.Sprintf("%d-%s", i+1, stem)
 		}
-		for _, f := range figs {
-			for _, ext := range []string{"svg", "png"} {
-				var data []byte
-				if ext == "svg" {
-					data, err = f.SVG()
-				} else {
-					data, err = f.PNG()
-				}
-				if err != nil {
-					return err
-				}
-				name := filepath.Join(dir, fmt.Sprintf("%s-base%d-%s.%s", stem, r.Base, f.Name, ext))
-				if err := writeAtomic(name, data); err != nil {
-					return err
-				}
-			}
+		if err := writeFigures(dir, fmt.Sprintf("%s-base%d", stem, r.Base), figs); err != nil {
+			return err
 		}
 	}
 	return nil
