@@ -112,16 +112,14 @@ func redc64(hi, lo, m, neg uint64) uint64 {
 	return r
 }
 
-// mont64Min and mont64Max bound the moduli of the 64-bit Montgomery path.
-const (
-	mont64Min = 1 << 31
-	mont64Max = 1 << 62
-)
+// mont64Max bounds the moduli of the 64-bit Montgomery path (the sum in
+// redc64 stays below 2^64).
+const mont64Max = 1 << 62
 
 // pow2Mod4 sets r[i] = 2^(E[i]+64) mod m[i] and inv[i] = m[i]^-1 mod 2^64
 // for four odd moduli, in lock step so that the four squarings overlap:
 // Montgomery arithmetic with R = 2^32 when every modulus is in [montMin,
-// montMax), with R = 2^64 when every one is in [mont64Min, mont64Max), else
+// montMax), with R = 2^64 when every one is odd in [3, mont64Max), else
 // one modulus at a time. The 64 extra powers of 2 give the fraction's
 // first word by an exact division (frac64x4): floor(2^64·frac(2^E/m)) =
 // −(2^(E+64) mod m)·m^-1 mod 2^64.
@@ -130,7 +128,10 @@ func pow2Mod4(E, m, r, inv *[4]uint64) {
 	switch {
 	case lo >= montMin && hi < montMax:
 		r[0], r[1], r[2], r[3], inv[0], inv[1], inv[2], inv[3] = pow2Mont32x4(E[0]+64, E[1]+64, E[2]+64, E[3]+64, m[0], m[1], m[2], m[3])
-	case lo >= mont64Min && hi < mont64Max:
+	case lo >= 3 && hi < mont64Max:
+		// Any odd moduli below 2^62, mixed ranges too (π's lanes 2k+1 and
+		// 8k+5 straddle 2^31 for k from 2.7·10^8 to 10^9: one at a time,
+		// with a division a squaring, they took 3 times the rest).
 		r[0], r[1], r[2], r[3], inv[0], inv[1], inv[2], inv[3] = pow2Mont64x4(E[0]+64, E[1]+64, E[2]+64, E[3]+64, m[0], m[1], m[2], m[3])
 	default:
 		for i := range 4 {
@@ -176,18 +177,18 @@ func pow2Mont32x4(L0, L1, L2, L3, m0, m1, m2, m3 uint64) (r0, r1, r2, r3, i0, i1
 	return redc(x0, m0, n0), redc(x1, m1, n1), redc(x2, m2, n2), redc(x3, m3, n3), i0, i1, i2, i3
 }
 
-// pow2Mont64x4 is pow2Mont32x4 for moduli in [mont64Min, mont64Max), with
+// pow2Mont64x4 is pow2Mont32x4 for odd moduli in [3, mont64Max), with
 // R = 2^64 and 128-bit products.
 func pow2Mont64x4(L0, L1, L2, L3, m0, m1, m2, m3 uint64) (r0, r1, r2, r3, i0, i1, i2, i3 uint64) {
 	nb := bits.Len64(L0 | L1 | L2 | L3)
 	s := uint(nb - 5)
 	i0, i1, i2, i3 = montInv(m0), montInv(m1), montInv(m2), montInv(m3)
 	n0, n1, n2, n3 := -i0, -i1, -i2, -i3
-	// 2^top·2^64 mod m, with 2^top < 2^32 ≤ m.
-	_, x0 := bits.Div64(1<<(L0>>s), 0, m0)
-	_, x1 := bits.Div64(1<<(L1>>s), 0, m1)
-	_, x2 := bits.Div64(1<<(L2>>s), 0, m2)
-	_, x3 := bits.Div64(1<<(L3>>s), 0, m3)
+	// 2^top·2^64 mod m, from 2^top mod m (below m, as Div64 needs).
+	_, x0 := bits.Div64((1<<(L0>>s))%m0, 0, m0)
+	_, x1 := bits.Div64((1<<(L1>>s))%m1, 0, m1)
+	_, x2 := bits.Div64((1<<(L2>>s))%m2, 0, m2)
+	_, x3 := bits.Div64((1<<(L3>>s))%m3, 0, m3)
 	for i := int(s) - 1; i >= 0; i-- {
 		h0, l0 := bits.Mul64(x0, x0)
 		h1, l1 := bits.Mul64(x1, x1)
