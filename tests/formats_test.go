@@ -201,9 +201,9 @@ func TestHTMLReport(t *testing.T) {
 		}
 	}
 	walk(doc)
-	// frequencies, p histogram, Q–Q, dimension, running deviation, segments
-	if figures != 6 || svgs != figures {
-		t.Errorf("%d figures and %d <svg> elements; want 6 and one each", figures, svgs)
+	// frequencies, p histogram, Q–Q, dimension, landscape, running deviation, segments
+	if figures != 7 || svgs != figures {
+		t.Errorf("%d figures and %d <svg> elements; want 7 and one each", figures, svgs)
 	}
 }
 
