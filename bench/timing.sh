@@ -9,4 +9,4 @@ best() { printf '%s\n' "$@" | sort -g | head -1; }
 # secs CMD...: the best of RUNS runs of CMD.
 secs() { local ts=(); for _ in $(seq "$RUNS"); do ts+=("$(once "$@")"); done; best "${ts[@]}"; }
 # ratio A B: A/B to two decimals.
-ratio() { echo "scale=2; $1 / $2" | bc -l; }
+ratio() { printf '%.2f' "$(echo "$1 / $2" | bc -l)"; }
