@@ -60,7 +60,7 @@ var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"i
 {{end}}{{if .SummaryRows}}<h2>Side by side</h2>
 <table>
 <tr>{{range .SummaryHeader}}<th>{{.}}</th>{{end}}</tr>
-{{range .SummaryRows}}<tr>{{range $i, $c := .}}<td{{if or (eq $i 1) (eq $i 2) (eq $i 4) (eq $i 6) (eq $i 7)}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
+{{range .SummaryRows}}<tr>{{range $i, $c := .}}<td{{if or (eq $i 1) (eq $i 2) (eq $i 4) (eq $i 6) (eq $i 7) (eq $i 8)}} class="n"{{end}}>{{$c}}</td>{{end}}</tr>
 {{end}}</table>
 {{range .DocFigures}}<figure>{{.SVG}}<figcaption>{{.Title}}</figcaption></figure>
 {{end}}<p>Contents:</p><ol>{{range .Audits}}<li><a href="#{{.Anchor}}">{{.Title}}</a>: {{.Verdict}}</li>{{end}}</ol>

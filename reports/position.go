@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/borel-audit/borel/stats"
 	"github.com/borel-audit/borel/stats/audit"
@@ -52,6 +53,9 @@ func positionLines(r *audit.Result) []string {
 		} else {
 			lines = append(lines, fmt.Sprintf("local dimension of μ_p along the sequence α̂ = −Σ q̂_j log_%d p_j = %s [%s, %s]; a sequence generic for μ_p has α = dim F(p) = %s",
 				r.Base, formatDim(p.Alpha), formatDim(p.AlphaLow), formatDim(p.AlphaHigh), formatDim(e.NullDimension)))
+			if tied := tiedDigits(p.P, r.Base); tied != "" {
+				lines = append(lines, fmt.Sprintf("α̂ weighs each digit by −log_%d p_j, so it cannot tell apart digits of equal p_j (%s): moving frequency between them leaves α̂ where it is; the frequency table and dim F(q̂) can", r.Base, tied))
+			}
 			if s, err := stats.NewSpectrum(p.P, r.Base); err == nil {
 				if f, _, ok := s.F(p.Alpha); ok {
 					lines = append(lines, fmt.Sprintf("the spectrum of μ_p there: f(α̂) = %s, the dimension of the numbers at which μ_p has local dimension α̂ (dim F(q̂) ≤ f(α̂), equal when q̂ is a tilted vector of p)", formatDim(f)))
@@ -128,4 +132,30 @@ func entropyNote(r *audit.Result) string {
 		return fmt.Sprintf("Full dimension is 1 (ln %d = %s nats per digit)", r.Base, formatFixed(math.Log(float64(r.Base))))
 	}
 	return fmt.Sprintf("The null's Besicovitch–Eggleston dimension H(p)/ln %d = %s", r.Base, formatDim(r.Entropy.NullDimension))
+}
+
+// tiedDigits names the groups of used digits with equal probability, e.g.
+// "0 and 1", or "" when every p_j differs.
+func tiedDigits(p []float64, base int) string {
+	var groups []string
+	done := make([]bool, len(p))
+	for i := range p {
+		if done[i] || p[i] <= 0 {
+			continue
+		}
+		names := []string{checks.DigitName(i, base)}
+		for j := i + 1; j < len(p); j++ {
+			if !done[j] && p[j] == p[i] {
+				names = append(names, checks.DigitName(j, base))
+				done[j] = true
+			}
+		}
+		if len(names) > 1 {
+			if len(names) > 4 {
+				names = append(names[:3], fmt.Sprintf("… (%d digits)", len(names)))
+			}
+			groups = append(groups, strings.Join(names[:len(names)-1], ", ")+" and "+names[len(names)-1])
+		}
+	}
+	return strings.Join(groups, "; ")
 }
