@@ -97,12 +97,31 @@ func runDigits(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	if !extract {
+	if !extract && !src.Streams() {
 		if err := checkDigitMemory(src, *count+*offset, b, limit); err != nil {
 			return 0, err
 		}
 	}
 	start := time.Now()
+	if !extract && src.Streams() {
+		// A generator's digits go out as they are made, 1 MiB at a time:
+		// memory does not grow with --count.
+		write := func(w io.Writer) error { return streamDigits(w, src, *count, *offset, b, *wrap) }
+		var err error
+		if *output != "" && *output != "-" {
+			err = writeAtomicFunc(*output, write)
+		} else {
+			err = write(e.stdout)
+		}
+		if err != nil {
+			return 0, err
+		}
+		if !*quiet {
+			fmt.Fprintf(e.stderr, "borel: %d digits of %s in base %d (digits %d to %d after the point) in %.2f s, streamed; %s\n",
+				*count, src.Name, b, *offset+1, *offset+*count, time.Since(start).Seconds(), src.Detail)
+		}
+		return exitOK, nil
+	}
 	var d []byte
 	var checks []string
 	if extract {
@@ -170,6 +189,37 @@ func checkDigitMemory(src expand.Source, n, base int, limit int64) error {
 			n, src.Name, base, mib(need), mib(float64(limit)))
 	}
 	return nil
+}
+
+// streamDigits writes a streaming source's digits to w as formatDigits
+// would write them all at once (raw bytes in base 256), chunk by chunk.
+func streamDigits(w io.Writer, src expand.Source, count, offset, base, wrap int) error {
+	const alphabet = "0123456789abcdefghijklmnopqrstuvwxyz"
+	col, written := 0, 0
+	out := make([]byte, 0, 2<<20)
+	err := src.Stream(count, offset, base, func(d []byte) error {
+		if base == 256 {
+			_, err := w.Write(d)
+			return err
+		}
+		out = out[:0]
+		for _, x := range d {
+			out = append(out, alphabet[x])
+			col++
+			written++
+			if wrap > 0 && col == wrap && written < count {
+				out = append(out, '\n')
+				col = 0
+			}
+		}
+		_, err := w.Write(out)
+		return err
+	})
+	if err != nil || base == 256 {
+		return err
+	}
+	_, err = w.Write([]byte{'\n'})
+	return err
 }
 
 // formatDigits writes digit values as 0-9a-z, one line or wrapped.

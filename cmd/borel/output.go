@@ -222,6 +222,16 @@ var writeHook func(io.Writer) io.Writer
 // folder, synced and renamed over the target, so an interrupted or failed
 // run leaves any earlier file whole and no temporary file behind.
 func writeAtomic(path string, data []byte) error {
+	return writeAtomicFunc(path, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
+}
+
+// writeAtomicFunc is writeAtomic for output made as it is written (digits
+// streamed from a generator): write gets the temporary file, and only a
+// write that returns no error replaces the target.
+func writeAtomicFunc(path string, write func(io.Writer) error) error {
 	shown := path
 	target, st, err := resolveTarget(path)
 	if err != nil {
@@ -231,7 +241,7 @@ func writeAtomic(path string, data []byte) error {
 		return fmt.Errorf("cannot write %s: it is a folder", shown)
 	}
 	if st != nil && !st.Mode().IsRegular() {
-		return writeInPlace(target, data)
+		return writeInPlaceFunc(target, write)
 	}
 	path = target
 	dir := filepath.Dir(path)
@@ -251,7 +261,7 @@ func writeAtomic(path string, data []byte) error {
 	if writeHook != nil {
 		w = writeHook(tmp)
 	}
-	if _, err := w.Write(data); err != nil {
+	if err := write(w); err != nil {
 		return fail(err)
 	}
 	if err := tmp.Sync(); err != nil {

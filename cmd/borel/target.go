@@ -1,6 +1,7 @@
 package main
 
 import (
+	"io"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -103,11 +104,19 @@ func checkPlotFolder(dir string) error {
 
 // writeInPlace writes data into a non-regular file (a device, a FIFO).
 func writeInPlace(path string, data []byte) error {
+	return writeInPlaceFunc(path, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
+}
+
+// writeInPlaceFunc is writeInPlace for output made as it is written.
+func writeInPlaceFunc(path string, write func(io.Writer) error) error {
 	f, err := os.OpenFile(path, os.O_WRONLY, 0)
 	if err != nil {
 		return fmt.Errorf("cannot write %s: %v", path, unwrapPathError(err))
 	}
-	if _, err := f.Write(data); err != nil {
+	if err := write(f); err != nil {
 		f.Close()
 		return fmt.Errorf("cannot write %s: %v", path, err)
 	}

@@ -2,8 +2,12 @@ package main
 
 import (
 	"fmt"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/borel-audit/borel/stats/expand"
 )
 
 // digitsOf runs borel digits and returns its output without the newline.
@@ -151,4 +155,32 @@ func wrapLines(s string, w int) string {
 		b.WriteByte('\n')
 	}
 	return b.String()
+}
+
+// A generator's digits stream: --memory does not refuse them (they once
+// needed 2 bytes a digit), and what is written, to a file or standard
+// output, wrapped or not, equals the digits of one computation.
+func TestDigitsStreamGenerators(t *testing.T) {
+	code, out, errs := borel(t, "", "digits", "chacha8:1", "--count", "3000000", "--memory", "1MiB", "--wrap", "1000", "-q")
+	if code != 0 {
+		t.Fatalf("a generator refused by --memory: exit %d: %s", code, errs)
+	}
+	src, _ := expand.ParseSource("chacha8:1")
+	d, _, _ := src.CheckedDigits(3_000_000, 0, 10)
+	if want := string(formatDigits(d, 1000)); out != want {
+		t.Errorf("streamed digits differ from one computation (%d and %d bytes)", len(out), len(want))
+	}
+	path := filepath.Join(t.TempDir(), "raw.bin")
+	if code, _, errs := borel(t, "", "digits", "pcg:2", "--base", "256", "--count", "2500000", "--offset", "3", "-o", path, "-q"); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	got, _ := os.ReadFile(path)
+	src, _ = expand.ParseSource("pcg:2")
+	want, _, _ := src.CheckedDigits(2_500_000, 3, 256)
+	if string(got) != string(want) {
+		t.Errorf("streamed bytes in the file differ (%d and %d bytes)", len(got), len(want))
+	}
+	if _, _, errs := borel(t, "", "digits", "chacha8:1", "--count", "10", "-o", path); !strings.Contains(errs, "streamed") {
+		t.Errorf("stderr does not say the digits were streamed: %q", errs)
+	}
 }

@@ -8,13 +8,20 @@ import (
 // IID returns n digits drawn independently from the frequency vector p
 // (the product measure μ_p), by inversion of the cumulative sums.
 func IID(n int, p []float64, rng *rand.Rand) []byte {
+	d := make([]byte, n)
+	IIDInto(d, p, rng)
+	return d
+}
+
+// IIDInto fills d with independent digits drawn from p, as IID does: one
+// call on a buffer draws what consecutive calls on its parts draw.
+func IIDInto(d []byte, p []float64, rng *rand.Rand) {
 	cum := make([]float64, len(p))
 	s := 0.0
 	for i, v := range p {
 		s += v
 		cum[i] = s
 	}
-	d := make([]byte, n)
 	for i := range d {
 		u := rng.Float64() * s
 		j := 0
@@ -23,7 +30,6 @@ func IID(n int, p []float64, rng *rand.Rand) []byte {
 		}
 		d[i] = byte(j)
 	}
-	return d
 }
 
 // Sticky returns n base-b digits in which each digit repeats the previous

@@ -17,6 +17,7 @@ type Source struct {
 	fixed  fixedFunc
 	symbol string                            // the constant's name in messages: "π", "√2", …
 	direct func(n, base int) ([]byte, error) // sequences defined digit by digit
+	stream func(base int) func(d []byte)      // generators: the next digits into d, chunk after chunk
 	base   int                               // a source with a base of its own (iid), else 0
 	meter  Meter                             // progress of a constant's computation, or nil
 }
@@ -93,6 +94,10 @@ func ParseSource(name string) (Source, error) {
 		s.direct = func(n, base int) ([]byte, error) {
 			return IID(n, p, rand.New(rand.NewPCG(1, uint64(len(p))))), nil
 		}
+		s.stream = func(int) func([]byte) {
+			rng := rand.New(rand.NewPCG(1, uint64(len(p))))
+			return func(d []byte) { IIDInto(d, p, rng) }
+		}
 		s.Detail = fmt.Sprintf("independent digits from (%s), PCG(1, %d)", arg, len(p))
 	case kind == "pcg" || kind == "chacha8" || kind == "lcg":
 		seed, err := strconv.ParseUint(arg, 10, 64)
@@ -100,6 +105,7 @@ func ParseSource(name string) (Source, error) {
 			return s, fmt.Errorf("source %q: write %s:SEED with a non-negative integer seed", name, kind)
 		}
 		s.direct = generator(kind, seed)
+		s.stream = func(base int) func([]byte) { return newGenerator(kind, seed, base) }
 		s.Detail = map[string]string{
 			"pcg":     fmt.Sprintf("Go's PCG generator, seed %d, uniform digits", seed),
 			"chacha8": fmt.Sprintf("Go's ChaCha8 generator, seed %d, uniform digits", seed),
@@ -151,7 +157,8 @@ func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 // ln 2 at 10^6–10^8 decimals (with the estimate as the garbage collector's
 // soft limit, see cmd/borel), so 16 per bit is taken, plus the digits and
 // 32 MiB for the program itself. Digit-native sources need about the digits
-// themselves.
+// themselves when they are asked for all at once (the generators also
+// Stream, in constant memory).
 func (s Source) MemoryEstimate(n, base int) float64 {
 	if s.fixed == nil {
 		return 2 * float64(n)
@@ -253,9 +260,19 @@ func Liouville(n int) []byte {
 func generator(kind string, seed uint64) func(n, base int) ([]byte, error) {
 	return func(n, base int) ([]byte, error) {
 		d := make([]byte, n)
-		switch kind {
-		case "lcg":
-			x := uint32(seed|1) & (1<<31 - 1)
+		newGenerator(kind, seed, base)(d)
+		return d, nil
+	}
+}
+
+// newGenerator returns a function that fills each buffer it is given with
+// the generator's next digits in base b: called on consecutive buffers, it
+// writes the same digits as one call on their concatenation.
+func newGenerator(kind string, seed uint64, base int) func(d []byte) {
+	switch kind {
+	case "lcg":
+		x := uint32(seed|1) & (1<<31 - 1)
+		return func(d []byte) {
 			for i := range d {
 				x = (65539 * x) & (1<<31 - 1)
 				if base&(base-1) == 0 {
@@ -264,20 +281,55 @@ func generator(kind string, seed uint64) func(n, base int) ([]byte, error) {
 					d[i] = byte(uint64(x) * uint64(base) >> 31)
 				}
 			}
-			return d, nil
-		case "pcg":
-			rng := rand.New(rand.NewPCG(seed, 0))
-			for i := range d {
-				d[i] = byte(rng.IntN(base))
-			}
-		default:
-			var key [32]byte
-			copy(key[:], strconv.FormatUint(seed, 10))
-			rng := rand.New(rand.NewChaCha8(key))
+		}
+	case "pcg":
+		rng := rand.New(rand.NewPCG(seed, 0))
+		return func(d []byte) {
 			for i := range d {
 				d[i] = byte(rng.IntN(base))
 			}
 		}
-		return d, nil
 	}
+	var key [32]byte
+	copy(key[:], strconv.FormatUint(seed, 10))
+	rng := rand.New(rand.NewChaCha8(key))
+	return func(d []byte) {
+		for i := range d {
+			d[i] = byte(rng.IntN(base))
+		}
+	}
+}
+
+// streamChunk is the size of the buffers Stream hands out: 1 MiB.
+const streamChunk = 1 << 20
+
+// Streams reports whether the source's digits can come in chunks, in
+// memory that does not grow with their number (the generators and iid
+// vectors; constants and the digit-by-digit sequences need them all).
+func (s Source) Streams() bool { return s.stream != nil }
+
+// Stream hands digits offset+1 .. offset+n of a source that Streams to
+// each, in order, in buffers of at most 1 MiB that each may keep only
+// until it returns; it stops at the first error each returns. The digits
+// are those CheckedDigits returns.
+func (s Source) Stream(n, offset, base int, each func([]byte) error) error {
+	if !s.Streams() {
+		return fmt.Errorf("source %s does not stream its digits", s.Name)
+	}
+	if s.base != 0 && base != s.base {
+		return fmt.Errorf("source %s has base-%d digits only; base %d was asked", s.Name, s.base, base)
+	}
+	fill := s.stream(base)
+	buf := make([]byte, streamChunk)
+	for skip := offset; skip > 0; skip -= min(skip, streamChunk) {
+		fill(buf[:min(skip, streamChunk)])
+	}
+	for left := n; left > 0; left -= min(left, streamChunk) {
+		b := buf[:min(left, streamChunk)]
+		fill(b)
+		if err := each(b); err != nil {
+			return err
+		}
+	}
+	return nil
 }

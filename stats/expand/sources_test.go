@@ -183,3 +183,46 @@ func TestDigitBoundaryRetry(t *testing.T) {
 		t.Errorf("only %d attempts before giving up", calls)
 	}
 }
+
+// A generator's digits streamed in 1 MiB chunks are the digits of one
+// call, for every generator kind, at offsets and lengths that cross the
+// chunks' ends; constants and digit-by-digit sequences do not stream.
+func TestStreamEqualsDigits(t *testing.T) {
+	for _, c := range []struct {
+		name      string
+		base      int
+		n, offset int
+	}{
+		{"chacha8:1", 10, 3*streamChunk + 17, 0}, {"pcg:3", 7, streamChunk + 1, streamChunk - 1},
+		{"lcg:5", 256, 2 * streamChunk, 5}, {"lcg:5", 10, 1000, streamChunk + 3}, {"iid:0.2,0.3,0.5", 3, 2*streamChunk + 9, 11},
+	} {
+		src, err := ParseSource(c.name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, _, err := src.CheckedDigits(c.n, c.offset, c.base)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []byte
+		chunks := 0
+		if err := src.Stream(c.n, c.offset, c.base, func(d []byte) error {
+			if len(d) > streamChunk {
+				t.Fatalf("a chunk of %d digits", len(d))
+			}
+			got = append(got, d...)
+			chunks++
+			return nil
+		}); err != nil {
+			t.Fatal(err)
+		}
+		if string(got) != string(want) || chunks != (c.n+streamChunk-1)/streamChunk {
+			t.Errorf("%s base %d: streamed %d digits in %d chunks differ from the %d of one call", c.name, c.base, len(got), chunks, len(want))
+		}
+	}
+	for _, name := range []string{"pi", "champernowne", "rational:1/7"} {
+		if src, _ := ParseSource(name); src.Streams() {
+			t.Errorf("%s claims to stream", name)
+		}
+	}
+}
