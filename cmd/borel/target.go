@@ -1,9 +1,9 @@
 package main
 
 import (
-	"io"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"

@@ -17,7 +17,7 @@ type Source struct {
 	fixed  fixedFunc
 	symbol string                            // the constant's name in messages: "π", "√2", …
 	direct func(n, base int) ([]byte, error) // sequences defined digit by digit
-	stream func(base int) func(d []byte)      // generators: the next digits into d, chunk after chunk
+	stream func(base int) func(d []byte)     // generators: the next digits into d, chunk after chunk
 	base   int                               // a source with a base of its own (iid), else 0
 	meter  Meter                             // progress of a constant's computation, or nil
 }
