@@ -174,9 +174,12 @@ func useExtraction(src expand.Source, method string, base, offset, count int) (b
 		if !fits {
 			return false, usagef("--method extract gives at most %d base-%d digits at a time (--count %d); ask for fewer, or run it once per stretch", expand.MaxExtractDigits/bitsPer, base, count)
 		}
+		if uint64(offset)*uint64(bitsPer) > expand.MaxExtractPosition {
+			return false, usagef("--offset %d: digit extraction reaches binary position 2^40 (base-%d digit %d); ask for an earlier offset", offset, base, expand.MaxExtractPosition/uint64(bitsPer))
+		}
 		return true, nil
 	case "auto":
-		return fits && offset >= 8*count, nil
+		return fits && offset >= 8*count && uint64(offset)*uint64(bitsPer) <= expand.MaxExtractPosition, nil
 	}
 	return false, usagef("--method %q: choose auto, series or extract", method)
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/bits"
 	"math/rand/v2"
+	"os"
 	"slices"
 	"strings"
 	"time"
@@ -65,6 +66,9 @@ func runVerify(e env, args []string) (int, error) {
 	}
 	if *source == "" {
 		return 0, usagef("verify needs --source, what the file should hold (e.g. --source pi)")
+	}
+	if st, err := os.Stat(input); err == nil && st.IsDir() {
+		return 0, usagef("%s is a directory; give a file of digits", input)
 	}
 	src, err := expand.ParseSource(*source)
 	if err != nil {

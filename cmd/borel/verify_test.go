@@ -45,6 +45,7 @@ func TestDigitsExtractionMatchesSeries(t *testing.T) {
 		{[]string{"pi", "--base", "10", "--count", "8", "--method", "extract"}, "not pi in base 10"},
 		{[]string{"pi", "--base", "16", "--count", "300", "--method", "extract"}, "at most 224 base-16 digits at a time"},
 		{[]string{"pi", "--base", "16", "--count", "3", "--method", "fast"}, `--method "fast": choose auto, series or extract`},
+		{[]string{"pi", "--base", "16", "--count", "3", "--offset", "400000000000", "--method", "extract"}, "digit extraction reaches binary position 2^40"},
 	} {
 		code, _, errs := borel(t, "", append([]string{"digits"}, c.args...)...)
 		if code != exitUsage || !strings.Contains(errs, c.want) || strings.Count(errs, "\n") != 1 {
@@ -140,6 +141,7 @@ func TestVerifyCatchesWrongFiles(t *testing.T) {
 		{[]string{"verify", paths["right"], "--source", "pi", "--base", "16", "--all", "--method", "extract"}, "--all compares every digit"},
 		{[]string{"verify", paths["right"], "--source", "pi", "--base", "10"}, "not below base 10; give the right --base"},
 		{[]string{"verify", "/nonexistent/x.txt", "--source", "pi"}, "cannot open /nonexistent/x.txt"},
+		{[]string{"verify", t.TempDir(), "--source", "pi"}, "is a directory; give a file of digits"},
 	} {
 		code, _, errs := borel(t, "", c.args...)
 		if code == 0 || !strings.Contains(errs, c.want) || strings.Count(errs, "\n") != 1 {

@@ -384,6 +384,11 @@ func Ln2Bits(pos uint64, nb int) ([]byte, string, error) {
 	return certifiedBits("ln 2", pos, nb, 1, ln2Wide)
 }
 
+// MaxExtractPosition is the farthest binary position extraction serves:
+// 2^40 keeps every modulus (8k+5 for π) and exponent far inside the
+// 64-bit lanes, and the error bound's count of terms within a word.
+const MaxExtractPosition = 1 << 40
+
 // MaxExtractDigits bounds the digits of one extraction: 1024 bits less the
 // error's words at the largest positions.
 const MaxExtractDigits = 896
@@ -409,7 +414,7 @@ func (s Source) ExtractDigits(base int, offset uint64, count int) ([]byte, strin
 	if count < 1 || count*j > MaxExtractDigits {
 		return nil, "", fmt.Errorf("digit extraction gives 1 to %d binary digits at a time (%d base-%d digits); asked for %d", MaxExtractDigits, MaxExtractDigits/j, base, count)
 	}
-	if offset > (1<<40)/uint64(j) {
+	if offset*uint64(j) > MaxExtractPosition {
 		return nil, "", fmt.Errorf("digit extraction reaches binary position 2^40 here; offset %d in base %d is beyond it", offset, base)
 	}
 	get := PiBits
