@@ -126,7 +126,14 @@ func runDigits(e env, args []string) (int, error) {
 	var checks []string
 	if extract {
 		var how string
-		d, how, err = src.ExtractDigits(b, uint64(*offset), *count)
+		esrc := src
+		p := newProgress(e, *quiet, -1)
+		if p != nil {
+			what := fmt.Sprintf("%s in base %d after digit %d", src.Name, b, *offset)
+			esrc = src.WithMeter(func(phase string, done float64) { p.phase(what, phase, done) })
+		}
+		d, how, err = esrc.ExtractDigits(b, uint64(*offset), *count)
+		p.done() // the line goes before anything else is written
 		checks = []string{how}
 	} else {
 		d, checks, err = checkedDigits(e, *quiet, src, *count, *offset, b)

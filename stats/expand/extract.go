@@ -65,7 +65,7 @@ func pow2Init(e uint64, m uint64) uint64 {
 //
 // in one word (piWide in far.go has the terms and the bound).
 func piExtract(d uint64) (F, errUnits uint64) {
-	w, e := piWide(d, 1)
+	w, e := piWide(d, 1, nil)
 	return w[0], e
 }
 
@@ -76,6 +76,6 @@ func piExtract(d uint64) (F, errUnits uint64) {
 //
 // in one word (ln2Wide in far.go).
 func ln2Extract(d uint64) (F, errUnits uint64) {
-	w, e := ln2Wide(d, 1)
+	w, e := ln2Wide(d, 1, nil)
 	return w[0], e
 }

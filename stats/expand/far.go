@@ -220,16 +220,20 @@ func pow2Mont64x4(L0, L1, L2, L3, m0, m1, m2, m3 uint64) (r0, r1, r2, r3, i0, i1
 
 // parallelWide splits [lo, hi) into pieces for the available cores and adds
 // what f sums for each piece into a W-word fraction.
-func parallelWide(lo, hi uint64, W int, f func(lo, hi uint64, s wideSum)) wideSum {
+func parallelWide(lo, hi uint64, W int, mt *meter, f func(lo, hi uint64, s wideSum)) wideSum {
 	total := make(wideSum, W)
 	if hi <= lo {
 		return total
 	}
 	workers := uint64(runtime.GOMAXPROCS(0))
 	pieces := uint64(1)
-	if hi-lo >= 1<<16 && workers > 1 {
+	switch {
+	case hi-lo >= 1<<24:
+		pieces = 64 * workers // long sums: fine steps for the progress line too
+	case hi-lo >= 1<<16:
 		pieces = 8 * workers // more pieces than workers, so that a slow core does not hold the rest
 	}
+	mt.begin("digit extraction", float64(hi-lo))
 	step := (hi - lo + pieces - 1) / pieces
 	sums := make([]wideSum, pieces)
 	next := make(chan uint64, pieces)
@@ -248,6 +252,7 @@ func parallelWide(lo, hi uint64, W int, f func(lo, hi uint64, s wideSum)) wideSu
 				if a < b {
 					sums[p] = make(wideSum, W)
 					f(a, b, sums[p])
+					mt.add(float64(b - a))
 				}
 			}
 		}()
@@ -269,7 +274,7 @@ func parallelWide(lo, hi uint64, W int, f func(lo, hi uint64, s wideSum)) wideSu
 // than one unit. A k's four truncations leave the sum short by
 // ε0 − ε1 − ε2 − ε3 ∈ (−3, 1); centred by one unit a k, the error is below
 // 2 units a k, plus the rest: errUnits = 2·(d+16W+1) + 1.
-func piWide(d uint64, W int) (wideSum, uint64) {
+func piWide(d uint64, W int, mt *meter) (wideSum, uint64) {
 	head := func(lo, hi uint64, s wideSum) {
 		q := make([]uint64, W)
 		var E, m, r, inv [4]uint64
@@ -284,7 +289,7 @@ func piWide(d uint64, W int) (wideSum, uint64) {
 			s.addFrac(r[3], inv[3], m[3], true, q)
 		}
 	}
-	F := parallelWide(0, d, W, head)
+	F := parallelWide(0, d, W, mt, head)
 	last := d + 16*uint64(W)
 	for k := d; k <= last; k++ {
 		sh := -4 * int(k-d)
@@ -305,7 +310,7 @@ func piWide(d uint64, W int) (wideSum, uint64) {
 // k = d+64W+6 are formed exactly, and the rest add less than 2^-(64W+6).
 // Each of the n truncations leaves the sum short by [0, 1) units: centred
 // by n/2, the error is at most n/2 + 1 units.
-func ln2Wide(d uint64, W int) (wideSum, uint64) {
+func ln2Wide(d uint64, W int, mt *meter) (wideSum, uint64) {
 	var split uint64 = 1
 	if d > 70 {
 		split = d - 69
@@ -328,7 +333,7 @@ func ln2Wide(d uint64, W int) (wideSum, uint64) {
 			}
 		}
 	}
-	F := parallelWide(1, split, W, head)
+	F := parallelWide(1, split, W, mt, head)
 	last := d + 64*uint64(W) + 6
 	for k := split; k <= last; k++ {
 		F.addTail(1, int(d)-int(k), k, false)
@@ -352,12 +357,12 @@ func topBits(F wideSum, nb int) []byte {
 // wide(d, W) of the bits after position align·d, and says how they were
 // determined. It widens the fraction until every value within the error
 // bound shares the bits.
-func certifiedBits(name string, pos uint64, nb int, align uint64, wide func(d uint64, W int) (wideSum, uint64)) ([]byte, string, error) {
+func certifiedBits(name string, pos uint64, nb int, align uint64, mt *meter, wide func(d uint64, W int, mt *meter) (wideSum, uint64)) ([]byte, string, error) {
 	d, skip := pos/align, int(pos%align)
 	need := skip + nb
 	W := (need + bits.Len64(4*d+1024) + 8 + 63) / 64
 	for ; W <= maxFarWords; W++ {
-		F, e := wide(d, W)
+		F, e := wide(d, W, mt)
 		lo, hi := slicesClone(F), slicesClone(F)
 		lo.addUnits(-int64(e))
 		hi.addUnits(int64(e))
@@ -375,13 +380,13 @@ func slicesClone(s wideSum) wideSum { return append(wideSum(nil), s...) }
 // PiBits returns the nb binary digits of π after its first pos fractional
 // binary digits, each certified, and says how they were determined.
 func PiBits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("π", pos, nb, 4, piWide)
+	return certifiedBits("π", pos, nb, 4, nil, piWide)
 }
 
 // Ln2Bits returns the nb binary digits of ln 2 after its first pos
 // binary digits, each certified, and says how they were determined.
 func Ln2Bits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("ln 2", pos, nb, 1, ln2Wide)
+	return certifiedBits("ln 2", pos, nb, 1, nil, ln2Wide)
 }
 
 // MaxExtractPosition is the farthest binary position extraction serves:
@@ -417,11 +422,14 @@ func (s Source) ExtractDigits(base int, offset uint64, count int) ([]byte, strin
 	if offset*uint64(j) > MaxExtractPosition {
 		return nil, "", fmt.Errorf("digit extraction reaches binary position 2^40 here; offset %d in base %d is beyond it", offset, base)
 	}
-	get := PiBits
+	var b []byte
+	var how string
+	var err error
 	if s.Name == "ln2" {
-		get = Ln2Bits
+		b, how, err = certifiedBits("ln 2", offset*uint64(j), count*j, 1, newMeter(s.meter), ln2Wide)
+	} else {
+		b, how, err = certifiedBits("π", offset*uint64(j), count*j, 4, newMeter(s.meter), piWide)
 	}
-	b, how, err := get(offset*uint64(j), count*j)
 	if err != nil {
 		return nil, "", err
 	}

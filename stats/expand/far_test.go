@@ -111,7 +111,7 @@ func TestWideErrorBounds(t *testing.T) {
 		ref, _ := new(big.Int).SetString(c.want, 16)
 		refBits := 4 * len(c.want)
 		for W := 1; 64*W <= refBits; W++ {
-			F, e := wide(c.d, W)
+			F, e := wide(c.d, W, nil)
 			got := new(big.Int)
 			for _, w := range F {
 				got.Lsh(got, 64)
@@ -139,7 +139,7 @@ func TestCertificationExtends(t *testing.T) {
 	// The value 0.0111…1 (then a 1 after 64W−40 ones): with W words the
 	// error bound of 16 units reaches across 0.1 until the value sits far
 	// enough below it, which it does from W = 3 on.
-	fake := func(d uint64, W int) (wideSum, uint64) {
+	fake := func(d uint64, W int, _ *meter) (wideSum, uint64) {
 		widths = append(widths, W)
 		F := make(wideSum, W)
 		for i := range F {
@@ -151,16 +151,16 @@ func TestCertificationExtends(t *testing.T) {
 		}
 		return F, 16
 	}
-	bits, how, err := certifiedBits("x", 0, 8, 1, fake)
+	bits, how, err := certifiedBits("x", 0, 8, 1, nil, fake)
 	if err != nil || string(bits) != string([]byte{0, 1, 1, 1, 1, 1, 1, 1}) || widths[len(widths)-1] != 3 || !strings.Contains(how, "192-bit") {
 		t.Errorf("extension: bits %v, widths %v, %q, %v", bits, widths, how, err)
 	}
-	never := func(d uint64, W int) (wideSum, uint64) {
+	never := func(d uint64, W int, _ *meter) (wideSum, uint64) {
 		F := make(wideSum, W)
 		F[0] = 1 << 63 // exactly on the boundary: never determined
 		return F, 1
 	}
-	if _, _, err := certifiedBits("x", 0, 8, 1, never); err == nil || !strings.Contains(err.Error(), "not determined") {
+	if _, _, err := certifiedBits("x", 0, 8, 1, nil, never); err == nil || !strings.Contains(err.Error(), "not determined") {
 		t.Errorf("a value on a boundary: %v", err)
 	}
 }

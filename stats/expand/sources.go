@@ -23,7 +23,8 @@ type Source struct {
 }
 
 // WithMeter returns the source reporting the progress of its computations
-// to m (constants only: the other sources are immediate).
+// to m: a constant's series, division and conversion, and digit extraction
+// (the other sources are immediate).
 func (s Source) WithMeter(m Meter) Source {
 	s.meter = m
 	return s
