@@ -63,9 +63,10 @@ func pow2Init(e uint64, m uint64) uint64 {
 //
 //	π = Σ_{k≥0} 16^-k (4/(8k+1) − 2/(8k+4) − 1/(8k+5) − 1/(8k+6)),
 //
-// in one word (piWide in far.go has the terms and the bound).
+// in one word, by Bellard's faster formula of the same family (piWide in
+// far.go has the terms and the bound).
 func piExtract(d uint64) (F, errUnits uint64) {
-	w, e := piWide(d, 1, nil)
+	w, e := piWide(4*d, 1, nil)
 	return w[0], e
 }
 

@@ -266,41 +266,81 @@ func parallelWide(lo, hi uint64, W int, mt *meter, f func(lo, hi uint64, s wideS
 	return total
 }
 
-// piWide returns F ≈ 2^(64W)·frac(16^d·π) in W words and its error bound in
-// units of 2^-64W: hexadecimal digits d+1, d+2, … of π, from the sum of
-// piExtract. A head term k < d (e = d−k ≥ 1) is frac(2^(4e+2)/(8k+1)) −
-// frac(2^(4e−1)/(2k+1)) − frac(2^(4e)/(8k+5)) − frac(2^(4e−1)/(4k+3)); the
-// terms from k = d to d+16W are formed exactly, and those after add less
-// than one unit. A k's four truncations leave the sum short by
-// ε0 − ε1 − ε2 − ε3 ∈ (−3, 1); centred by one unit a k, the error is below
-// 2 units a k, plus the rest: errUnits = 2·(d+16W+1) + 1.
-func piWide(d uint64, W int, mt *meter) (wideSum, uint64) {
+// bellard's seven terms of n: π = 2^-6 Σ_{n≥0} (−1)^n 2^(-10n) Σ_t s_t·2^(e_t)/(a_t·n + b_t)
+// (Bellard 1997, the faster variant of the Bailey–Borwein–Plouffe formula):
+// −2^5/(4n+1) − 1/(4n+3) + 2^8/(10n+1) − 2^6/(10n+3) − 2^2/(10n+5) − 2^2/(10n+7) + 1/(10n+9).
+var bellard = [7]struct {
+	e    uint64 // the power of 2 in the numerator
+	a, b uint64 // the denominator a·n + b
+	neg  bool   // subtracted (before (−1)^n)
+}{{5, 4, 1, true}, {0, 4, 3, true}, {8, 10, 1, false}, {6, 10, 3, true}, {2, 10, 5, true}, {2, 10, 7, true}, {0, 10, 9, false}}
+
+// piVia names the formula in what ExtractDigits says.
+const piVia = "; Bellard's formula"
+
+// piWide returns F ≈ 2^(64W)·frac(2^P·π) in W words and its error bound in
+// units of 2^-64W: binary digits P+1, P+2, … of π, by Bellard's formula
+// (bellard): 2^P·π = Σ_n Σ_t ±2^(P−6−10n+e_t)/(a_t·n + b_t), with odd
+// denominators throughout. A term of exponent E ≥ 0 is frac(2^E/m), one
+// modular power (four lanes at a time, across n); the terms of the n past
+// (P−6)/10 are formed exactly, up to the n where they fall below 2^-(64W+9)
+// (each n's seven terms weigh at most 362·2^E/m), and the rest add less
+// than one unit. About 0.7 modular powers a bit position against BBP's 1.
+// Each term is truncated once: an added one leaves the sum short by [0, 1)
+// units, a subtracted one long by [0, 1); centred by half their difference,
+// the error is at most half their number plus 2 (the rest and the centring's
+// rounding).
+func piWide(P uint64, W int, mt *meter) (wideSum, uint64) {
+	var nHead uint64 // the n with every exponent ≥ 0: P − 6 − 10n ≥ 0
+	if P >= 6 {
+		nHead = (P-6)/10 + 1
+	}
 	head := func(lo, hi uint64, s wideSum) {
 		q := make([]uint64, W)
 		var E, m, r, inv [4]uint64
-		for k := lo; k < hi; k++ {
-			e := d - k
-			E = [4]uint64{4*e + 2, 4*e - 1, 4 * e, 4*e - 1}
-			m = [4]uint64{8*k + 1, 2*k + 1, 8*k + 5, 4*k + 3}
+		var neg [4]bool
+		lanes := 0
+		for n := lo; n < hi; n++ {
+			base, odd := P-6-10*n, n&1 == 1
+			for ti := range bellard {
+				t := &bellard[ti]
+				E[lanes], m[lanes], neg[lanes] = base+t.e, t.a*n+t.b, t.neg != odd
+				if lanes++; lanes == 4 {
+					pow2Mod4(&E, &m, &r, &inv)
+					s.addFrac(r[0], inv[0], m[0], neg[0], q)
+					s.addFrac(r[1], inv[1], m[1], neg[1], q)
+					s.addFrac(r[2], inv[2], m[2], neg[2], q)
+					s.addFrac(r[3], inv[3], m[3], neg[3], q)
+					lanes = 0
+				}
+			}
+		}
+		if lanes > 0 {
+			for i := lanes; i < 4; i++ { // unused lanes: 2^0 mod 1
+				E[i], m[i] = 0, 1
+			}
 			pow2Mod4(&E, &m, &r, &inv)
-			s.addFrac(r[0], inv[0], m[0], false, q)
-			s.addFrac(r[1], inv[1], m[1], true, q)
-			s.addFrac(r[2], inv[2], m[2], true, q)
-			s.addFrac(r[3], inv[3], m[3], true, q)
+			for i := range lanes {
+				s.addFrac(r[i], inv[i], m[i], neg[i], q)
+			}
 		}
 	}
-	F := parallelWide(0, d, W, mt, head)
-	last := d + 16*uint64(W)
-	for k := d; k <= last; k++ {
-		sh := -4 * int(k-d)
-		F.addTail(4, sh, 8*k+1, false)
-		F.addTail(2, sh, 8*k+4, true)
-		F.addTail(1, sh, 8*k+5, true)
-		F.addTail(1, sh, 8*k+6, true)
+	F := parallelWide(0, nHead, W, mt, head)
+	last := (P+uint64(64*W)+9)/10 + 2
+	for n := nHead; n <= last; n++ {
+		for _, t := range bellard {
+			sh := int64(P) - 6 - 10*int64(n) + int64(t.e)
+			F.addTail(1, int(sh), t.a*n+t.b, t.neg != (n%2 == 1))
+		}
 	}
-	n := last + 1 // the k's whose terms were truncated
-	F.addUnits(-int64(n))
-	return F, 2*n + 1
+	// Added and subtracted truncations: 2 and 5 of the seven for even n, 5
+	// and 2 for odd n.
+	terms := 7 * (last + 1)
+	evens := last/2 + 1
+	added := 2*evens + 5*(last+1-evens)
+	subtracted := terms - added
+	F.addUnits((int64(added) - int64(subtracted)) / 2)
+	return F, terms/2 + 2
 }
 
 // ln2Wide returns F ≈ 2^(64W)·frac(2^d·ln 2) in W words and its error
@@ -357,7 +397,7 @@ func topBits(F wideSum, nb int) []byte {
 // wide(d, W) of the bits after position align·d, and says how they were
 // determined. It widens the fraction until every value within the error
 // bound shares the bits.
-func certifiedBits(name string, pos uint64, nb int, align uint64, mt *meter, wide func(d uint64, W int, mt *meter) (wideSum, uint64)) ([]byte, string, error) {
+func certifiedBits(name, via string, pos uint64, nb int, align uint64, mt *meter, wide func(d uint64, W int, mt *meter) (wideSum, uint64)) ([]byte, string, error) {
 	d, skip := pos/align, int(pos%align)
 	need := skip + nb
 	W := (need + bits.Len64(4*d+1024) + 8 + 63) / 64
@@ -368,8 +408,8 @@ func certifiedBits(name string, pos uint64, nb int, align uint64, mt *meter, wid
 		hi.addUnits(int64(e))
 		a, b := topBits(lo, need), topBits(hi, need)
 		if string(a) == string(b) {
-			return a[skip:], fmt.Sprintf("binary digits %d to %d of %s by digit extraction (Bailey, Borwein & Plouffe 1997) with %d-bit fractions: the sum is within %d units of 2^-%d, and every value within that bound has these digits",
-				pos+1, pos+uint64(nb), name, 64*W, e, 64*W), nil
+			return a[skip:], fmt.Sprintf("binary digits %d to %d of %s by digit extraction (Bailey, Borwein & Plouffe 1997%s) with %d-bit fractions: the sum is within %d units of 2^-%d, and every value within that bound has these digits",
+				pos+1, pos+uint64(nb), name, via, 64*W, e, 64*W), nil
 		}
 	}
 	return nil, "", fmt.Errorf("the binary digits %d to %d of %s are not determined by digit extraction with %d-bit fractions (a run of equal digits follows them); ask for fewer digits", pos+1, pos+uint64(nb), name, 64*maxFarWords)
@@ -380,13 +420,13 @@ func slicesClone(s wideSum) wideSum { return append(wideSum(nil), s...) }
 // PiBits returns the nb binary digits of π after its first pos fractional
 // binary digits, each certified, and says how they were determined.
 func PiBits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("π", pos, nb, 4, nil, piWide)
+	return certifiedBits("π", piVia, pos, nb, 1, nil, piWide)
 }
 
 // Ln2Bits returns the nb binary digits of ln 2 after its first pos
 // binary digits, each certified, and says how they were determined.
 func Ln2Bits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("ln 2", pos, nb, 1, nil, ln2Wide)
+	return certifiedBits("ln 2", "", pos, nb, 1, nil, ln2Wide)
 }
 
 // MaxExtractPosition is the farthest binary position extraction serves:
@@ -426,9 +466,9 @@ func (s Source) ExtractDigits(base int, offset uint64, count int) ([]byte, strin
 	var how string
 	var err error
 	if s.Name == "ln2" {
-		b, how, err = certifiedBits("ln 2", offset*uint64(j), count*j, 1, newMeter(s.meter), ln2Wide)
+		b, how, err = certifiedBits("ln 2", "", offset*uint64(j), count*j, 1, newMeter(s.meter), ln2Wide)
 	} else {
-		b, how, err = certifiedBits("π", offset*uint64(j), count*j, 4, newMeter(s.meter), piWide)
+		b, how, err = certifiedBits("π", piVia, offset*uint64(j), count*j, 1, newMeter(s.meter), piWide)
 	}
 	if err != nil {
 		return nil, "", err

@@ -104,14 +104,14 @@ func TestExtractPublishedTable(t *testing.T) {
 // bound of the truncated reference (mpmath's bits, to 160 and 256 bits).
 func TestWideErrorBounds(t *testing.T) {
 	for _, c := range mpmathFar {
-		wide := piWide
+		wide, at := piWide, 4*c.d // piWide takes a bit position
 		if c.src == "ln2" {
-			wide = ln2Wide
+			wide, at = ln2Wide, c.d
 		}
 		ref, _ := new(big.Int).SetString(c.want, 16)
 		refBits := 4 * len(c.want)
 		for W := 1; 64*W <= refBits; W++ {
-			F, e := wide(c.d, W, nil)
+			F, e := wide(at, W, nil)
 			got := new(big.Int)
 			for _, w := range F {
 				got.Lsh(got, 64)
@@ -151,7 +151,7 @@ func TestCertificationExtends(t *testing.T) {
 		}
 		return F, 16
 	}
-	bits, how, err := certifiedBits("x", 0, 8, 1, nil, fake)
+	bits, how, err := certifiedBits("x", "", 0, 8, 1, nil, fake)
 	if err != nil || string(bits) != string([]byte{0, 1, 1, 1, 1, 1, 1, 1}) || widths[len(widths)-1] != 3 || !strings.Contains(how, "192-bit") {
 		t.Errorf("extension: bits %v, widths %v, %q, %v", bits, widths, how, err)
 	}
@@ -160,7 +160,74 @@ func TestCertificationExtends(t *testing.T) {
 		F[0] = 1 << 63 // exactly on the boundary: never determined
 		return F, 1
 	}
-	if _, _, err := certifiedBits("x", 0, 8, 1, nil, never); err == nil || !strings.Contains(err.Error(), "not determined") {
+	if _, _, err := certifiedBits("x", "", 0, 8, 1, nil, never); err == nil || !strings.Contains(err.Error(), "not determined") {
 		t.Errorf("a value on a boundary: %v", err)
+	}
+}
+
+// bbpWide returns F ≈ 2^(64W)·frac(16^d·π) in W words and its error bound in
+// units of 2^-64W: hexadecimal digits d+1, d+2, … of π, by the Bailey–Borwein–Plouffe formula
+// (the formula production used before Bellard's; kept here as a second,
+// independent extraction to check it against). A head term k < d (e = d−k ≥ 1) is frac(2^(4e+2)/(8k+1)) −
+// frac(2^(4e−1)/(2k+1)) − frac(2^(4e)/(8k+5)) − frac(2^(4e−1)/(4k+3)); the
+// terms from k = d to d+16W are formed exactly, and those after add less
+// than one unit. A k's four truncations leave the sum short by
+// ε0 − ε1 − ε2 − ε3 ∈ (−3, 1); centred by one unit a k, the error is below
+// 2 units a k, plus the rest: errUnits = 2·(d+16W+1) + 1.
+func bbpWide(d uint64, W int, mt *meter) (wideSum, uint64) {
+	head := func(lo, hi uint64, s wideSum) {
+		q := make([]uint64, W)
+		var E, m, r, inv [4]uint64
+		for k := lo; k < hi; k++ {
+			e := d - k
+			E = [4]uint64{4*e + 2, 4*e - 1, 4 * e, 4*e - 1}
+			m = [4]uint64{8*k + 1, 2*k + 1, 8*k + 5, 4*k + 3}
+			pow2Mod4(&E, &m, &r, &inv)
+			s.addFrac(r[0], inv[0], m[0], false, q)
+			s.addFrac(r[1], inv[1], m[1], true, q)
+			s.addFrac(r[2], inv[2], m[2], true, q)
+			s.addFrac(r[3], inv[3], m[3], true, q)
+		}
+	}
+	F := parallelWide(0, d, W, mt, head)
+	last := d + 16*uint64(W)
+	for k := d; k <= last; k++ {
+		sh := -4 * int(k-d)
+		F.addTail(4, sh, 8*k+1, false)
+		F.addTail(2, sh, 8*k+4, true)
+		F.addTail(1, sh, 8*k+5, true)
+		F.addTail(1, sh, 8*k+6, true)
+	}
+	n := last + 1 // the k's whose terms were truncated
+	F.addUnits(-int64(n))
+	return F, 2*n + 1
+}
+
+// Bellard's formula (production) and the Bailey–Borwein–Plouffe formula
+// (bbpWide) agree within their bounds at hexadecimal positions near and
+// far, in one and three words: two extractions that share no term.
+func TestBellardAgreesWithBBP(t *testing.T) {
+	for _, d := range []uint64{0, 1, 2, 3, 7, 100, 12345, 1 << 20, 3_000_001} {
+		for _, W := range []int{1, 3} {
+			a, ea := piWide(4*d, W, nil)
+			b, eb := bbpWide(d, W, nil)
+			diff := make(wideSum, W)
+			copy(diff, a)
+			diff.addWords(b, true)
+			// |a − b| ≤ ea + eb circularly: the difference or its negation is small.
+			small := func(x wideSum) bool {
+				for _, w := range x[:W-1] {
+					if w != 0 {
+						return false
+					}
+				}
+				return x[W-1] <= ea+eb
+			}
+			neg := make(wideSum, W)
+			neg.addWords(diff, true)
+			if !small(diff) && !small(neg) {
+				t.Errorf("hex position %d, %d words: Bellard %x, BBP %x (bounds %d, %d)", d, W, a, b, ea, eb)
+			}
+		}
 	}
 }
