@@ -27,10 +27,10 @@ one exact product. A digit too close to a boundary is recomputed with more preci
 check is an error, and nothing is printed. Standard error says what was checked.
 
 Digits far out: pi and ln2 in bases 2, 4, 8 and 16 are also computed at any offset by digit
-extraction (Bailey, Borwein & Plouffe 1997), without the digits before them and in constant memory,
-up to 896 binary digits at a time; every digit is certified by the error bound of the sums. --method
-extract asks for it, --method series for the whole computation; auto (the default) extracts when the
-offset is at least 8 times the count.
+extraction (Bailey, Borwein & Plouffe 1997; Bellard's formula for pi), without the digits before
+them and in constant memory, up to 896 binary digits at a time; every digit is certified by the
+error bound of the sums. --method extract asks for it, --method series for the whole computation;
+auto (the default) extracts when the offset is at least 8 times the count.
 
 Sources: pi, e, sqrtN (e.g. sqrt2), ln2, phi, champernowne, copeland-erdos, stoneham:B,C
 (coprime B, C ≥ 2), rational:P/Q, liouville; generators iid:p0,p1,..., pcg:SEED, chacha8:SEED and
