@@ -84,8 +84,8 @@ func extractionPos(prec uint, align uint64) uint64 {
 //
 // summed by binary splitting (14.18 digits per term), then
 // π = 426880 √10005 · Q / T. The fractional part π - 3 is returned, checked
-// by Bailey–Borwein–Plouffe extraction of the hexadecimal digits at the
-// end of the precision (piExtract).
+// by digit extraction (Bellard's formula, of the Bailey–Borwein–Plouffe
+// family) of the hexadecimal digits at the end of the precision (piExtract).
 func piFixed(prec uint, mt *meter) (fixedValue, error) {
 	terms := int64(float64(prec)/47.11) + 2 // log2(640320³/1728) ≈ 47.11 bits per term
 	mt.begin("series", splitCost(terms))
@@ -119,7 +119,7 @@ func piFixed(prec uint, mt *meter) (fixedValue, error) {
 	pos := extractionPos(prec, 4)
 	mt.begin("value check", 0)
 	F, bound := piExtract(pos / 4)
-	check, err := checkExtraction("π", "Bailey–Borwein–Plouffe digit extraction", v, errUnits, prec, pos, F, bound)
+	check, err := checkExtraction("π", "digit extraction by Bellard's formula (of the Bailey–Borwein–Plouffe family)", v, errUnits, prec, pos, F, bound)
 	return fixedValue{V: v, Err: errUnits, Check: check}, err
 }
 

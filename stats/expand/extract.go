@@ -59,12 +59,9 @@ func pow2Init(e uint64, m uint64) uint64 {
 
 // piExtract returns F = floor(2^64·frac(16^d·π)) up to an error of at most
 // errUnits units of 2^-64 either way (circularly, mod 2^64): hexadecimal
-// digits d+1, d+2, … of π by the Bailey–Borwein–Plouffe formula
-//
-//	π = Σ_{k≥0} 16^-k (4/(8k+1) − 2/(8k+4) − 1/(8k+5) − 1/(8k+6)),
-//
-// in one word, by Bellard's faster formula of the same family (piWide in
-// far.go has the terms and the bound).
+// digits d+1, d+2, … of π, in one word, by Bellard's formula of the
+// Bailey–Borwein–Plouffe family (piWide in far.go has the terms and the
+// bound; the tests check it against the BBP sum itself).
 func piExtract(d uint64) (F, errUnits uint64) {
 	w, e := piWide(4*d, 1, nil)
 	return w[0], e
