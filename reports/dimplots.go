@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
@@ -42,7 +44,7 @@ func spectrumCurve(s *stats.Spectrum) plotter.XYs {
 // lives), the peak at q = 0, and the marks (an estimate α̂ of the local
 // dimension along a sequence, with its interval).
 func SpectrumFigure(s *stats.Spectrum, name string, marks ...SpectrumMark) (Figure, error) {
-	p := newPlot(fmt.Sprintf("Multifractal spectrum of μ_p, p = %s (base %d)", vectorLabel(s.P), s.Base),
+	p := newPlot(fmt.Sprintf("Multifractal spectrum of μ_p, p = %s (base %d)", VectorLabel(s.P), s.Base),
 		"local dimension α", "f(α) = dim of the set where μ_p has local dimension α")
 	curve, err := plotter.NewLine(spectrumCurve(s))
 	if err != nil {
@@ -116,19 +118,16 @@ func SpectrumFigure(s *stats.Spectrum, name string, marks ...SpectrumMark) (Figu
 	return Figure{Name: name, Title: "Multifractal spectrum f(α)", plot: p, legendBelow: true}, nil
 }
 
-// vectorLabel writes a short vector as (0.5, 0.3, 0.2), a long one by its
-// first entries.
-func vectorLabel(p []float64) string {
-	s := "("
+// VectorLabel writes a frequency vector as (0.5, 0.3, 0.2), with six
+// significant digits an entry, shortened past 12 entries.
+func VectorLabel(p []float64) string {
+	parts := make([]string, 0, len(p))
 	for i, v := range p {
-		if i == 6 && len(p) > 8 {
-			s += fmt.Sprintf(", … %d entries", len(p))
+		if i == 12 && len(p) > 14 {
+			parts = append(parts, fmt.Sprintf("… (%d entries)", len(p)))
 			break
 		}
-		if i > 0 {
-			s += ", "
-		}
-		s += fmt.Sprintf("%.4g", v)
+		parts = append(parts, strconv.FormatFloat(v, 'g', 6, 64))
 	}
-	return s + ")"
+	return "(" + strings.Join(parts, ", ") + ")"
 }

@@ -38,6 +38,9 @@ type htmlFigure struct {
 	SVG   template.HTML
 }
 
+// pageStyle sets a whole page's measure (a fragment leaves it to its host).
+const pageStyle = `<style>body { margin: 2em auto; max-width: 70em; } @media print { body { max-width: none; } }</style>`
+
 const htmlStyle = `<style>
 .borel-report { font-family: system-ui, sans-serif; color: #111; line-height: 1.4; }
 .borel-report h2 { font-size: 1.25em; margin-top: 2em; border-bottom: 1px solid #999; }
@@ -97,7 +100,7 @@ var htmlTemplates = template.Must(template.New("html").Funcs(template.FuncMap{"i
 <meta charset="utf-8">
 <title>borel audit report</title>
 {{.Style}}
-<style>body { margin: 2em auto; max-width: 70em; } @media print { body { max-width: none; } }</style>
+` + pageStyle + `
 </head>
 <body>
 <h1 style="font-family: system-ui, sans-serif">borel audit report</h1>

@@ -322,7 +322,7 @@ func jsonAudit(r *audit.Result) JSONAudit {
 		}
 		if p := e.Position; p != nil {
 			jp := &JSONPosition{QHat: p.Region.QHat, QLow: p.Region.Low, QHigh: p.Region.High, RegionA: p.Region.A,
-				NullInside: p.NullInside, Dimension: p.Dimension, DimLow: finite(p.DimLow), DimHigh: finite(p.DimHigh)}
+				NullInside: p.NullInside, Dimension: e.Rows[0].Dimension, DimLow: finite(e.Rows[0].DimLow), DimHigh: finite(e.Rows[0].DimHigh)}
 			if p.HasAlpha {
 				jp.Alpha, jp.AlphaLow, jp.AlphaHigh = finite(p.Alpha), finite(p.AlphaLow), finite(p.AlphaHigh)
 			}

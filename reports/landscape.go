@@ -549,11 +549,11 @@ func auditSpectrumFigure(r *audit.Result) (Figure, bool, error) {
 		return Figure{}, false, nil
 	}
 	pos := r.Entropy.Position
-	s, err := stats.NewSpectrum(pos.P, r.Base)
+	s, err := stats.NewSpectrum(r.Null.P, r.Base)
 	if err != nil {
 		return Figure{}, false, nil
 	}
 	f, err := SpectrumFigure(s, "spectrum", SpectrumMark{Label: "the sequence", Alpha: pos.Alpha, Lo: pos.AlphaLow, Hi: pos.AlphaHigh,
-		HasInterval: true, Dim: pos.Dimension, HasDim: true})
+		HasInterval: true, Dim: r.Entropy.Rows[0].Dimension, HasDim: true})
 	return f, err == nil, err
 }

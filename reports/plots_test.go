@@ -253,3 +253,32 @@ func uniform10() []float64 {
 	}
 	return p
 }
+
+// The side-by-side table of an HTML page keeps each interval on one line
+// (its cells wrapped at the comma before; class n does not wrap).
+func TestHTMLSummaryIntervalNoWrap(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	var doc Document
+	for _, b := range []int{2, 10} {
+		r, err := audit.Digits(expand.IID(20000, uniformOf(b), rng), b, audit.Source{Name: "x", Kind: "built-in", Bytes: -1}, audit.DefaultOptions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		doc.Results = append(doc.Results, r)
+	}
+	var buf strings.Builder
+	if err := HTML(&buf, doc); err != nil {
+		t.Fatal(err)
+	}
+	if !regexp.MustCompile(`<td class="n">\[[0-9.]+, [0-9.]+\]</td></tr>`).MatchString(buf.String()) {
+		t.Error("the summary's interval cells are not kept on one line")
+	}
+}
+
+func uniformOf(b int) []float64 {
+	p := make([]float64, b)
+	for i := range p {
+		p[i] = 1 / float64(b)
+	}
+	return p
+}

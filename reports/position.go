@@ -26,7 +26,7 @@ func positionTitle(r *audit.Result) string {
 // and under a stated vector the local dimension of μ_p.
 func positionLines(r *audit.Result) []string {
 	e := r.Entropy
-	if e == nil || e.Position == nil {
+	if e == nil || e.Position == nil || len(e.Rows) == 0 {
 		return nil
 	}
 	p := e.Position
@@ -45,7 +45,7 @@ func positionLines(r *audit.Result) []string {
 		fmt.Sprintf("digit frequencies q̂ of %d digits: %s lies %s their region n·Σ(q̂_j − q_j)²/q_j ≤ %s (the Pearson test's, χ² quantile with %d df)",
 			p.Region.N, null, in, strconv.FormatFloat(p.Region.A, 'f', 3, 64), len(p.Region.QHat)-1),
 		fmt.Sprintf("dim F(q̂) = %s %s (Besicovitch–Eggleston dimension of the frequency vector's set; the entropy profile at k = 1)",
-			formatDim(p.Dimension), dimInterval(p.DimLow, p.DimHigh)),
+			formatDim(e.Rows[0].Dimension), dimInterval(e.Rows[0].DimLow, e.Rows[0].DimHigh)),
 	}
 	if p.HasAlpha {
 		if math.IsInf(p.Alpha, 1) {
@@ -53,10 +53,10 @@ func positionLines(r *audit.Result) []string {
 		} else {
 			lines = append(lines, fmt.Sprintf("local dimension of μ_p along the sequence α̂ = −Σ q̂_j log_%d p_j = %s [%s, %s]; a sequence generic for μ_p has α = dim F(p) = %s",
 				r.Base, formatDim(p.Alpha), formatDim(p.AlphaLow), formatDim(p.AlphaHigh), formatDim(e.NullDimension)))
-			if tied := tiedDigits(p.P, r.Base); tied != "" {
+			if tied := tiedDigits(r.Null.P, r.Base); tied != "" {
 				lines = append(lines, fmt.Sprintf("α̂ weighs each digit by −log_%d p_j, so it cannot tell apart digits of equal p_j (%s): moving frequency between them leaves α̂ where it is; the frequency table and dim F(q̂) can", r.Base, tied))
 			}
-			if s, err := stats.NewSpectrum(p.P, r.Base); err == nil {
+			if s, err := stats.NewSpectrum(r.Null.P, r.Base); err == nil {
 				if f, _, ok := s.F(p.Alpha); ok {
 					lines = append(lines, fmt.Sprintf("the spectrum of μ_p there: f(α̂) = %s, the dimension of the numbers at which μ_p has local dimension α̂ (dim F(q̂) ≤ f(α̂), equal when q̂ is a tilted vector of p)", formatDim(f)))
 				}

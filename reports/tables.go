@@ -156,8 +156,7 @@ func sheetLaTeX(w io.Writer, s Sheet) error {
 
 var sheetTemplate = template.Must(template.New("sheet").Parse(`<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>{{.Title}}</title>
-<style>body { margin: 2em auto; max-width: 70em; } @media print { body { max-width: none; } }</style>
-` + htmlStyle + `
+` + pageStyle + htmlStyle + `
 </head><body><section class="borel-report">
 <h2>{{.Title}}</h2>
 {{if .Lines}}<ul>{{range .Lines}}<li>{{.}}</li>{{end}}</ul>{{end}}

@@ -169,7 +169,7 @@ func runDigits(e env, args []string) (int, error) {
 // (auto) where it applies and the offset is at least 8 times the count, so
 // that one sum far out is cheaper than every digit before it.
 func useExtraction(src expand.Source, method string, base, offset, count int) (bool, error) {
-	bitsPer := map[int]int{2: 1, 4: 2, 8: 3, 16: 4}[base]
+	bitsPer := digitBits(base)
 	fits := src.CanExtract(base) && count*bitsPer <= expand.MaxExtractDigits
 	switch method {
 	case "series":

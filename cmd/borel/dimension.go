@@ -185,7 +185,7 @@ func dimensionSheet(s *stats.Spectrum, allowed []int, alpha float64) reports.She
 	if math.Abs(h/math.Ln2-1) < 1e-12 {
 		bitsWord = "bit"
 	}
-	sh := reports.Sheet{Title: fmt.Sprintf("borel dimension: p = %s in base %d", shortVector(s.P), b)}
+	sh := reports.Sheet{Title: fmt.Sprintf("borel dimension: p = %s in base %d", reports.VectorLabel(s.P), b)}
 	sh.Lines = append(sh.Lines, fmt.Sprintf("dim F(p) = %s in base %d (H(p) = %s nats = %s %s per digit)",
 		num6(s.AlphaH), b, num6(h), strconv.FormatFloat(h/math.Ln2, 'g', 6, 64), bitsWord))
 	if allowed != nil {
@@ -241,19 +241,6 @@ func support(p []float64) int {
 		}
 	}
 	return n
-}
-
-// shortVector writes the vector as given, shortened past 12 entries.
-func shortVector(p []float64) string {
-	parts := make([]string, 0, len(p))
-	for i, v := range p {
-		if i == 12 && len(p) > 14 {
-			parts = append(parts, fmt.Sprintf("… (%d entries)", len(p)))
-			break
-		}
-		parts = append(parts, strconv.FormatFloat(v, 'g', 6, 64))
-	}
-	return "(" + strings.Join(parts, ", ") + ")"
 }
 
 // dimensionJSON is the dimension and the spectrum with their numbers.

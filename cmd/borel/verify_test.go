@@ -131,6 +131,14 @@ func TestVerifyCatchesWrongFiles(t *testing.T) {
 	if code, out, _ := borel(t, "", "verify", p, "--source", "sqrt2", "--spots", "8"); code != exitVerdict {
 		t.Errorf("verify e as sqrt2: exit %d\n%s", code, out)
 	}
+	// A folder is refused without offering standard input, which verify refuses too.
+	if _, _, errs := borel(t, "", "verify", t.TempDir(), "--source", "pi"); strings.Contains(errs, "standard input") {
+		t.Errorf("verify on a folder: %q", errs)
+	}
+	// Every command is named when the command is unknown (watch was left out).
+	if code, _, errs := borel(t, "", "nope"); code != exitUsage || !strings.Contains(errs, "verify and watch") || !strings.Contains(errs, "dimension") {
+		t.Errorf("unknown command: exit %d, %q", code, errs)
+	}
 	for _, c := range []struct {
 		args []string
 		want string

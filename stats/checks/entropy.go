@@ -23,7 +23,7 @@ type EntropyRow struct {
 	Deficit     float64 // 1 - Dimension
 	// OrderG is the likelihood-ratio test of a Markov chain of order k−2
 	// against order k−1 (k ≥ 2): G = 2n(ĥ_{k−2} − ĥ_{k−1}) from the plug-in
-	// conditionals, OrderDF = S^(k−2)(S−1)² (stats.MarkovOrderTest),
+	// conditionals, OrderDF = S^(k−2)(S−1)² (stats.MarkovOrderG),
 	// divided by its exact null mean over OrderDF (the difference of the two
 	// orders' E₀[G], exactMeanQ; Williams' correction where contexts are
 	// full), and OrderLogP ln of its upper tail. It says whether the order-(k−1)
@@ -34,20 +34,18 @@ type EntropyRow struct {
 }
 
 // Position is where the sequence sits among the sets F(q): its digit
-// frequencies q̂ with their confidence region (stats.FrequencyRegion), the
-// Besicovitch–Eggleston dimension of F(q̂) with its interval (the entropy
-// profile at k = 1), and, under a stated vector p, the local dimension α̂
-// of μ_p along the sequence with its interval (stats.LocalDimension): the
-// sequence's coordinates (α̂, dim F(q̂)) in the multifractal decomposition
-// of μ_p, which for a sequence generic for μ_p are (H(p)/ln b, H(p)/ln b).
+// frequencies q̂ with their confidence region (stats.FrequencyRegion) and,
+// under a stated vector p (the null's), the local dimension α̂ of μ_p
+// along the sequence with its interval (stats.LocalDimension). With the
+// dimension of F(q̂) (the profile's row at k = 1) they are the sequence's
+// coordinates (α̂, dim F(q̂)) in the multifractal decomposition of μ_p,
+// which for a sequence generic for μ_p are (H(p)/ln b, H(p)/ln b).
 type Position struct {
-	Region                     stats.FrequencyRegion
-	Dimension, DimLow, DimHigh float64
+	Region stats.FrequencyRegion
 	// NullInside says whether the null's vector lies in the region (the
 	// Pearson test of it at the region's level, unadjusted).
 	NullInside bool
-	HasAlpha   bool // a stated vector (not uniform, not fitted)
-	P          []float64
+	HasAlpha   bool // the null is a stated vector (not uniform, not fitted)
 	Alpha      float64
 	AlphaLow   float64
 	AlphaHigh  float64
@@ -159,7 +157,7 @@ func (entropyCheck) Run(in Input, out *Result) {
 			// null means (as the dimension's G is): without it, sparse
 			// contexts push G up (π, 10^6 digits, order 4 against 3:
 			// p = 1e-8 raw).
-			g, dfD, _ := stats.MarkovOrderTest(prof.Rows[k-2].Conditional, row.Conditional, t.N, seen, k-1)
+			g, dfD := stats.MarkovOrderG(prof.Rows[k-2].Conditional, row.Conditional, t.N, seen, k-1)
 			if e0 := meanG - meanPrev; e0 > 0 && dfD > 0 {
 				g *= dfD / e0
 			}
@@ -174,12 +172,10 @@ func (entropyCheck) Run(in Input, out *Result) {
 	}
 	if len(prof.Rows) > 0 {
 		prof.Summary = prof.Rows[len(prof.Rows)-1]
-		first := prof.Rows[0]
-		pos := &Position{Region: stats.NewFrequencyRegion(t.DigitCounts(), conf),
-			Dimension: first.Dimension, DimLow: first.DimLow, DimHigh: first.DimHigh}
+		pos := &Position{Region: stats.NewFrequencyRegion(t.DigitCounts(), conf)}
 		pos.NullInside = pos.Region.Contains(in.Null.P)
 		if in.Null.Kind == Vector {
-			pos.HasAlpha, pos.P = true, slices.Clone(in.Null.P)
+			pos.HasAlpha = true
 			pos.Alpha, pos.AlphaLow, pos.AlphaHigh = stats.LocalDimension(t.DigitCounts(), in.Null.P, b, conf)
 		}
 		prof.Position = pos

@@ -5,6 +5,7 @@ import (
 	"math/big"
 	"math/bits"
 	"runtime"
+	"slices"
 	"sync"
 )
 
@@ -394,39 +395,23 @@ func topBits(F wideSum, nb int) []byte {
 
 // certifiedBits returns the nb binary digits of a constant after bit
 // position pos of its fraction (bits pos+1 … pos+nb), from an extraction
-// wide(d, W) of the bits after position align·d, and says how they were
-// determined. It widens the fraction until every value within the error
-// bound shares the bits.
-func certifiedBits(name, via string, pos uint64, nb int, align uint64, mt *meter, wide func(d uint64, W int, mt *meter) (wideSum, uint64)) ([]byte, string, error) {
-	d, skip := pos/align, int(pos%align)
-	need := skip + nb
-	W := (need + bits.Len64(4*d+1024) + 8 + 63) / 64
+// wide(pos, W) of the bits after pos, and says how they were determined.
+// It widens the fraction until every value within the error bound shares
+// the bits.
+func certifiedBits(name, via string, pos uint64, nb int, mt *meter, wide func(pos uint64, W int, mt *meter) (wideSum, uint64)) ([]byte, string, error) {
+	W := (nb + bits.Len64(4*pos+1024) + 8 + 63) / 64
 	for ; W <= maxFarWords; W++ {
-		F, e := wide(d, W, mt)
-		lo, hi := slicesClone(F), slicesClone(F)
+		F, e := wide(pos, W, mt)
+		lo, hi := slices.Clone(F), slices.Clone(F)
 		lo.addUnits(-int64(e))
 		hi.addUnits(int64(e))
-		a, b := topBits(lo, need), topBits(hi, need)
+		a, b := topBits(lo, nb), topBits(hi, nb)
 		if string(a) == string(b) {
-			return a[skip:], fmt.Sprintf("binary digits %d to %d of %s by digit extraction (Bailey, Borwein & Plouffe 1997%s) with %d-bit fractions: the sum is within %d units of 2^-%d, and every value within that bound has these digits",
+			return a, fmt.Sprintf("binary digits %d to %d of %s by digit extraction (Bailey, Borwein & Plouffe 1997%s) with %d-bit fractions: the sum is within %d units of 2^-%d, and every value within that bound has these digits",
 				pos+1, pos+uint64(nb), name, via, 64*W, e, 64*W), nil
 		}
 	}
 	return nil, "", fmt.Errorf("the binary digits %d to %d of %s are not determined by digit extraction with %d-bit fractions (a run of equal digits follows them); ask for fewer digits", pos+1, pos+uint64(nb), name, 64*maxFarWords)
-}
-
-func slicesClone(s wideSum) wideSum { return append(wideSum(nil), s...) }
-
-// PiBits returns the nb binary digits of π after its first pos fractional
-// binary digits, each certified, and says how they were determined.
-func PiBits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("π", piVia, pos, nb, 1, nil, piWide)
-}
-
-// Ln2Bits returns the nb binary digits of ln 2 after its first pos
-// binary digits, each certified, and says how they were determined.
-func Ln2Bits(pos uint64, nb int) ([]byte, string, error) {
-	return certifiedBits("ln 2", "", pos, nb, 1, nil, ln2Wide)
 }
 
 // MaxExtractPosition is the farthest binary position extraction serves:
@@ -466,9 +451,9 @@ func (s Source) ExtractDigits(base int, offset uint64, count int) ([]byte, strin
 	var how string
 	var err error
 	if s.Name == "ln2" {
-		b, how, err = certifiedBits("ln 2", "", offset*uint64(j), count*j, 1, newMeter(s.meter), ln2Wide)
+		b, how, err = certifiedBits("ln 2", "", offset*uint64(j), count*j, newMeter(s.meter), ln2Wide)
 	} else {
-		b, how, err = certifiedBits("π", piVia, offset*uint64(j), count*j, 1, newMeter(s.meter), piWide)
+		b, how, err = certifiedBits("π", piVia, offset*uint64(j), count*j, newMeter(s.meter), piWide)
 	}
 	if err != nil {
 		return nil, "", err

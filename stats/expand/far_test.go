@@ -151,7 +151,7 @@ func TestCertificationExtends(t *testing.T) {
 		}
 		return F, 16
 	}
-	bits, how, err := certifiedBits("x", "", 0, 8, 1, nil, fake)
+	bits, how, err := certifiedBits("x", "", 0, 8, nil, fake)
 	if err != nil || string(bits) != string([]byte{0, 1, 1, 1, 1, 1, 1, 1}) || widths[len(widths)-1] != 3 || !strings.Contains(how, "192-bit") {
 		t.Errorf("extension: bits %v, widths %v, %q, %v", bits, widths, how, err)
 	}
@@ -160,7 +160,7 @@ func TestCertificationExtends(t *testing.T) {
 		F[0] = 1 << 63 // exactly on the boundary: never determined
 		return F, 1
 	}
-	if _, _, err := certifiedBits("x", "", 0, 8, 1, nil, never); err == nil || !strings.Contains(err.Error(), "not determined") {
+	if _, _, err := certifiedBits("x", "", 0, 8, nil, never); err == nil || !strings.Contains(err.Error(), "not determined") {
 		t.Errorf("a value on a boundary: %v", err)
 	}
 }
