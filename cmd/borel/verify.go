@@ -36,7 +36,8 @@ own, in constant memory, at a cost that grows with its position) or by computing
 the last spot (every source; memory grows with the file's length). auto picks the cheaper one that
 fits in --memory. Exit status 3 when any digit disagrees.
 
-Example: check a file of 100 000 digits of pi in base 16 at 64 random spots:
+Example: make a file of pi's first 100 000 hexadecimal digits, then check it at 64 random spots:
+  $ borel digits pi --base 16 --count 100000 -q -o pi16.txt
   $ borel verify pi16.txt --source pi --base 16
   ...
   agrees: all 66 stretches of 16 digits match pi in base 16 (1056 of 100000 digits compared)
