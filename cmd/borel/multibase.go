@@ -222,6 +222,7 @@ type lane struct {
 	buf          []byte
 	format, view string
 	digits       func(chunk, out []byte) []byte
+	packed       bool // the chunk's bytes are the lane's digits packed: no digits func
 }
 
 // source is the input as this lane's audit names it.
@@ -233,6 +234,10 @@ func (l *lane) source(src audit.Source) audit.Source {
 // feedLanes adds a chunk of bytes to every lane.
 func feedLanes(lanes []*lane, chunk []byte) {
 	for _, l := range lanes {
+		if l.packed {
+			l.plan.AddPacked(chunk)
+			continue
+		}
 		l.buf = l.digits(chunk, l.buf)
 		if len(l.buf) > 0 {
 			l.plan.Add(l.buf)
@@ -261,17 +266,13 @@ func byteLanes(bases []int, opts audit.Options, bytesHint int64) ([]*lane, error
 		if err != nil {
 			return nil, usageError{err.Error()}
 		}
-		per, mask := 8/bitsPer, byte(1<<bitsPer-1)
-		lanes = append(lanes, &lane{base: b, plan: plan, format: map[int]string{2: "bits", 4: "bit pairs", 16: "nibbles", 256: "bytes"}[b],
-			digits: func(chunk, out []byte) []byte {
-				out = out[:0]
-				for _, c := range chunk {
-					for k := 0; k < per; k++ {
-						out = append(out, c>>(8-bitsPer*(k+1))&mask)
-					}
-				}
-				return out
-			}})
+		l := &lane{base: b, plan: plan, format: map[int]string{2: "bits", 4: "bit pairs", 16: "nibbles", 256: "bytes"}[b]}
+		if b == 256 {
+			l.digits = func(chunk, _ []byte) []byte { return chunk }
+		} else {
+			l.packed = true // the plan reads the bytes as they are (Plan.AddPacked)
+		}
+		lanes = append(lanes, l)
 	}
 	if W := opts.Word; W > 0 {
 		per := W / 8

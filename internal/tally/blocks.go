@@ -78,7 +78,7 @@ func (r *Blocks) kernels(t *Tally) []kernel {
 		if len(r.Counts[k]) > 1<<18 {
 			cost = 16
 		}
-		ks = append(ks, kernel{"blocks", cost / float64(k), func(d []byte) { r.add(t, k, d) }})
+		ks = append(ks, kernel{name: "blocks", cost: cost / float64(k), run: func(d []byte) { r.add(t, k, d) }})
 	}
 	return ks
 }

@@ -99,7 +99,7 @@ func (t *Tally) Coupons() *Coupons { t.settle(); r, _ := t.find("coupon").(*Coup
 func (r *Coupons) kind() string { return "coupon" }
 
 func (r *Coupons) kernels(t *Tally) []kernel {
-	return []kernel{{"coupon", 4.5, func(d []byte) { r.add(d, t.Offset+t.N) }}}
+	return []kernel{{name: "coupon", cost: 4.5, run: func(d []byte) { r.add(d, t.Offset+t.N) }}}
 }
 
 // add runs the coupon collector over d (d[0] at global position pos0),

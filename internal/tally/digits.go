@@ -35,7 +35,7 @@ func (t *Tally) Trace() []TracePoint { t.settle(); return t.dig.Trace }
 func (r *DigitCounts) kind() string { return "digits" }
 
 func (r *DigitCounts) kernels(t *Tally) []kernel {
-	return []kernel{{"digits", 0.7, func(d []byte) { r.add(d, t.Offset+t.N) }}}
+	return []kernel{{name: "digits", cost: 0.7, run: func(d []byte) { r.add(d, t.Offset+t.N) }}}
 }
 
 // add counts the digits of d (d[0] at global position pos0), stopping at

@@ -101,7 +101,7 @@ func (r *Gaps) CapLength() int { return r.gapCap() }
 func (r *Gaps) kind() string { return "gaps" }
 
 func (r *Gaps) kernels(t *Tally) []kernel {
-	return []kernel{{"gaps", 2, func(d []byte) { r.add(d, t.N) }}}
+	return []kernel{{name: "gaps", cost: 2, run: func(d []byte) { r.add(d, t.N) }}}
 }
 
 // add extends each class's gap record over d (d[0] at local position n),

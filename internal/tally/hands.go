@@ -56,7 +56,7 @@ func (r *Hands) kernels(t *Tally) []kernel {
 		return nil
 	}
 	h := r.Size
-	return []kernel{{"poker", 3, func(d []byte) { forWindows(t.Tail, d, t.Offset+t.N, h, h, r.count) }}}
+	return []kernel{{name: "poker", cost: 3, run: func(d []byte) { forWindows(t.Tail, d, t.Offset+t.N, h, h, r.count) }}}
 }
 
 func (r *Hands) count(w []byte) { r.Counts[distinct(w)]++ }

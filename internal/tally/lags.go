@@ -56,7 +56,7 @@ func (r *Lags) kernels(t *Tally) []kernel {
 	if r.derived() {
 		return nil
 	}
-	return []kernel{{"lags", 3, func(d []byte) { r.add(t.Tail, d) }}}
+	return []kernel{{name: "lags", cost: 3, run: func(d []byte) { r.add(t.Tail, d) }}}
 }
 
 // add adds x_i·x_{i+h} for the pairs that end inside d.

@@ -14,6 +14,9 @@ type kernel struct {
 	name string
 	cost float64 // rough ns per digit, for grouping
 	run  func(d []byte)
+	// packed, when set, does run's work on the same digits packed (see
+	// packed.go); the tally's base is then 2, 4 or 16.
+	packed func(p []byte)
 }
 
 // The Runner runs the kernels one after another on the first
@@ -61,16 +64,36 @@ func (r *Runner) Add(d []byte) {
 		r.t.Add(d)
 		return
 	}
+	r.step(len(d), func(k kernel) { k.run(d) }, func() { r.t.advance(d) })
+}
+
+// AddPacked tallies the next digits of the stretch, packed (Tally.AddPacked).
+func (r *Runner) AddPacked(p []byte) {
+	if r.workers == 1 {
+		r.t.AddPacked(p)
+		return
+	}
+	s := r.t.packedFor(p)
+	if s == 0 {
+		return
+	}
+	c := &packedChunk{p: p, s: s, t: r.t}
+	r.step(len(p)*(8/s), c.run, func() { r.t.advancePacked(p, s) })
+}
+
+// step runs every kernel on a chunk of n digits through run, then advances
+// the tally.
+func (r *Runner) step(n int, run func(kernel), advance func()) {
 	if r.seen < calibrationDigits {
 		for i, k := range r.ks {
 			t0 := time.Now()
-			k.run(d)
+			run(k)
 			if r.seen >= warmupDigits {
 				r.spent[i] += time.Since(t0)
 			}
 		}
-		r.t.advance(d)
-		r.seen += len(d)
+		advance()
+		r.seen += n
 		if r.seen >= calibrationDigits {
 			r.sortByCost()
 			clear(r.spent)
@@ -90,7 +113,7 @@ func (r *Runner) Add(d []byte) {
 			}
 			i := r.order[j]
 			t0 := time.Now()
-			r.ks[i].run(d)
+			run(r.ks[i])
 			r.spent[i] += time.Since(t0) // one worker per kernel per step
 		}
 	}
@@ -101,7 +124,7 @@ func (r *Runner) Add(d []byte) {
 	}
 	work()
 	wg.Wait()
-	r.t.advance(d)
+	advance()
 	r.steps++
 	if r.steps == r.next { // re-sort on recent times, at steps 4, 12, 28, …
 		r.sortByCost()

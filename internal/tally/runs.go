@@ -45,7 +45,7 @@ func (t *Tally) Runs() *Runs { t.settle(); r, _ := t.find("runs").(*Runs); retur
 func (r *Runs) kind() string { return "runs" }
 
 func (r *Runs) kernels(t *Tally) []kernel {
-	return []kernel{{"runs", 2.5, func(d []byte) { r.add(t, d) }}}
+	return []kernel{{name: "runs", cost: 2.5, run: func(d []byte) { r.add(t, d) }}}
 }
 
 // b2i is 1 for true, 0 for false.

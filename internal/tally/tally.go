@@ -87,6 +87,8 @@ type Tally struct {
 	mu       sync.Mutex // guards settled: accessors may run concurrently
 	settled  bool       // every record is exact since the last Add
 	finished bool       // set by CyclicInPlace
+
+	spreadBuf []byte // AddPacked's spread-out digits, reused
 }
 
 // New returns an empty Tally for a stretch starting at global position offset.

@@ -46,7 +46,7 @@ func (t *Tally) UpDown() *UpDown { t.settle(); r, _ := t.find("updown").(*UpDown
 func (r *UpDown) kind() string { return "updown" }
 
 func (r *UpDown) kernels(t *Tally) []kernel {
-	return []kernel{{"updown", 5, func(d []byte) { r.add(t, d) }}}
+	return []kernel{{name: "updown", cost: 5, run: func(d []byte) { r.add(t, d) }}}
 }
 
 // add counts the aligned values that end inside d, and the ties and

@@ -52,7 +52,7 @@ func (t *Tally) Walk() *Walk { t.settle(); r, _ := t.find("walk").(*Walk); retur
 func (r *Walk) kind() string { return "walk" }
 
 func (r *Walk) kernels(t *Tally) []kernel {
-	return []kernel{{"walk", 1.2, func(d []byte) { r.add(d, t.N) }}}
+	return []kernel{{name: "walk", cost: 1.2, run: func(d []byte) { r.add(d, t.N) }}}
 }
 
 // add extends the walk over d, whose first digit is the stretch's (n+1)-th.

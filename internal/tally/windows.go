@@ -76,7 +76,7 @@ func (r *Windows) kernels(t *Tally) []kernel {
 	if len(r.Counts) > 1<<18 { // random access into a table beyond the caches
 		cost = 16
 	}
-	return []kernel{{"windows", cost, func(d []byte) { r.add(t, d) }}}
+	return []kernel{{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}}
 }
 
 // add counts the K-windows that end inside d, and, when batched, the

@@ -215,7 +215,7 @@ func (r *Words) kind() string { return r.Test }
 
 func (r *Words) kernels(t *Tally) []kernel {
 	cost := map[string]float64{LinComp: 0.5, Rank: 1, RowRank: 1, Birthday: 3, WordColl: 4, Hamming: 1, Perm: 2}[r.Test]
-	return []kernel{{r.Test, cost, func(d []byte) { r.add(d, t.Offset+t.N) }}}
+	return []kernel{{name: r.Test, cost: cost, run: func(d []byte) { r.add(d, t.Offset+t.N) }}}
 }
 
 // add takes the bytes d at global position pos: whole items are counted,

@@ -38,6 +38,25 @@ func (p *Plan) Add(d []byte) {
 	}
 }
 
+// PackedWidth returns the digit width in bits (1, 2 or 4) of the packed
+// chunks AddPacked reads, or 0 when the plan's base has none.
+func (p *Plan) PackedWidth() int { return p.t.PackedWidth() }
+
+// AddPacked tallies the next digits of the sequence given packed: 8/s
+// digits of s = PackedWidth() bits in each byte, most significant first
+// (a byte stream read as bits, bit pairs or nibbles). It is Add of those
+// digits, without spreading them out one a byte where the records can read
+// bytes.
+func (p *Plan) AddPacked(b []byte) {
+	if p.seg != nil {
+		d := tally.Unpack(b, p.PackedWidth())
+		p.run.Add(d)
+		p.seg.Add(d)
+		return
+	}
+	p.run.AddPacked(b)
+}
+
 // Done finishes the audit of the digits added since Start.
 func (p *Plan) Done(src Source) (*Result, error) {
 	if p.t.N == 0 {

@@ -1,0 +1,114 @@
+package tally
+
+import (
+	"encoding/json"
+	"math/rand/v2"
+	"slices"
+	"testing"
+)
+
+// pack packs digits of s bits, 8/s to a byte, most significant first (the
+// reader's raw bytes read as bits, bit pairs or nibbles).
+func pack(d []byte, s int) []byte {
+	m := 8 / s
+	p := make([]byte, len(d)/m)
+	for i := range p {
+		for j := range m {
+			p[i] = p[i]<<s | d[i*m+j]
+		}
+	}
+	return p
+}
+
+func TestUnpack(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for _, s := range []int{1, 2, 4} {
+		d := randomDigits(rng, 8*1000, 1<<s)
+		p := pack(d, s)
+		if got := unpack(nil, p, s); !slices.Equal(got, d) {
+			t.Fatalf("s=%d: unpack differs", s)
+		}
+		for range 200 {
+			a := rng.IntN(len(d))
+			b := a + rng.IntN(len(d)-a+1)
+			if got := digitsOf(p, s, a, b); !slices.Equal(got, d[a:b]) && (len(got) > 0 || b > a) {
+				t.Fatalf("s=%d: digitsOf(%d, %d) differs", s, a, b)
+			}
+		}
+	}
+}
+
+// Packed chunks give the tally of their digits added one a byte, record for
+// record, whatever the chunking, the offset, the worker count and the byte
+// counters: random specs in bases 2, 4 and 16, skewed and uniform digits
+// (long runs and gaps reach the caps), and a stretch that starts inside a
+// byte (added the long way).
+func TestPackedEqualsDigits(t *testing.T) {
+	defer func(w, c, h int) { warmupDigits, calibrationDigits, hotMinCells = w, c, h }(warmupDigits, calibrationDigits, hotMinCells)
+	warmupDigits, calibrationDigits = 4096, 3*4096
+	rng := rand.New(rand.NewPCG(11, 12))
+	for trial := range 120 {
+		s := []int{1, 2, 4}[trial%3]
+		base, m := 1<<s, 8/s
+		hotMinCells = []int{1 << 16, 16}[rng.IntN(2)]
+		spec := randomSpec(rng, base, 1+rng.IntN(12/s+1))
+		if rng.IntN(3) == 0 {
+			spec.Records = append(spec.Records[:0:0], &GapSpec{}, &CouponSpec{Classes: base, Class: identity(base), Cap: 40}, &UpDownSpec{Digits: 64 / s}, &RunSpec{Digit: base - 1}, &WalkSpec{}, &LagSpec{Max: 5}, &HandSpec{Size: 2 + rng.IntN(3)})
+		}
+		n := m * (3000 + rng.IntN(30_000))
+		var d []byte
+		if rng.IntN(2) == 0 {
+			d = randomDigits(rng, n, base)
+		} else { // skewed: long runs of the top digit
+			d = make([]byte, n)
+			for i := range d {
+				if rng.IntN(10) != 0 {
+					d[i] = byte(base - 1)
+				} else {
+					d[i] = byte(rng.IntN(base))
+				}
+			}
+		}
+		offset := int64(m * rng.IntN(1000))
+		if trial%10 == 9 {
+			offset++ // not at a byte of the whole sequence
+		}
+		want := mustNew(t, spec, offset)
+		want.Add(d)
+		p := pack(d, s)
+		for _, w := range []int{1, 2} {
+			got := mustNew(t, spec, offset)
+			r := NewRunner(got, w)
+			for i := 0; i < len(p); {
+				j := min(len(p), i+1+rng.IntN(3000))
+				if rng.IntN(20) == 0 {
+					j = i + 1 + rng.IntN(3)
+				}
+				r.AddPacked(p[i:j])
+				i = j
+			}
+			if !same(got, want) {
+				for i := range got.recs {
+					if !same1(got.recs[i], want.recs[i]) {
+						t.Errorf("record %s differs", got.recs[i].kind())
+					}
+				}
+				t.Fatalf("trial %d (base %d, %d workers, spec %+v): packed chunks give a different tally", trial, base, w, spec)
+			}
+		}
+	}
+}
+
+func identity(n int) []int {
+	c := make([]int, n)
+	for i := range c {
+		c[i] = i
+	}
+	return c
+}
+
+func same1(a, b record) bool {
+	ea, _ := json.Marshal(a.entry(nil))
+	eb, _ := json.Marshal(b.entry(nil))
+	return string(ea) == string(eb)
+}
