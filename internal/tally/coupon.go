@@ -87,6 +87,8 @@ type Coupons struct {
 	Len       int64
 	Idle      bool
 	Pending   []PendingSegment
+
+	table *[16][256]couponStep // addPacked's byte table (steps)
 }
 
 // PendingSegment is a completed coupon segment of Len digits that counts
@@ -99,7 +101,118 @@ func (t *Tally) Coupons() *Coupons { t.settle(); r, _ := t.find("coupon").(*Coup
 func (r *Coupons) kind() string { return "coupon" }
 
 func (r *Coupons) kernels(t *Tally) []kernel {
-	return []kernel{{name: "coupon", cost: 4.5, run: func(d []byte) { r.add(d, t.Offset+t.N) }}}
+	k := kernel{name: "coupon", cost: 4.5, run: func(d []byte) { r.add(d, t.Offset+t.N) }}
+	if s := packWidth(len(r.Class)); s > 0 && s < 4 && r.Classes <= 4 && r.Spacing()%int64(8/s) == 0 {
+		k.packed = func(p []byte) { r.addPacked(p, t.Offset+t.N) }
+	}
+	return []kernel{k}
+}
+
+// addPacked is add for a packed chunk (packed.go) of bits or bit pairs,
+// with at most 4 classes and restarts at whole bytes: pos0 and the restart
+// positions are multiples of the digits in a byte.
+func (r *Coupons) addPacked(p []byte, pos0 int64) {
+	m := int64(8 / packWidth(len(r.Class)))
+	every := r.Spacing()
+	end := pos0 + int64(len(p))*m
+	for i := int64(0); i < int64(len(p))*m; {
+		pos := pos0 + i
+		rem := pos % every
+		if rem == 0 {
+			r.close(pos)
+			r.Restarted, r.Seen, r.Len, r.Idle = true, 0, 0, false
+		}
+		next := min(int64(len(p))*m, i+every-rem)
+		if r.Restarted {
+			r.runPacked(p[i/m:next/m], pos, pos-rem+every, end)
+		} else {
+			r.Head = append(r.Head, unpack(nil, p[i/m:next/m], packWidth(len(r.Class)))...)
+		}
+		i = next
+	}
+	r.confirm(end)
+}
+
+// couponStep is what one byte does to the collector from a state seen
+// (the classes seen in the open segment): nc segments complete in it, the
+// first at its digit first−1 (its length is the open length plus first),
+// the next ones with lengths lens; then the classes seen and the digits
+// counted in the segment left open are seen and tail.
+type couponStep struct {
+	nc, first, seen, tail uint8
+	lens                  [3]uint8
+}
+
+// steps returns the byte table of the collector, made on first use.
+func (r *Coupons) steps() *[16][256]couponStep {
+	if r.table != nil {
+		return r.table
+	}
+	s := packWidth(len(r.Class))
+	m := 8 / s
+	full := uint8(1)<<r.Classes - 1
+	tab := new([16][256]couponStep)
+	for st := range 1 << r.Classes {
+		for v := range 256 {
+			e := couponStep{}
+			seen, n := uint8(st), 0
+			for j := range m {
+				seen |= 1 << r.Class[v>>(8-s*(j+1))&(1<<s-1)]
+				n++
+				if seen == full {
+					if e.nc == 0 {
+						e.first = uint8(j + 1)
+					} else {
+						e.lens[e.nc-1] = uint8(n)
+					}
+					e.nc++
+					seen, n = 0, 0
+				}
+			}
+			e.seen, e.tail = seen, uint8(n)
+			tab[st][v] = e
+		}
+	}
+	r.table = tab
+	return tab
+}
+
+// runPacked is run over the packed window seg (seg's first digit at global
+// position pos): the bytes whose every digit may complete a segment the
+// common way (at or before run's kSafe) go through the byte table, the
+// rest through run.
+func (r *Coupons) runPacked(seg []byte, pos, restart, end int64) {
+	s := packWidth(len(r.Class))
+	m := int64(8 / s)
+	capLen := int64(r.Cap)
+	lastStart := restart - capLen
+	if r.Idle || (r.Len == 0 && pos > lastStart) {
+		r.Idle = true
+		return
+	}
+	kSafe := min(int64(len(seg))*m, min(lastStart, end-capLen)-pos-1)
+	q := int64(0)
+	if kSafe >= m-1 {
+		tab := r.steps()
+		hist := r.Hist
+		seen, n := r.Seen, r.Len
+		for ; q < (kSafe+1)/m; q++ {
+			e := &tab[seen][seg[q]]
+			if e.nc == 0 {
+				seen, n = uint32(e.seen), n+m
+				continue
+			}
+			hist[min(n+int64(e.first), capLen)]++
+			for _, l := range e.lens[:e.nc-1] {
+				hist[min(int64(l), capLen)]++
+			}
+			seen, n = uint32(e.seen), int64(e.tail)
+		}
+		r.Seen, r.Len = seen, n
+	}
+	if q < int64(len(seg)) {
+		r.run(unpack(nil, seg[q:], s), pos+q*m, restart, end)
+	}
 }
 
 // add runs the coupon collector over d (d[0] at global position pos0),

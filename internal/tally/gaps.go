@@ -80,6 +80,8 @@ func (s *GapSpec) newRecord(sp *Spec, _ int64) record {
 type Gaps struct {
 	GapSpec
 	Classes []GapTally
+
+	table *[256]gapByte // addPacked's byte table
 }
 
 // GapTally is the gap record of one digit class: Hist[r] counts complete gaps
@@ -101,7 +103,99 @@ func (r *Gaps) CapLength() int { return r.gapCap() }
 func (r *Gaps) kind() string { return "gaps" }
 
 func (r *Gaps) kernels(t *Tally) []kernel {
-	return []kernel{{name: "gaps", cost: 2, run: func(d []byte) { r.add(d, t.N) }}}
+	k := kernel{name: "gaps", cost: 2, run: func(d []byte) { r.add(d, t.N) }}
+	if packWidth(t.Base) > 0 {
+		k.packed = func(p []byte) { r.addPacked(p, t.N, packWidth(t.Base)) }
+	}
+	return []kernel{k}
+}
+
+// gapByte is what a byte of packed digits holds for the gap record: the
+// classes present (n of them), each with the index of its first and last
+// digit in the byte, and the gaps inside the byte (gaps[:ng], class and
+// length).
+type gapByte struct {
+	n, ng            uint8
+	cls, first, last [8]uint8
+	gapCls, gapLen   [7]uint8
+}
+
+// byteTable returns the gap record's table of the 256 bytes of s-bit
+// digits, made on first use.
+func (r *Gaps) byteTable(s int) *[256]gapByte {
+	if r.table != nil {
+		return r.table
+	}
+	m := 8 / s
+	tab := new([256]gapByte)
+	for v := range 256 {
+		e := &tab[v]
+		at := map[int]int{} // class → index of its last digit so far
+		for j := range m {
+			c := r.ClassOf(v >> (8 - s*(j+1)) & (1<<s - 1))
+			if l, ok := at[c]; ok {
+				e.gapCls[e.ng], e.gapLen[e.ng] = uint8(c), uint8(j-l-1)
+				e.ng++
+				for i := range e.n {
+					if int(e.cls[i]) == c {
+						e.last[i] = uint8(j)
+					}
+				}
+			} else {
+				e.cls[e.n], e.first[e.n], e.last[e.n] = uint8(c), uint8(j), uint8(j)
+				e.n++
+			}
+			at[c] = j
+		}
+	}
+	r.table = tab
+	return tab
+}
+
+// addPacked is add for a packed chunk (packed.go; p[0]'s first digit at
+// local position n). Per byte only the gaps that reach into it from an
+// earlier byte are counted one by one: the gaps inside bytes follow from
+// how often each byte value occurs.
+func (r *Gaps) addPacked(p []byte, n int64, s int) {
+	m := int64(8 / s)
+	cap64 := int64(r.gapCap())
+	tab := r.byteTable(s)
+	var last [256]int64
+	hists := make([][]int64, len(r.Classes))
+	for c := range r.Classes {
+		last[c] = -1
+		if r.Classes[c].Seen {
+			last[c] = r.Classes[c].Last
+		}
+		hists[c] = r.Classes[c].Hist
+	}
+	var often [256]int64
+	for q, v := range p {
+		often[v]++
+		e := &tab[v]
+		at := n + int64(q)*m
+		for i := range e.n {
+			c := e.cls[i]
+			pos := at + int64(e.first[i])
+			if l := last[c]; l >= 0 {
+				hists[c][min(pos-l-1, cap64)]++
+			} else {
+				r.Classes[c].Seen, r.Classes[c].First = true, pos
+			}
+			last[c] = at + int64(e.last[i])
+		}
+	}
+	for v, k := range often {
+		e := &tab[v]
+		for i := range e.ng {
+			hists[e.gapCls[i]][min(int64(e.gapLen[i]), cap64)] += k
+		}
+	}
+	for c := range r.Classes {
+		if last[c] >= 0 {
+			r.Classes[c].Last = last[c]
+		}
+	}
 }
 
 // add extends each class's gap record over d (d[0] at local position n),

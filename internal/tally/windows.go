@@ -76,7 +76,87 @@ func (r *Windows) kernels(t *Tally) []kernel {
 	if len(r.Counts) > 1<<18 { // random access into a table beyond the caches
 		cost = 16
 	}
-	return []kernel{{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}}
+	k := kernel{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}
+	if packWidth(r.base) > 0 && r.batched() && r.K*packWidth(r.base) <= 32 {
+		k.packed = func(p []byte) { r.addPacked(t, p) }
+	}
+	return []kernel{k}
+}
+
+// addPacked is add for a packed chunk (packed.go), batched tables only: a
+// K-window of s-bit digits is the K·s-bit field that ends at its last
+// digit, read from a register the bytes are shifted into.
+func (r *Windows) addPacked(t *Tally, p []byte) {
+	s := packWidth(r.base)
+	m, K := 8/s, r.K
+	n := len(p) * m
+	cnt := r.Counts
+	lead := digitsOf(p, s, 0, min(n, K))
+	var blocks []blockCounter
+	for _, k := range t.blk.countedLengths() {
+		t.blk.add(t, k, lead)
+		blocks = append(blocks, t.blk.counter(k))
+	}
+	y := append(slices.Clip(t.Tail), lead[:min(len(lead), K-1)]...)
+	for end := len(t.Tail); end < len(y); end++ {
+		if end+1 >= K {
+			cnt[value(y[end+1-K:end+1], r.base)]++
+		}
+	}
+	if n < K {
+		return
+	}
+	cnt[value(lead, r.base)]++
+	if n == K {
+		return
+	}
+	hot := hotTable(&r.hot, len(cnt))
+	if len(hot) != 1<<(K*s) || len(cnt) < len(hot) {
+		panic("tally: packed windows need a byte table of 2^(K·s) cells")
+	}
+	mask := uint64(1)<<(K*s) - 1
+	// The digits from K on; byte q holds digits q·m … q·m+m−1.
+	q0 := K / m
+	var reg uint64
+	for q := max(0, q0-8); q < q0; q++ {
+		reg = reg<<8 | uint64(p[q])
+	}
+	var buf [windowBatch]uint32
+	g0 := t.Offset + t.N + int64(K) // global end position of buf[0]'s window
+	k := 0
+	flush := func() {
+		countBytesFast(hot, cnt, buf[:k]) // every value is masked below len(hot)
+		for bc := range blocks {
+			blocks[bc].count(buf[:k], g0)
+		}
+		g0 += int64(k)
+		k = 0
+	}
+	reg = reg<<8 | uint64(p[q0])
+	for j := K % m; j < m; j++ {
+		buf[k] = uint32(reg >> (8 - s*(j+1)) & mask)
+		k++
+	}
+	for q := q0 + 1; q < len(p); q++ {
+		if k > windowBatch-8 {
+			flush()
+		}
+		reg = reg<<8 | uint64(p[q])
+		b := buf[k : k+8]
+		switch s {
+		case 1:
+			b[0], b[1], b[2], b[3] = uint32(reg>>7&mask), uint32(reg>>6&mask), uint32(reg>>5&mask), uint32(reg>>4&mask)
+			b[4], b[5], b[6], b[7] = uint32(reg>>3&mask), uint32(reg>>2&mask), uint32(reg>>1&mask), uint32(reg&mask)
+		case 2:
+			b[0], b[1], b[2], b[3] = uint32(reg>>6&mask), uint32(reg>>4&mask), uint32(reg>>2&mask), uint32(reg&mask)
+		default:
+			b[0], b[1] = uint32(reg>>4&mask), uint32(reg&mask)
+		}
+		k += m
+	}
+	if k > 0 {
+		flush()
+	}
 }
 
 // add counts the K-windows that end inside d, and, when batched, the
