@@ -186,3 +186,65 @@ func BenchmarkRawTableWidths(b *testing.B) {
 		})
 	}
 }
+
+// The packed kernels of a raw base-2 view (K = 22, blocks 12…22 counted,
+// as an audit of 10^8 bytes plans them) over 1 MiB chunks of random bytes.
+func BenchmarkPackedBits(b *testing.B) {
+	spec := Spec{Base: 2, MaxBlock: 22, Records: []RecordSpec{&GapSpec{}, &CouponSpec{Classes: 2, Class: []int{0, 1}, Cap: 40},
+		&UpDownSpec{Digits: 64}, &RunSpec{Digit: 1}, &WalkSpec{}}}
+	rng := rand.New(rand.NewPCG(1, 2))
+	chunks := make([][]byte, 8)
+	for i := range chunks {
+		chunks[i] = make([]byte, 1<<20)
+		for j := range chunks[i] {
+			chunks[i][j] = byte(rng.Uint32())
+		}
+	}
+	probe, _ := New(spec, 0)
+	names := map[string]bool{}
+	for _, k := range probe.kernels() {
+		names[k.name] = true
+	}
+	for name := range names {
+		b.Run(name, func(b *testing.B) {
+			t, _ := New(spec, 0)
+			t.AddPacked(chunks[0])
+			var run []func([]byte)
+			for _, k := range t.kernels() {
+				if k.name == name && k.packed != nil {
+					run = append(run, k.packed)
+				}
+			}
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				for _, f := range run {
+					f(chunks[i%len(chunks)])
+				}
+				t.N += 8 << 20 // the kernels read positions from N
+			}
+			b.ReportMetric(float64(8<<20)*float64(b.N)/b.Elapsed().Seconds()/1e6, "Mbit/s")
+		})
+	}
+}
+
+// Counting random cells of byte tables of 2^k cells, a batch of indices at
+// a time (count.go), per increment.
+func BenchmarkCountBytesTable(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, k := range []int{16, 18, 20, 21, 22} {
+		b.Run(strconv.Itoa(k), func(b *testing.B) {
+			hot, cold := make([]uint8, 1<<k), make([]int64, 1<<k)
+			idx := make([]uint32, 1<<16)
+			for i := range idx {
+				idx[i] = uint32(rng.IntN(1 << k))
+			}
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				for j := 0; j < len(idx); j += windowBatch {
+					countBytesFast(hot, cold, idx[j:j+windowBatch])
+				}
+			}
+			b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(b.N)/float64(len(idx)), "ns/cell")
+		})
+	}
+}

@@ -1,6 +1,7 @@
 package tally
 
 import (
+	"encoding/binary"
 	"encoding/json"
 	"fmt"
 	"math/bits"
@@ -69,6 +70,14 @@ func (r *Blocks) countedLengths() []int {
 }
 
 func (r *Blocks) kernels(t *Tally) []kernel {
+	if t.win.packable() {
+		// Spread out, the windows' kernel counts them from its batches.
+		var ks []kernel
+		for _, k := range r.countedLengths() {
+			ks = append(ks, kernel{name: "blocks", cost: 2 / float64(k), packed: func(p []byte) { r.addPacked(t, k, p) }})
+		}
+		return ks
+	}
 	if t.win.batched() {
 		return nil // counted from the window batches
 	}
@@ -115,6 +124,51 @@ func (r *Blocks) add(t *Tally, k int, d []byte) {
 	// window batches and only the few at a chunk's start come here.
 	for ; i+k <= len(d); i += k {
 		cnt[value(d[i:i+k], b)]++
+	}
+}
+
+// addPacked counts the aligned k-blocks that end inside a packed chunk
+// (packed.go): the one begun in the tail through add, the others as the
+// k·s-bit fields they are.
+func (r *Blocks) addPacked(t *Tally, k int, p []byte) {
+	s := packWidth(t.Base)
+	n := len(p) * (8 / s)
+	a := int((int64(k) - (t.Offset+t.N)%int64(k)) % int64(k)) // the first block that starts in p
+	if a > 0 {
+		r.add(t, k, digitsOf(p, s, 0, min(a, n)))
+	}
+	if a+k > n {
+		return
+	}
+	cnt := r.Counts[k]
+	hot := hotTable(&r.hot[k], len(cnt))
+	if hot != nil && len(hot) != 1<<(k*s) {
+		panic("tally: packed blocks need a table of 2^(k·s) cells")
+	}
+	// The blocks are fields of w bits, each read by a 64-bit load of its own
+	// (no chain from one block to the next); the last few, within 8 bytes
+	// of the end, bit by bit.
+	w := uint(k * s)
+	var buf [windowBatch]uint32
+	for a+k <= n {
+		j := 0
+		for bit := a * s; j < windowBatch && a+k <= n && bit>>3+8 <= len(p); bit += int(w) {
+			x := binary.BigEndian.Uint64(p[bit>>3:]) << (uint(bit) & 7)
+			buf[j] = uint32(x >> ((64 - w) & 63))
+			j++
+			a += k
+		}
+		for ; j < windowBatch && a+k <= n && (a*s)>>3+8 > len(p); a += k {
+			buf[j] = uint32(bitField(p, a*s, k*s))
+			j++
+		}
+		if hot != nil {
+			countBytesFast(hot, cnt, buf[:j]) // fields of k·s bits are below len(hot)
+		} else {
+			for _, v := range buf[:j] {
+				cnt[v]++
+			}
+		}
 	}
 }
 

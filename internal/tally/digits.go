@@ -35,7 +35,61 @@ func (t *Tally) Trace() []TracePoint { t.settle(); return t.dig.Trace }
 func (r *DigitCounts) kind() string { return "digits" }
 
 func (r *DigitCounts) kernels(t *Tally) []kernel {
-	return []kernel{{name: "digits", cost: 0.7, run: func(d []byte) { r.add(d, t.Offset+t.N) }}}
+	k := kernel{name: "digits", cost: 0.7, run: func(d []byte) { r.add(d, t.Offset+t.N) }}
+	if s := packWidth(t.Base); s > 0 {
+		k.packed = func(p []byte) { r.addPacked(p, s, t.Offset+t.N) }
+	}
+	return []kernel{k}
+}
+
+// addPacked is add for a packed chunk (packed.go): the digits of whole
+// bytes are counted from the bytes' frequencies, those of a byte a
+// checkpoint cuts one by one.
+func (r *DigitCounts) addPacked(p []byte, s int, pos0 int64) {
+	m := 8 / s
+	n := len(p) * m
+	end := pos0 + int64(n)
+	done := 0
+	for c := traceNext(pos0); c <= end; c = traceNext(c) {
+		cut := int(c - pos0)
+		r.countPacked(p, s, done, cut)
+		done = cut
+		r.Trace = append(r.Trace, TracePoint{Pos: c, Counts: slices.Clone(r.Counts)})
+	}
+	r.countPacked(p, s, done, n)
+}
+
+// countPacked counts digits [a, b) of the packed chunk p.
+func (r *DigitCounts) countPacked(p []byte, s, a, b int) {
+	m := 8 / s
+	qa, qb := (a+m-1)/m, b/m // the whole bytes
+	if qa >= qb {
+		r.count(digitsOf(p, s, a, b))
+		return
+	}
+	r.count(digitsOf(p, s, a, qa*m))
+	r.count(digitsOf(p, s, qb*m, b))
+	var often [4][256]int64
+	q := qa
+	for ; q+4 <= qb; q += 4 {
+		often[0][p[q]]++
+		often[1][p[q+1]]++
+		often[2][p[q+2]]++
+		often[3][p[q+3]]++
+	}
+	for ; q < qb; q++ {
+		often[0][p[q]]++
+	}
+	mask := 1<<s - 1
+	for v := range 256 {
+		k := often[0][v] + often[1][v] + often[2][v] + often[3][v]
+		if k == 0 {
+			continue
+		}
+		for j := range m {
+			r.Counts[v>>(8-s*(j+1))&mask] += k
+		}
+	}
 }
 
 // add counts the digits of d (d[0] at global position pos0), stopping at

@@ -80,6 +80,21 @@ func unpack(out, p []byte, s int) []byte {
 // significant first.
 func Unpack(p []byte, s int) []byte { return unpack(nil, p, s) }
 
+// bitField returns the w bits (1 ≤ w ≤ 64) of p from bit a on (bit 0 the
+// most significant of p[0]) as a number.
+func bitField(p []byte, a, w int) uint64 {
+	q, off := a>>3, a&7
+	if q+9 <= len(p) {
+		x := binary.BigEndian.Uint64(p[q:])<<off | uint64(p[q+8])>>(8-off)
+		return x >> (64 - w)
+	}
+	var x uint64 // near the end: bit by bit
+	for i := a; i < a+w; i++ {
+		x = x<<1 | uint64(p[i>>3]>>(7-i&7)&1)
+	}
+	return x
+}
+
 // digitsOf returns digits [from, to) of the packed chunk p.
 func digitsOf(p []byte, s int, from, to int) []byte {
 	m := 8 / s
@@ -105,6 +120,9 @@ func (t *Tally) AddPacked(p []byte) {
 	for _, k := range t.kernels() {
 		if k.packed != nil {
 			k.packed(p)
+			continue
+		}
+		if k.run == nil {
 			continue
 		}
 		if d == nil {
@@ -176,7 +194,7 @@ func (c *packedChunk) digits() []byte {
 func (c *packedChunk) run(k kernel) {
 	if k.packed != nil {
 		k.packed(c.p)
-		return
+	} else if k.run != nil {
+		k.run(c.digits())
 	}
-	k.run(c.digits())
 }

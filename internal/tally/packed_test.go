@@ -112,3 +112,31 @@ func same1(a, b record) bool {
 	eb, _ := json.Marshal(b.entry(nil))
 	return string(ea) == string(eb)
 }
+
+// The longest run can lie inside one byte, touching neither of its ends:
+// the byte tables' own longest runs must count (random digits rarely show
+// it).
+func TestPackedRunInsideByte(t *testing.T) {
+	for _, s := range []int{1, 2} {
+		m := 8 / s
+		d := make([]byte, 800*m)
+		for i := range d {
+			d[i] = byte(i % 2) // runs of one
+		}
+		at, top := 500*m, byte(1<<s-1) // a later chunk: the first goes through add
+		d[at], d[at+m-1] = 0, 0
+		for j := 1; j < m-1; j++ {
+			d[at+j] = top // top, top, … between two zeros
+		}
+		spec := Spec{Base: 1 << s, MaxBlock: 1, Records: []RecordSpec{&RunSpec{Digit: int(top)}}}
+		want := mustNew(t, spec, 0)
+		want.Add(d)
+		got := mustNew(t, spec, 0)
+		p := pack(d, s)
+		got.AddPacked(p[:100])
+		got.AddPacked(p[100:])
+		if w, g := want.Runs(), got.Runs(); w.Any != g.Any || w.Dig != g.Dig || w.Any.Max != int64(m-2) || w.Dig.Max != int64(m-2) {
+			t.Fatalf("s=%d: packed runs %+v, digits %+v (longest %d inside one byte)", s, g, w, m-2)
+		}
+	}
+}

@@ -12,8 +12,8 @@ import (
 // fields it owns, so kernels can run concurrently on the same chunk.
 type kernel struct {
 	name string
-	cost float64 // rough ns per digit, for grouping
-	run  func(d []byte)
+	cost float64        // rough ns per digit, for grouping
+	run  func(d []byte) // nil: another kernel does its work on digits spread out
 	// packed, when set, does run's work on the same digits packed (see
 	// packed.go); the tally's base is then 2, 4 or 16.
 	packed func(p []byte)
@@ -64,7 +64,11 @@ func (r *Runner) Add(d []byte) {
 		r.t.Add(d)
 		return
 	}
-	r.step(len(d), func(k kernel) { k.run(d) }, func() { r.t.advance(d) })
+	r.step(len(d), func(k kernel) {
+		if k.run != nil {
+			k.run(d)
+		}
+	}, func() { r.t.advance(d) })
 }
 
 // AddPacked tallies the next digits of the stretch, packed (Tally.AddPacked).

@@ -30,6 +30,8 @@ func (s *RunSpec) newRecord(*Spec, int64) record { return &Runs{RunSpec: *s} }
 type Runs struct {
 	RunSpec
 	Any, Dig RunTally
+
+	table *[256]runByte // addPacked's byte table
 }
 
 // RunTally records the runs of one kind in a stretch: the longest, and the
@@ -45,7 +47,96 @@ func (t *Tally) Runs() *Runs { t.settle(); r, _ := t.find("runs").(*Runs); retur
 func (r *Runs) kind() string { return "runs" }
 
 func (r *Runs) kernels(t *Tally) []kernel {
-	return []kernel{{name: "runs", cost: 2.5, run: func(d []byte) { r.add(t, d) }}}
+	k := kernel{name: "runs", cost: 2.5, run: func(d []byte) { r.add(t, d) }}
+	if packWidth(t.Base) > 0 {
+		k.packed = func(p []byte) { r.addPacked(t, p) }
+	}
+	return []kernel{k}
+}
+
+// runByte is what a byte of packed digits holds for the run record: its
+// first and last digit; the run of the first digit it starts with (lead),
+// the run of the last one it ends with (trail) and its longest run (top);
+// the same three for runs of the record's digit (0 where the byte does not
+// start or end with it).
+type runByte struct {
+	first, last, lead, trail, top uint8
+	dLead, dTrail, dTop           uint8
+}
+
+// byteTable returns the run record's table of the 256 bytes of s-bit
+// digits, made on first use.
+func (r *Runs) byteTable(s int) *[256]runByte {
+	if r.table != nil {
+		return r.table
+	}
+	m := 8 / s
+	tab := new([256]runByte)
+	for v := range 256 {
+		d := unpack(nil, []byte{byte(v)}, s)
+		e := &tab[v]
+		e.first, e.last = d[0], d[m-1]
+		run, drun := 0, 0
+		for j, x := range d {
+			if j > 0 && x == d[j-1] {
+				run++
+			} else {
+				run = 1
+			}
+			if x == byte(r.Digit) {
+				drun++
+			} else {
+				drun = 0
+			}
+			if run == j+1 {
+				e.lead = uint8(run)
+			}
+			if drun == j+1 {
+				e.dLead = uint8(drun)
+			}
+			e.top, e.dTop = max(e.top, uint8(run)), max(e.dTop, uint8(drun))
+		}
+		e.trail, e.dTrail = uint8(run), uint8(drun)
+	}
+	r.table = tab
+	return tab
+}
+
+// addPacked is add for a packed chunk (packed.go), a byte at a time. While
+// the stretch so far is one run (its first chunk, mostly), add reads the
+// digits spread out.
+func (r *Runs) addPacked(t *Tally, p []byte) {
+	if len(p) == 0 {
+		return
+	}
+	s := packWidth(t.Base)
+	n := t.N
+	if n == 0 || r.Any.Lead == n || r.Dig.Lead == n {
+		r.add(t, unpack(nil, p, s))
+		return
+	}
+	m := int64(8 / s)
+	tab := r.byteTable(s)
+	prev := t.Tail[len(t.Tail)-1]
+	aTrail, aMax := r.Any.Trail, r.Any.Max
+	dTrail, dMax := r.Dig.Trail, r.Dig.Max
+	for _, v := range p {
+		e := &tab[v]
+		// The run of any digit: the byte's lead continues the open run
+		// when its first digit equals the previous one.
+		cand := aTrail*b2i(e.first == prev) + int64(e.lead)
+		aMax = max(aMax, cand, int64(e.top))
+		whole := b2i(int64(e.lead) == m) // one run through the byte
+		aTrail = whole*cand + (1-whole)*int64(e.trail)
+		prev = e.last
+		// The runs of the digit: dLead is 0 when the byte starts with another.
+		dCand := dTrail + int64(e.dLead)
+		dMax = max(dMax, dCand, int64(e.dTop))
+		dWhole := b2i(int64(e.dLead) == m)
+		dTrail = dWhole*dCand + (1-dWhole)*int64(e.dTrail)
+	}
+	r.Any.Trail, r.Any.Max = aTrail, aMax
+	r.Dig.Trail, r.Dig.Max = dTrail, dMax
 }
 
 // b2i is 1 for true, 0 for false.
@@ -130,7 +221,7 @@ func mergeRuns(a, b RunTally, na, nb int64, joined bool) RunTally {
 	return r
 }
 
-func (r *Runs) clone() record { u := *r; return &u }
+func (r *Runs) clone() record { u := *r; u.table = nil; return &u }
 func (r *Runs) settle(*Tally) {}
 
 type runsEntry struct {

@@ -158,7 +158,9 @@ func (t *Tally) Add(d []byte) {
 		return
 	}
 	for _, k := range t.kernels() {
-		k.run(d)
+		if k.run != nil {
+			k.run(d)
+		}
 	}
 	t.advance(d)
 }

@@ -46,7 +46,48 @@ func (t *Tally) UpDown() *UpDown { t.settle(); r, _ := t.find("updown").(*UpDown
 func (r *UpDown) kind() string { return "updown" }
 
 func (r *UpDown) kernels(t *Tally) []kernel {
-	return []kernel{{name: "updown", cost: 5, run: func(d []byte) { r.add(t, d) }}}
+	k := kernel{name: "updown", cost: 5, run: func(d []byte) { r.add(t, d) }}
+	if s := packWidth(t.Base); s > 0 && r.Digits*s <= 64 {
+		k.packed = func(p []byte) { r.addPacked(t, p, s) }
+	}
+	return []kernel{k}
+}
+
+// addPacked is add for a packed chunk (packed.go): a value that lies in
+// the chunk is its L·s-bit field; the few that begin in the kept tail are
+// read from the digits.
+func (r *UpDown) addPacked(t *Tally, p []byte, s int) {
+	L := r.Digits
+	keep := min(len(t.Tail), 3*L-1)
+	n := len(p) * (8 / s)
+	xs := t.Offset + t.N - int64(keep) // global position of digit 0 (the kept tail's first)
+	st := 0
+	if rem := xs % int64(L); rem != 0 {
+		st = L - int(rem)
+	}
+	var v1, v2 uint64
+	have := 0
+	for ; st+L <= keep+n; st += L {
+		var v uint64
+		if st >= keep {
+			v = bitField(p, (st-keep)*s, L*s)
+		} else {
+			from := len(t.Tail) - keep + st
+			w := append(append([]byte{}, t.Tail[from:min(len(t.Tail), from+L)]...), digitsOf(p, s, 0, st+L-keep)...)
+			v = udValue(w, t.Base)
+		}
+		if st+L > keep {
+			r.Values++
+			if have >= 1 && v == v1 {
+				r.Ties++
+			}
+			if have >= 2 && ((v1 > v2 && v1 > v) || (v1 < v2 && v1 < v)) {
+				r.Turns++
+			}
+		}
+		v2, v1 = v1, v
+		have++
+	}
 }
 
 // add counts the aligned values that end inside d, and the ties and

@@ -52,7 +52,52 @@ func (t *Tally) Walk() *Walk { t.settle(); r, _ := t.find("walk").(*Walk); retur
 func (r *Walk) kind() string { return "walk" }
 
 func (r *Walk) kernels(t *Tally) []kernel {
-	return []kernel{{name: "walk", cost: 1.2, run: func(d []byte) { r.add(d, t.N) }}}
+	k := kernel{name: "walk", cost: 1.2, run: func(d []byte) { r.add(d, t.N) }}
+	if packWidth(r.base) > 0 && !r.Hull {
+		k.packed = func(p []byte) { r.addPacked(p, t.N) }
+	}
+	return []kernel{k}
+}
+
+// walkByte is a byte of packed digits as steps of U (without Hull): the
+// sum of its steps and the highest and lowest partial sums after each of
+// its digits.
+type walkByte struct{ sum, hi, lo int8 }
+
+// walkBytes holds the tables for bits, bit pairs and nibbles.
+var walkBytes = func() (tab [3][256]walkByte) {
+	for si, s := range []int{1, 2, 4} {
+		step := 1<<s - 1
+		for v := range 256 {
+			e := &tab[si][v]
+			e.hi, e.lo = -128, 127
+			u := 0
+			for _, x := range unpack(nil, []byte{byte(v)}, s) {
+				u += 2*int(x) - step
+				e.hi, e.lo = max(e.hi, int8(u)), min(e.lo, int8(u))
+			}
+			e.sum = int8(u)
+		}
+	}
+	return tab
+}()
+
+// addPacked is add without Hull for a packed chunk (packed.go), a byte at
+// a time.
+func (r *Walk) addPacked(p []byte, n int64) {
+	s := packWidth(r.base)
+	tab := &walkBytes[map[int]int{1: 0, 2: 1, 4: 2}[s]]
+	step := int64(r.base - 1)
+	u := 2*r.Sum - n*step
+	hi, lo := r.UMax, r.UMin
+	for _, v := range p {
+		e := tab[v]
+		hi = max(hi, u+int64(e.hi))
+		lo = min(lo, u+int64(e.lo))
+		u += int64(e.sum)
+	}
+	r.UMax, r.UMin = hi, lo
+	r.Sum = (u + (n+int64(len(p)*(8/s)))*step) / 2
 }
 
 // add extends the walk over d, whose first digit is the stretch's (n+1)-th.

@@ -3,6 +3,7 @@ package tally
 import (
 	"encoding/json"
 	"fmt"
+	"math/bits"
 	"slices"
 )
 
@@ -76,87 +77,125 @@ func (r *Windows) kernels(t *Tally) []kernel {
 	if len(r.Counts) > 1<<18 { // random access into a table beyond the caches
 		cost = 16
 	}
-	k := kernel{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}
-	if packWidth(r.base) > 0 && r.batched() && r.K*packWidth(r.base) <= 32 {
-		k.packed = func(p []byte) { r.addPacked(t, p) }
+	if !r.packable() {
+		return []kernel{{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}}
 	}
-	return []kernel{k}
+	// Packed, the table is counted in windowParts parts, by the top bits of
+	// the window values, each by a kernel of its own: the parts run side by
+	// side on the cores and each part's table is a fraction of the whole
+	// in the core's cache. Spread out, the first kernel counts everything.
+	var ks []kernel
+	for part := range windowParts {
+		k := kernel{name: "windows", cost: cost / windowParts, packed: func(p []byte) { r.addPacked(t, p, part) }}
+		if part == 0 {
+			k.run = func(d []byte) { r.add(t, d) }
+		}
+		ks = append(ks, k)
+	}
+	return ks
 }
 
-// addPacked is add for a packed chunk (packed.go), batched tables only: a
-// K-window of s-bit digits is the K·s-bit field that ends at its last
-// digit, read from a register the bytes are shifted into.
-func (r *Windows) addPacked(t *Tally, p []byte) {
+// windowParts is the number of parts the packed windows are counted in.
+const windowParts = 1
+
+// packable reports whether packed chunks are counted by addPacked: bits,
+// bit pairs or nibbles, a batched table, window values of at most 32 bits
+// and enough of them to split in parts. The aligned blocks are then
+// counted by their own kernels (Blocks.addPacked).
+func (r *Windows) packable() bool {
 	s := packWidth(r.base)
-	m, K := 8/s, r.K
+	return s > 0 && r.batched() && r.K*s <= 32 && r.K*s > 8
+}
+
+// putPart writes window value v to buf[k] as a cell of its part's table
+// (based at cell base) and returns the next k: k+1 when v is in part pt
+// (v>>sh == pt), else k. Branch-free: which part a random window falls in
+// is a coin toss.
+func putPart(buf *[2 * windowBatch]uint32, k int, v uint64, sh uint, pt uint64, base uint32) int {
+	buf[k&(2*windowBatch-1)] = uint32(v) - base
+	if v>>sh == pt {
+		k++
+	}
+	return k
+}
+
+// addPacked counts this part's share of the K-windows that end inside a
+// packed chunk (packed.go): a window of s-bit digits is the K·s-bit field
+// that ends at its last digit, read from a register the bytes are shifted
+// into; the part is its top bits.
+func (r *Windows) addPacked(t *Tally, p []byte, part int) {
+	s := packWidth(r.base)
+	m, K, W := 8/s, r.K, r.K*s
 	n := len(p) * m
 	cnt := r.Counts
+	shift := W - bits.Len(windowParts-1) // value >> shift is the part
+	mine := func(v int) bool { return v>>shift == part }
 	lead := digitsOf(p, s, 0, min(n, K))
-	var blocks []blockCounter
-	for _, k := range t.blk.countedLengths() {
-		t.blk.add(t, k, lead)
-		blocks = append(blocks, t.blk.counter(k))
-	}
 	y := append(slices.Clip(t.Tail), lead[:min(len(lead), K-1)]...)
 	for end := len(t.Tail); end < len(y); end++ {
 		if end+1 >= K {
-			cnt[value(y[end+1-K:end+1], r.base)]++
+			if v := value(y[end+1-K:end+1], r.base); mine(v) {
+				cnt[v]++
+			}
 		}
 	}
 	if n < K {
 		return
 	}
-	cnt[value(lead, r.base)]++
+	if v := value(lead, r.base); mine(v) {
+		cnt[v]++
+	}
 	if n == K {
 		return
 	}
-	hot := hotTable(&r.hot, len(cnt))
-	if len(hot) != 1<<(K*s) || len(cnt) < len(hot) {
+	lo, hi := part<<shift, (part+1)<<shift // this part's cells
+	if len(cnt) != 1<<W || len(hotTable(&r.hot, len(cnt))) != len(cnt) {
 		panic("tally: packed windows need a byte table of 2^(K·s) cells")
 	}
-	mask := uint64(1)<<(K*s) - 1
-	// The digits from K on; byte q holds digits q·m … q·m+m−1.
+	hot, cold := r.hot[lo:hi], cnt[lo:hi]
+	mask := uint64(1)<<W - 1
+	// The digits from K on; byte q holds digits q·m … q·m+m−1. Each value
+	// is written to the batch, which advances only when it is this part's
+	// (branch-free: which part a random window falls in is a coin toss).
 	q0 := K / m
 	var reg uint64
 	for q := max(0, q0-8); q < q0; q++ {
 		reg = reg<<8 | uint64(p[q])
 	}
-	var buf [windowBatch]uint32
-	g0 := t.Offset + t.N + int64(K) // global end position of buf[0]'s window
+	var buf [2 * windowBatch]uint32
 	k := 0
-	flush := func() {
-		countBytesFast(hot, cnt, buf[:k]) // every value is masked below len(hot)
-		for bc := range blocks {
-			blocks[bc].count(buf[:k], g0)
-		}
-		g0 += int64(k)
-		k = 0
-	}
+	sh, pt, base := uint(shift), uint64(part), uint32(lo)
 	reg = reg<<8 | uint64(p[q0])
 	for j := K % m; j < m; j++ {
-		buf[k] = uint32(reg >> (8 - s*(j+1)) & mask)
-		k++
+		k = putPart(&buf, k, reg>>(8-s*(j+1))&mask, sh, pt, base)
 	}
 	for q := q0 + 1; q < len(p); q++ {
 		if k > windowBatch-8 {
-			flush()
+			countBytesFast(hot, cold, buf[:k]) // every value is in this part's cells
+			k = 0
 		}
 		reg = reg<<8 | uint64(p[q])
-		b := buf[k : k+8]
 		switch s {
 		case 1:
-			b[0], b[1], b[2], b[3] = uint32(reg>>7&mask), uint32(reg>>6&mask), uint32(reg>>5&mask), uint32(reg>>4&mask)
-			b[4], b[5], b[6], b[7] = uint32(reg>>3&mask), uint32(reg>>2&mask), uint32(reg>>1&mask), uint32(reg&mask)
+			k = putPart(&buf, k, reg>>7&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>6&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>5&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>3&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>2&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>1&mask, sh, pt, base)
+			k = putPart(&buf, k, reg&mask, sh, pt, base)
 		case 2:
-			b[0], b[1], b[2], b[3] = uint32(reg>>6&mask), uint32(reg>>4&mask), uint32(reg>>2&mask), uint32(reg&mask)
+			k = putPart(&buf, k, reg>>6&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(&buf, k, reg>>2&mask, sh, pt, base)
+			k = putPart(&buf, k, reg&mask, sh, pt, base)
 		default:
-			b[0], b[1] = uint32(reg>>4&mask), uint32(reg&mask)
+			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(&buf, k, reg&mask, sh, pt, base)
 		}
-		k += m
 	}
-	if k > 0 {
-		flush()
-	}
+	countBytesFast(hot, cold, buf[:k])
 }
 
 // add counts the K-windows that end inside d, and, when batched, the
