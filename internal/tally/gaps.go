@@ -81,7 +81,8 @@ type Gaps struct {
 	GapSpec
 	Classes []GapTally
 
-	table *[256]gapByte // addPacked's byte table
+	table         *[256]gapByte // addPacked's byte table
+	joined, spare []int64       // add's flat tables (flat); spare folded in by settle
 }
 
 // GapTally is the gap record of one digit class: Hist[r] counts complete gaps
@@ -157,6 +158,13 @@ func (r *Gaps) byteTable(s int) *[256]gapByte {
 // earlier byte are counted one by one: the gaps inside bytes follow from
 // how often each byte value occurs.
 func (r *Gaps) addPacked(p []byte, n int64, s int) {
+	if s > 1 {
+		// Bit pairs and nibbles: most bytes hold several classes, each one
+		// a gap that reaches in; digit by digit is as cheap, without the
+		// byte loop's unpredictable count.
+		r.addPairs(p, n, s)
+		return
+	}
 	m := int64(8 / s)
 	cap64 := int64(r.gapCap())
 	tab := r.byteTable(s)
@@ -200,36 +208,129 @@ func (r *Gaps) addPacked(p []byte, n int64, s int) {
 
 // add extends each class's gap record over d (d[0] at local position n),
 // with the positions of the last occurrences in a local array (−1: not
-// seen yet).
+// seen yet). Consecutive digits count into two copies of the histograms
+// (the record's and a spare one folded in when it settles): the common
+// short gaps hit the same few cells, and each increment would otherwise
+// wait for the one before.
 func (r *Gaps) add(d []byte, n int64) {
 	cap64 := int64(r.gapCap())
+	W := cap64 + 1
 	var last [256]int64
-	hists := make([][]int64, len(r.Classes))
+	hist, spare := r.flat()
 	for c := range r.Classes {
 		last[c] = -1
 		if r.Classes[c].Seen {
 			last[c] = r.Classes[c].Last
 		}
-		hists[c] = r.Classes[c].Hist
 	}
-	class := r.Class
-	for i, x := range d {
-		c := int(x)
-		if class != nil {
-			c = class[x]
+	var class [256]int64 // the digit's class times W: its histograms' offset
+	for x := range 256 {
+		if x < len(r.Class) {
+			class[x] = int64(r.Class[x])
+		} else if r.Class == nil {
+			class[x] = int64(x)
 		}
-		pos := n + int64(i)
+	}
+	i := 0
+	pos := n
+	// While every class has been seen, no first occurrence can come.
+	seenAll := true
+	for c := range r.Classes {
+		seenAll = seenAll && last[c] >= 0
+	}
+	if seenAll {
+		for ; i+2 <= len(d); i += 2 {
+			c0, c1 := class[d[i]], class[d[i+1]]
+			l0 := last[c0]
+			last[c0] = pos
+			l1 := last[c1]
+			last[c1] = pos + 1
+			hist[c0*W+min(pos-l0-1, cap64)]++
+			spare[c1*W+min(pos-l1, cap64)]++
+			pos += 2
+		}
+	}
+	for ; i < len(d); i++ {
+		c := class[d[i]]
 		if l := last[c]; l >= 0 {
-			hists[c][min(pos-l-1, cap64)]++
+			hist[c*W+min(pos-l-1, cap64)]++
 		} else {
 			r.Classes[c].Seen, r.Classes[c].First = true, pos
 		}
 		last[c] = pos
+		pos++
 	}
 	for c := range r.Classes {
 		if last[c] >= 0 {
 			r.Classes[c].Last = last[c]
 		}
+	}
+	r.unflat(hist)
+}
+
+// addPairs is add for packed bit pairs or nibbles, the digits read from
+// the bytes two at a time.
+func (r *Gaps) addPairs(p []byte, n int64, s int) {
+	seenAll := true
+	for c := range r.Classes {
+		seenAll = seenAll && r.Classes[c].Seen
+	}
+	if !seenAll || len(p) < 2 {
+		r.add(unpack(nil, p, s), n)
+		return
+	}
+	cap64 := int64(r.gapCap())
+	W := cap64 + 1
+	var last [256]int64
+	for c := range r.Classes {
+		last[c] = r.Classes[c].Last
+	}
+	var class [16]int // the digit's class
+	for x := range 1 << s {
+		class[x] = r.ClassOf(x)
+	}
+	hist, spare := r.flat()
+	mask := byte(1<<s - 1)
+	pos := n
+	for _, v := range p {
+		for sh := 8 - 2*s; sh >= 0; sh -= 2 * s {
+			c0, c1 := class[v>>(sh+s)&mask], class[v>>sh&mask]
+			l0 := last[c0]
+			last[c0] = pos
+			l1 := last[c1]
+			last[c1] = pos + 1
+			hist[int64(c0)*W+min(pos-l0-1, cap64)]++
+			spare[int64(c1)*W+min(pos-l1, cap64)]++
+			pos += 2
+		}
+	}
+	for c := range r.Classes {
+		r.Classes[c].Last = last[c]
+	}
+	r.unflat(hist)
+}
+
+// flat returns the histograms as one table, class c's at c·(cap+1), and
+// the spare copy (made on first use).
+func (r *Gaps) flat() (hist, spare []int64) {
+	W := r.gapCap() + 1
+	if r.joined == nil {
+		r.joined = make([]int64, len(r.Classes)*W)
+	}
+	for c := range r.Classes {
+		copy(r.joined[c*W:], r.Classes[c].Hist)
+	}
+	if r.spare == nil {
+		r.spare = make([]int64, len(r.Classes)*W)
+	}
+	return r.joined, r.spare
+}
+
+// unflat copies the flat table back into the classes' histograms.
+func (r *Gaps) unflat(hist []int64) {
+	W := r.gapCap() + 1
+	for c := range r.Classes {
+		copy(r.Classes[c].Hist, hist[c*W:(c+1)*W])
 	}
 }
 
@@ -263,7 +364,17 @@ func (r *Gaps) clone() record {
 	return u
 }
 
-func (r *Gaps) settle(*Tally) {}
+// settle folds the spare histograms into the record's.
+func (r *Gaps) settle(*Tally) {
+	if r.spare == nil {
+		return
+	}
+	W := r.gapCap() + 1
+	for c := range r.Classes {
+		addInto(r.Classes[c].Hist, r.spare[c*W:(c+1)*W])
+	}
+	clear(r.spare)
+}
 
 type gapEntry struct {
 	Hist  table `json:"hist"`
