@@ -145,30 +145,53 @@ func (r *Blocks) addPacked(t *Tally, k int, p []byte) {
 	if hot != nil && len(hot) != 1<<(k*s) {
 		panic("tally: packed blocks need a table of 2^(k·s) cells")
 	}
-	// The blocks are fields of w bits, each read by a 64-bit load of its own
-	// (no chain from one block to the next); the last few, within 8 bytes
-	// of the end, bit by bit.
-	w := uint(k * s)
+	// The blocks are fields of k·s bits, each read by a 64-bit load of its
+	// own (fields); the last few, within 8 bytes of the end, bit by bit.
+	w := k * s
+	fast := max(0, ((len(p)-8)*8-a*s)/w+1) // blocks whose load stays inside p
 	var buf [windowBatch]uint32
-	for a+k <= n {
-		j := 0
-		for bit := a * s; j < windowBatch && a+k <= n && bit>>3+8 <= len(p); bit += int(w) {
-			x := binary.BigEndian.Uint64(p[bit>>3:]) << (uint(bit) & 7)
-			buf[j] = uint32(x >> ((64 - w) & 63))
-			j++
-			a += k
+	for left := (n - a) / k; left > 0; {
+		j := min(left, windowBatch)
+		if fast > 0 {
+			j = min(j, fast)
+			fields(buf[:j], p, a*s, w)
+			fast -= j
+		} else {
+			for i := range buf[:j] {
+				buf[i] = uint32(bitField(p, (a+i*k)*s, w))
+			}
 		}
-		for ; j < windowBatch && a+k <= n && (a*s)>>3+8 > len(p); a += k {
-			buf[j] = uint32(bitField(p, a*s, k*s))
-			j++
-		}
+		a += j * k
+		left -= j
 		if hot != nil {
 			countBytesFast(hot, cnt, buf[:j]) // fields of k·s bits are below len(hot)
 		} else {
-			for _, v := range buf[:j] {
-				cnt[v]++
-			}
+			countInto(cnt, buf[:j])
 		}
+	}
+}
+
+// countInto adds one to cnt[v] for each v in vals (a loop of its own: in
+// the caller its index would live on the stack).
+//
+//go:noinline
+func countInto(cnt []int64, vals []uint32) {
+	for _, v := range vals {
+		cnt[v]++
+	}
+}
+
+// fields sets buf[i] to the w-bit field (w ≤ 56) of p at bit+i·w, reading 8
+// bytes for each: each must be inside p. A loop of its own, with its few
+// values in registers.
+//
+//go:noinline
+func fields(buf []uint32, p []byte, bit, w int) {
+	sh := uint(64-w) & 63
+	for i := range buf {
+		x := binary.BigEndian.Uint64(p[bit>>3:]) << (uint(bit) & 7)
+		buf[i] = uint32(x >> sh)
+		bit += w
 	}
 }
 

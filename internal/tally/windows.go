@@ -119,6 +119,44 @@ func putPart(buf *[2 * windowBatch]uint32, k int, v uint64, sh uint, pt uint64, 
 	return k
 }
 
+// windowRun shifts the bytes of p into reg and writes the window values
+// of this part (putPart) to buf from k on, which has room for them; it
+// returns the next k and the register. A loop of its own, with its values
+// in registers.
+//
+//go:noinline
+func windowRun(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, s int, sh uint, pt uint64, base uint32) (int, uint64) {
+	switch s {
+	case 1:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			k = putPart(buf, k, reg>>7&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>6&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>5&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>3&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>2&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>1&mask, sh, pt, base)
+			k = putPart(buf, k, reg&mask, sh, pt, base)
+		}
+	case 2:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			k = putPart(buf, k, reg>>6&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(buf, k, reg>>2&mask, sh, pt, base)
+			k = putPart(buf, k, reg&mask, sh, pt, base)
+		}
+	default:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
+			k = putPart(buf, k, reg&mask, sh, pt, base)
+		}
+	}
+	return k, reg
+}
+
 // addPacked counts this part's share of the K-windows that end inside a
 // packed chunk (packed.go): a window of s-bit digits is the K·s-bit field
 // that ends at its last digit, read from a register the bytes are shifted
@@ -169,30 +207,14 @@ func (r *Windows) addPacked(t *Tally, p []byte, part int) {
 	for j := K % m; j < m; j++ {
 		k = putPart(&buf, k, reg>>(8-s*(j+1))&mask, sh, pt, base)
 	}
-	for q := q0 + 1; q < len(p); q++ {
-		if k > windowBatch-8 {
+	m8 := 8 / s
+	for q := q0 + 1; q < len(p); {
+		take := min(len(p)-q, (windowBatch-k)/m8)
+		k, reg = windowRun(&buf, k, p[q:q+take], reg, mask, s, sh, pt, base)
+		q += take
+		if k > windowBatch-m8 {
 			countBytesFast(hot, cold, buf[:k]) // every value is in this part's cells
 			k = 0
-		}
-		reg = reg<<8 | uint64(p[q])
-		switch s {
-		case 1:
-			k = putPart(&buf, k, reg>>7&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>6&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>5&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>3&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>2&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>1&mask, sh, pt, base)
-			k = putPart(&buf, k, reg&mask, sh, pt, base)
-		case 2:
-			k = putPart(&buf, k, reg>>6&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(&buf, k, reg>>2&mask, sh, pt, base)
-			k = putPart(&buf, k, reg&mask, sh, pt, base)
-		default:
-			k = putPart(&buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(&buf, k, reg&mask, sh, pt, base)
 		}
 	}
 	countBytesFast(hot, cold, buf[:k])
