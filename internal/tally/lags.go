@@ -59,8 +59,14 @@ func (r *Lags) kernels(t *Tally) []kernel {
 	return []kernel{{name: "lags", cost: 3, run: func(d []byte) { r.add(t.Tail, d) }}}
 }
 
-// add adds x_i·x_{i+h} for the pairs that end inside d.
+// add adds x_i·x_{i+h} for the pairs that end inside d. Up to 5 lags go
+// in one pass over d, the last digits in registers and one sum a lag
+// (independent chains); more lags, one pass each.
 func (r *Lags) add(tail, d []byte) {
+	if r.Max <= 5 && len(d) > r.Max {
+		r.add5(tail, d)
+		return
+	}
 	for h := 1; h <= r.Max; h++ {
 		var s int64
 		for i := 0; i < min(h, len(d)); i++ { // partner in the tail
@@ -73,6 +79,53 @@ func (r *Lags) add(tail, d []byte) {
 		}
 		r.Products[h] += s
 	}
+}
+
+// add5 is add for Max ≤ 5 and len(d) > Max.
+func (r *Lags) add5(tail, d []byte) {
+	M := r.Max
+	var sum [6]int64
+	for h := 1; h <= M; h++ { // pairs whose first digit is in the tail
+		for i := 0; i < h; i++ {
+			if j := len(tail) - h + i; j >= 0 {
+				sum[h] += int64(tail[j]) * int64(d[i])
+			}
+		}
+	}
+	// Pairs inside d[:M]; from d[M] on every partner lies inside d.
+	for h := 1; h <= M; h++ {
+		for i := h; i < M; i++ {
+			sum[h] += int64(d[i-h]) * int64(d[i])
+		}
+	}
+	s1, s2, s3, s4, s5 := lagPass(d, M)
+	sums := [6]int64{0, s1, s2, s3, s4, s5}
+	for h := 1; h <= M; h++ {
+		r.Products[h] += sum[h] + sums[h]
+	}
+}
+
+// lagPass returns Σ d[i]·d[i−h] over i ≥ M for h = 1 … 5 (h ≤ M ≤ 5 are
+// the ones wanted; the others read zeros before d[0]). A loop of its own,
+// with the five digits back and the five sums in registers.
+//
+//go:noinline
+func lagPass(d []byte, M int) (s1, s2, s3, s4, s5 int64) {
+	var x [5]int64 // x[h−1]: the digit h places before d[M]
+	for h := 1; h <= M; h++ {
+		x[h-1] = int64(d[M-h])
+	}
+	x1, x2, x3, x4, x5 := x[0], x[1], x[2], x[3], x[4]
+	for _, v := range d[M:] {
+		y := int64(v)
+		s1 += y * x1
+		s2 += y * x2
+		s3 += y * x3
+		s4 += y * x4
+		s5 += y * x5
+		x5, x4, x3, x2, x1 = x4, x3, x2, x1, y
+	}
+	return
 }
 
 func (r *Lags) merge(next record, sm *seam) {
