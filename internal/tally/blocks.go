@@ -148,7 +148,10 @@ func (r *Blocks) addPacked(t *Tally, k int, p []byte) {
 	// The blocks are fields of k·s bits, each read by a 64-bit load of its
 	// own (fields); the last few, within 8 bytes of the end, bit by bit.
 	w := k * s
-	fast := max(0, ((len(p)-8)*8-a*s)/w+1) // blocks whose load stays inside p
+	fast := 0 // blocks whose load stays inside p: bit a·s+i·w ≤ 8·(len(p)−8)
+	if room := 8*(len(p)-8) - a*s; room >= 0 {
+		fast = room/w + 1
+	}
 	var buf [windowBatch]uint32
 	for left := (n - a) / k; left > 0; {
 		j := min(left, windowBatch)

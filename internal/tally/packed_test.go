@@ -44,13 +44,16 @@ func TestUnpack(t *testing.T) {
 // (long runs and gaps reach the caps), and a stretch that starts inside a
 // byte (added the long way).
 func TestPackedEqualsDigits(t *testing.T) {
-	defer func(w, c, h int) { warmupDigits, calibrationDigits, hotMinCells = w, c, h }(warmupDigits, calibrationDigits, hotMinCells)
+	defer func(w, c, h, p int) {
+		warmupDigits, calibrationDigits, hotMinCells, windowParts = w, c, h, p
+	}(warmupDigits, calibrationDigits, hotMinCells, windowParts)
 	warmupDigits, calibrationDigits = 4096, 3*4096
 	rng := rand.New(rand.NewPCG(11, 12))
 	for trial := range 120 {
 		s := []int{1, 2, 4}[trial%3]
 		base, m := 1<<s, 8/s
 		hotMinCells = []int{1 << 16, 16}[rng.IntN(2)]
+		windowParts = []int{1, 2, 4}[rng.IntN(3)]
 		spec := randomSpec(rng, base, 1+rng.IntN(12/s+1))
 		if rng.IntN(3) == 0 {
 			spec.Records = append(spec.Records[:0:0], &GapSpec{}, &CouponSpec{Classes: base, Class: identity(base), Cap: 40}, &UpDownSpec{Digits: 64 / s}, &RunSpec{Digit: base - 1}, &WalkSpec{}, &LagSpec{Max: 5}, &HandSpec{Size: 2 + rng.IntN(3)})
@@ -137,6 +140,30 @@ func TestPackedRunInsideByte(t *testing.T) {
 		got.AddPacked(p[100:])
 		if w, g := want.Runs(), got.Runs(); w.Any != g.Any || w.Dig != g.Dig || w.Any.Max != int64(m-2) || w.Dig.Max != int64(m-2) {
 			t.Fatalf("s=%d: packed runs %+v, digits %+v (longest %d inside one byte)", s, g, w, m-2)
+		}
+	}
+}
+
+// Chunks shorter than a 64-bit load (a file's last few bytes): every
+// packed kernel must read them without running off the end.
+func TestPackedShortChunks(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for _, s := range []int{1, 2, 4} {
+		base, m := 1<<s, 8/s
+		spec := Spec{Base: base, MaxBlock: 24 / s, Records: []RecordSpec{&GapSpec{}, &UpDownSpec{Digits: 32 / s},
+			&RunSpec{Digit: 0}, &WalkSpec{}, &CouponSpec{Classes: base, Class: identity(base), Cap: 40}}}
+		d := randomDigits(rng, m*4000, base)
+		want := mustNew(t, spec, 0)
+		want.Add(d)
+		got := mustNew(t, spec, 0)
+		p := pack(d, s)
+		for i := 0; i < len(p); {
+			j := min(len(p), i+1+rng.IntN(7)) // 1 to 7 bytes
+			got.AddPacked(p[i:j])
+			i = j
+		}
+		if !same(got, want) {
+			t.Fatalf("base %d: short packed chunks give a different tally", base)
 		}
 	}
 }
