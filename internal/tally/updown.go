@@ -59,58 +59,45 @@ func (r *UpDown) kernels(t *Tally) []kernel {
 func (r *UpDown) addPacked(t *Tally, p []byte, s int) {
 	L := r.Digits
 	keep := min(len(t.Tail), 3*L-1)
-	n := len(p) * (8 / s)
-	xs := t.Offset + t.N - int64(keep) // global position of digit 0 (the kept tail's first)
-	st := 0
-	if rem := xs % int64(L); rem != 0 {
-		st = L - int(rem)
-	}
-	var v1, v2 uint64
-	have := 0
-	for ; st+L <= keep+n; st += L {
-		var v uint64
+	r.count(keep, keep+len(p)*(8/s), t.Offset+t.N-int64(keep), func(st int) uint64 {
 		if st >= keep {
-			v = bitField(p, (st-keep)*s, L*s)
-		} else {
-			from := len(t.Tail) - keep + st
-			w := append(append([]byte{}, t.Tail[from:min(len(t.Tail), from+L)]...), digitsOf(p, s, 0, st+L-keep)...)
-			v = udValue(w, t.Base)
+			return bitField(p, (st-keep)*s, L*s)
 		}
-		if st+L > keep {
-			r.Values++
-			if have >= 1 && v == v1 {
-				r.Ties++
-			}
-			if have >= 2 && ((v1 > v2 && v1 > v) || (v1 < v2 && v1 < v)) {
-				r.Turns++
-			}
-		}
-		v2, v1 = v1, v
-		have++
-	}
+		from := len(t.Tail) - keep + st
+		w := append(append([]byte{}, t.Tail[from:min(len(t.Tail), from+L)]...), digitsOf(p, s, 0, st+L-keep)...)
+		return udValue(w, t.Base)
+	})
 }
 
 // add counts the aligned values that end inside d, and the ties and
-// turning points among consecutive values whose last value ends inside d.
-// Each value is computed once: the groups fully inside the kept tail and d
-// are read in order, the tail's (already counted) ones only as the context
-// of the first pairs and triples.
+// turning points among consecutive values whose last value ends inside d
+// (count), each value computed once from the kept tail followed by d.
 func (r *UpDown) add(t *Tally, d []byte) {
 	L := r.Digits
 	keep := min(len(t.Tail), 3*L-1)
 	x := append(r.scratch[:0], t.Tail[len(t.Tail)-keep:]...)
 	x = append(x, d...)
-	r.scratch = x                      // reused: no garbage per chunk
-	xs := t.Offset + t.N - int64(keep) // global position of x[0]
-	s := 0
+	r.scratch = x // reused: no garbage per chunk
+	r.count(keep, len(x), t.Offset+t.N-int64(keep), func(st int) uint64 { return udValue(x[st:st+L], t.Base) })
+}
+
+// count reads the aligned values among digits 0 … total of the kept tail
+// (its last keep digits) followed by the new digits, digit 0 at global
+// position xs; value(st) is the value that starts at digit st. It counts
+// the values that end among the new digits, and their ties and turning
+// points; the tail's values (already counted) serve only as the context
+// of the first pairs and triples.
+func (r *UpDown) count(keep, total int, xs int64, value func(st int) uint64) {
+	L := r.Digits
+	st := 0
 	if rem := xs % int64(L); rem != 0 {
-		s = L - int(rem)
+		st = L - int(rem)
 	}
 	var v1, v2 uint64 // the previous two values
 	have := 0
-	for ; s+L <= len(x); s += L {
-		v := udValue(x[s:s+L], t.Base)
-		if s+L > keep { // this value ends inside d
+	for ; st+L <= total; st += L {
+		v := value(st)
+		if st+L > keep { // this value ends among the new digits
 			r.Values++
 			if have >= 1 && v == v1 {
 				r.Ties++
