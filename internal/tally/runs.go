@@ -123,17 +123,26 @@ func (r *Runs) addPacked(t *Tally, p []byte) {
 	for _, v := range p {
 		e := &tab[v]
 		// The run of any digit: the byte's lead continues the open run
-		// when its first digit equals the previous one.
-		cand := aTrail*b2i(e.first == prev) + int64(e.lead)
+		// when its first digit equals the previous one. A byte that is one
+		// run through is rare (a branch the processor predicts): otherwise
+		// the open run is the byte's trail, whatever came before, and the
+		// only chain from byte to byte is the maximum.
+		cand := aTrail&-b2i(e.first == prev) + int64(e.lead)
 		aMax = max(aMax, cand, int64(e.top))
-		whole := b2i(int64(e.lead) == m) // one run through the byte
-		aTrail = whole*cand + (1-whole)*int64(e.trail)
+		if int64(e.lead) == m {
+			aTrail = cand
+		} else {
+			aTrail = int64(e.trail)
+		}
 		prev = e.last
 		// The runs of the digit: dLead is 0 when the byte starts with another.
 		dCand := dTrail + int64(e.dLead)
 		dMax = max(dMax, dCand, int64(e.dTop))
-		dWhole := b2i(int64(e.dLead) == m)
-		dTrail = dWhole*dCand + (1-dWhole)*int64(e.dTrail)
+		if int64(e.dLead) == m {
+			dTrail = dCand
+		} else {
+			dTrail = int64(e.dTrail)
+		}
 	}
 	r.Any.Trail, r.Any.Max = aTrail, aMax
 	r.Dig.Trail, r.Dig.Max = dTrail, dMax

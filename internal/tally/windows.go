@@ -160,6 +160,38 @@ func windowRun(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, 
 	return k, reg
 }
 
+// windowRunAll is windowRun for one part: every value is written, 8/s a
+// byte, with no test.
+//
+//go:noinline
+func windowRunAll(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, s int) (int, uint64) {
+	switch s {
+	case 1:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			b := buf[k&(2*windowBatch-1):][:8]
+			b[0], b[1], b[2], b[3] = uint32(reg>>7&mask), uint32(reg>>6&mask), uint32(reg>>5&mask), uint32(reg>>4&mask)
+			b[4], b[5], b[6], b[7] = uint32(reg>>3&mask), uint32(reg>>2&mask), uint32(reg>>1&mask), uint32(reg&mask)
+			k += 8
+		}
+	case 2:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			b := buf[k&(2*windowBatch-1):][:4]
+			b[0], b[1], b[2], b[3] = uint32(reg>>6&mask), uint32(reg>>4&mask), uint32(reg>>2&mask), uint32(reg&mask)
+			k += 4
+		}
+	default:
+		for _, v := range p {
+			reg = reg<<8 | uint64(v)
+			b := buf[k&(2*windowBatch-1):][:2]
+			b[0], b[1] = uint32(reg>>4&mask), uint32(reg&mask)
+			k += 2
+		}
+	}
+	return k, reg
+}
+
 // addPacked counts this part's share of the K-windows that end inside a
 // packed chunk (packed.go): a window of s-bit digits is the K·s-bit field
 // that ends at its last digit, read from a register the bytes are shifted
@@ -213,7 +245,11 @@ func (r *Windows) addPacked(t *Tally, p []byte, part int) {
 	m8 := 8 / s
 	for q := q0 + 1; q < len(p); {
 		take := min(len(p)-q, (windowBatch-k)/m8)
-		k, reg = windowRun(&buf, k, p[q:q+take], reg, mask, s, sh, pt, base)
+		if windowParts == 1 {
+			k, reg = windowRunAll(&buf, k, p[q:q+take], reg, mask, s)
+		} else {
+			k, reg = windowRun(&buf, k, p[q:q+take], reg, mask, s, sh, pt, base)
+		}
 		q += take
 		if k > windowBatch-m8 {
 			countBytesFast(hot, cold, buf[:k]) // every value is in this part's cells
