@@ -292,10 +292,7 @@ func (r *Windows) add(t *Tally, d []byte) {
 		var buf [windowBatch]uint32
 		for i := K; i < len(d); {
 			idx := buf[:min(windowBatch, len(d)-i)]
-			for j := range idx {
-				w = (w-int(d[i+j-K])*pow)*b + int(d[i+j])
-				idx[j] = uint32(w)
-			}
+			w = rollWindows(idx, d[i-K:i+len(idx)], w, pow, b, K)
 			countBytes(hot, cnt, idx)
 			for bc := range blocks {
 				blocks[bc].count(idx, t.Offset+t.N+int64(i))
@@ -308,6 +305,36 @@ func (r *Windows) add(t *Tally, d []byte) {
 		w = (w-int(d[i-K])*pow)*b + int(d[i])
 		cnt[w]++
 	}
+}
+
+// rollWindows sets idx[j] to the value of the K-window of x that ends at
+// x[K+j] (x holds the K digits before the batch, then the batch), given w,
+// the value of the window that ends at x[K−1], and returns the last value.
+// Two halves of the batch roll side by side, the second started from its
+// own first window: each step of a roll waits for the one before (a
+// multiply and an add), and two chains keep the multiplier busy.
+func rollWindows(idx []uint32, x []byte, w, pow, b, K int) int {
+	h := len(idx) / 2
+	if h < K {
+		for j := range idx {
+			w = (w-int(x[j])*pow)*b + int(x[j+K])
+			idx[j] = uint32(w)
+		}
+		return w
+	}
+	v := value(x[h:h+K], b) // the window that ends where the second half starts
+	a, c := x[:h+K], x[h:2*h+K]
+	lo, hi := idx[:h], idx[h:2*h]
+	for j := range lo {
+		w = (w-int(a[j])*pow)*b + int(a[j+K])
+		v = (v-int(c[j])*pow)*b + int(c[j+K])
+		lo[j], hi[j] = uint32(w), uint32(v)
+	}
+	for j := 2 * h; j < len(idx); j++ { // an odd batch's last window
+		v = (v-int(x[j])*pow)*b + int(x[j+K])
+		idx[j] = uint32(v)
+	}
+	return v
 }
 
 // merge adds next's windows and counts those that cross the cut.
