@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/big"
 	"os"
+	"runtime/debug"
 	"time"
 
 	"github.com/spf13/pflag"
@@ -297,7 +298,12 @@ func runRebase(e env, args []string) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	got := expand.Rebase(d, a, b)
+	// The collector at 25 % instead of 100 %: dead transforms would pile up
+	// to twice the live heap (3.3 GB resident at 10^8 decimals into base 3,
+	// 1.5 GB like this, in the same time).
+	defer debug.SetGCPercent(debug.SetGCPercent(25))
+	n := len(d)
+	got := expand.Rebase(d, a, b) // d is not read after: the collector may take it
 	data := formatDigits(got, *wrap)
 	if intPart != "" {
 		iv, _ := new(big.Int).SetString(intPart, a)
@@ -307,7 +313,7 @@ func runRebase(e env, args []string) (int, error) {
 		return 0, err
 	}
 	if !*quiet {
-		fmt.Fprintf(e.stderr, "borel: %d base-%d digits determine %d base-%d digits\n", len(d), a, len(got), b)
+		fmt.Fprintf(e.stderr, "borel: %d base-%d digits determine %d base-%d digits\n", n, a, len(got), b)
 	}
 	return exitOK, nil
 }

@@ -183,6 +183,9 @@ func (c *powerCache) mulPow(v *big.Int, h int) *big.Int {
 		return mul(v, p)
 	}
 	n := nttLen(nv + np)
+	if 24*n > maxCachedSpectrum {
+		return nttMul(v, p)
+	}
 	key := [2]int{h, n}
 	c.mu.Lock()
 	s, ok := c.spec[key]
@@ -193,8 +196,17 @@ func (c *powerCache) mulPow(v *big.Int, h int) *big.Int {
 		c.spec[key] = s
 		c.mu.Unlock()
 	}
-	return sumOfProducts(product{newSpectrum(v, n), s})
+	sv := newSpectrum(v, n)
+	sv.spent = true
+	return sumOfProducts(product{sv, s})
 }
+
+// maxCachedSpectrum is the size in bytes (three residues of n words) above
+// which mulPow does not keep a power's transform: the largest powers serve
+// the top levels of a tree, one or two products each, and their transforms
+// held to the end were most of the peak memory (at 10^8 decimals rebased,
+// 290 MB of about 1.6 GB).
+const maxCachedSpectrum = 64 << 20
 
 // get returns base^h with its reciprocal for quotients of up to h digits.
 func (c *powerCache) get(h int) (*big.Int, *big.Int, uint) {

@@ -216,13 +216,21 @@ func fusedNode(l, r bsResult, needP bool) bsResult {
 		ops = append(ops, r.P)
 	}
 	s := spectra(nttLen(words+1), ops...)
+	// l.T, l.Q and r.P enter one product each: as its first operand, their
+	// transforms take the product's residues (spent), and the three
+	// products allocate none. r.Q and l.P, read by two products running
+	// side by side, stay.
+	s[3].spent, s[4].spent = true, true
+	if needP {
+		s[5].spent = true
+	}
 	res := bsResult{B: one}
 	var wg sync.WaitGroup
 	wg.Add(2)
-	go func() { defer wg.Done(); res.T = sumOfProducts(product{s[2], s[3]}, product{s[0], s[1]}) }()
+	go func() { defer wg.Done(); res.T = sumOfProducts(product{s[3], s[2]}, product{s[1], s[0]}) }()
 	go func() { defer wg.Done(); res.Q = sumOfProducts(product{s[4], s[2]}) }()
 	if needP {
-		res.P = sumOfProducts(product{s[0], s[5]})
+		res.P = sumOfProducts(product{s[5], s[0]})
 	}
 	wg.Wait()
 	return res

@@ -424,6 +424,10 @@ type spectrum struct {
 	words int
 	neg   bool
 	r     [3][]uint64
+	// spent: the caller gives the spectrum up to the one product it is the
+	// first operand of, which then overwrites it with the result's residues
+	// instead of allocating three more arrays of n words.
+	spent bool
 }
 
 // nttLen is the transform length for a product of w words: the least
@@ -634,11 +638,17 @@ func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []ui
 	}
 	c := mulMod(powMod(2, 64, p), powMod(uint64(n), p-2, p), p) // 2^64/n mod p
 	cp, _ := bits.Div64(c, 0, p)
-	x := make([]uint64, n)
+	var x []uint64
+	if terms[0].a.spent {
+		x = terms[0].a.r[k][:n] // read and written at the same index
+	} else {
+		x = make([]uint64, n)
+	}
 	for t, term := range terms {
 		a, b := term.a.r[k], term.b.r[k]
 		a, b = a[:n], b[:n]
 		sub := negative[t] != negative[0]
+		first := uint64(b2u(t > 0)) // 0: the first term sets x
 		for i := range x {
 			hi, lo := bits.Mul64(a[i], b[i])
 			mh, _ := bits.Mul64(lo*pinv, p)
@@ -649,7 +659,7 @@ func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []ui
 			if sub {
 				v = p - v // [1, p]
 			}
-			x[i] += v // at most 3 terms: below 3p < 2^64
+			x[i] = x[i]*first + v // at most 3 terms: below 3p < 2^64
 		}
 	}
 	for i, v := range x {
@@ -667,6 +677,14 @@ func pointwiseInverse(q *nttPrime, terms []product, negative []bool, n int) []ui
 		x[i] = v
 	}
 	return x
+}
+
+// b2u is 1 for true, 0 for false.
+func b2u(v bool) uint {
+	if v {
+		return 1
+	}
+	return 0
 }
 
 // Garner constants for the three primes.
@@ -773,8 +791,10 @@ func nttMul(a, b *big.Int) *big.Int {
 	n := nttLen(len(a.Bits()) + len(b.Bits()))
 	if a == b {
 		s := newSpectrum(a, n)
+		s.spent = true
 		return sumOfProducts(product{s, s})
 	}
 	s := spectra(n, a, b)
+	s[0].spent = true
 	return sumOfProducts(product{s[0], s[1]})
 }

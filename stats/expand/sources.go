@@ -20,6 +20,7 @@ type Source struct {
 	stream func(base int) func(d []byte)     // generators: the next digits into d, chunk after chunk
 	base   int                               // a source with a base of its own (iid), else 0
 	meter  Meter                             // progress of a constant's computation, or nil
+	perBit func(bits float64) float64        // a constant's memory, bytes per bit of precision (MemoryEstimate)
 }
 
 // WithMeter returns the source reporting the progress of its computations
@@ -43,13 +44,13 @@ func ParseSource(name string) (Source, error) {
 	s := Source{Name: name}
 	switch {
 	case kind == "pi" && !hasArg:
-		s.fixed, s.symbol, s.Detail = piFixed, "π", "π by Chudnovsky's series (binary splitting)"
+		s.fixed, s.symbol, s.Detail, s.perBit = piFixed, "π", "π by Chudnovsky's series (binary splitting)", piPerBit
 	case kind == "e" && !hasArg:
-		s.fixed, s.symbol, s.Detail = eFixed, "e", "e by Σ 1/k! (binary splitting)"
+		s.fixed, s.symbol, s.Detail, s.perBit = eFixed, "e", "e by Σ 1/k! (binary splitting)", rootPerBit
 	case kind == "ln2" && !hasArg:
 		s.fixed, s.symbol, s.Detail = ln2Fixed, "ln 2", "ln 2 = 18 atanh(1/26) - 2 atanh(1/4801) + 8 atanh(1/8749) (binary splitting)"
 	case kind == "phi" && !hasArg:
-		s.fixed, s.symbol, s.Detail = phiFixed, "φ", "golden ratio (1+√5)/2, exact integer square root"
+		s.fixed, s.symbol, s.Detail, s.perBit = phiFixed, "φ", "golden ratio (1+√5)/2, exact integer square root", rootPerBit
 	case strings.HasPrefix(kind, "sqrt") && !hasArg:
 		n, err := strconv.ParseInt(strings.TrimPrefix(kind, "sqrt"), 10, 64)
 		if err != nil || n <= 0 || n > 1<<40 {
@@ -59,6 +60,7 @@ func ParseSource(name string) (Source, error) {
 			return s, fmt.Errorf("source %q: %d is a perfect square, its root has no fractional digits", name, n)
 		}
 		s.fixed, s.symbol, s.Detail = sqrtFixed(n), fmt.Sprintf("√%d", n), fmt.Sprintf("√%d, exact integer square root", n)
+		s.perBit = rootPerBit
 	case kind == "stoneham":
 		bs, cs, ok := strings.Cut(arg, ",")
 		b, err1 := strconv.ParseInt(bs, 10, 64)
@@ -153,20 +155,37 @@ func (s Source) CheckedDigits(n, offset, base int) ([]byte, []string, error) {
 // MemoryEstimate returns roughly how many bytes computing n digits in base
 // b takes. Constants hold a few numbers of the result's size, their
 // products and the transforms of up to six operands modulo three primes
-// (24 bytes per 64-bit word each): peak resident memory measured with
-// /usr/bin/time -v was 13–16 bytes per bit of precision for π, e, √2 and
-// ln 2 at 10^6–10^8 decimals (with the estimate as the garbage collector's
-// soft limit, see cmd/borel), so 16 per bit is taken, plus the digits and
-// 32 MiB for the program itself. Digit-native sources need about the digits
-// themselves when they are asked for all at once (the generators also
-// Stream, in constant memory).
+// (24 bytes per 64-bit word each), and the transforms' twiddle tables. The
+// live heap at its peak, sampled with the collector at GOGC=5 or 10, in
+// bytes per bit of precision: π 7.6 at 10^7 decimals, 8.1 at 3·10^7 and
+// 11.1 at 10^8; e 5.6 and 3.1 at 10^7 and 3·10^7; √2 5.5 at 10^7; ln 2
+// 13.9 at 10^7. The estimate takes perBit bytes a bit (piPerBit, rootPerBit;
+// 16 for the others), plus the digits and 32 MiB for the program itself;
+// the command makes 7/8 of it the garbage collector's soft limit
+// (cmd/borel), so that the peak stays near that and above the live heap.
+// Digit-native sources need about the digits themselves when they are
+// asked for all at once (the generators also Stream, in constant memory).
 func (s Source) MemoryEstimate(n, base int) float64 {
 	if s.fixed == nil {
 		return 2 * float64(n)
 	}
 	bits := float64(bitsFor(n, base))
-	return 16*bits + 2*float64(n) + 32<<20
+	perBit := 16.0
+	if s.perBit != nil {
+		perBit = s.perBit(bits)
+	}
+	return perBit*bits + 2*float64(n) + 32<<20
 }
+
+// piPerBit is π's bytes per bit of precision for MemoryEstimate: 9 up to
+// 10^7 decimals, then 2.5 more per factor of 10 (the measured live peak
+// grows from 7.6 to 11.1 bytes a bit between 10^7 and 10^8 decimals).
+func piPerBit(bits float64) float64 {
+	return 9 + 2.5*max(0, math.Log10(bits/3.33e7))
+}
+
+// rootPerBit is the same for e, φ and square roots.
+func rootPerBit(float64) float64 { return 8 }
 
 func gcd(a, b int64) int64 {
 	for b != 0 {
