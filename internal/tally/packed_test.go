@@ -44,16 +44,13 @@ func TestUnpack(t *testing.T) {
 // (long runs and gaps reach the caps), and a stretch that starts inside a
 // byte (added the long way).
 func TestPackedEqualsDigits(t *testing.T) {
-	defer func(w, c, h, p int) {
-		warmupDigits, calibrationDigits, hotMinCells, windowParts = w, c, h, p
-	}(warmupDigits, calibrationDigits, hotMinCells, windowParts)
+	defer func(w, c, h int) { warmupDigits, calibrationDigits, hotMinCells = w, c, h }(warmupDigits, calibrationDigits, hotMinCells)
 	warmupDigits, calibrationDigits = 4096, 3*4096
 	rng := rand.New(rand.NewPCG(11, 12))
 	for trial := range 120 {
 		s := []int{1, 2, 4}[trial%3]
 		base, m := 1<<s, 8/s
 		hotMinCells = []int{1 << 16, 16}[rng.IntN(2)]
-		windowParts = []int{1, 2, 4}[rng.IntN(3)]
 		spec := randomSpec(rng, base, 1+rng.IntN(12/s+1))
 		if rng.IntN(3) == 0 {
 			spec.Records = append(spec.Records[:0:0], &GapSpec{}, &CouponSpec{Classes: base, Class: identity(base), Cap: 40}, &UpDownSpec{Digits: 64 / s}, &RunSpec{Digit: base - 1}, &WalkSpec{}, &LagSpec{Max: 5}, &HandSpec{Size: 2 + rng.IntN(3)})

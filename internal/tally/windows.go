@@ -3,7 +3,6 @@ package tally
 import (
 	"encoding/json"
 	"fmt"
-	"math/bits"
 	"slices"
 )
 
@@ -80,91 +79,25 @@ func (r *Windows) kernels(t *Tally) []kernel {
 	if !r.packable() {
 		return []kernel{{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }}}
 	}
-	// Packed, the table is counted in windowParts parts, by the top bits of
-	// the window values, each by a kernel of its own: the parts run side by
-	// side on the cores and each part's table is a fraction of the whole
-	// in the core's cache. Spread out, the first kernel counts everything.
-	var ks []kernel
-	for part := range windowParts {
-		k := kernel{name: "windows", cost: cost / float64(windowParts), packed: func(p []byte) { r.addPacked(t, p, part) }}
-		if part == 0 {
-			k.run = func(d []byte) { r.add(t, d) }
-		}
-		ks = append(ks, k)
-	}
-	return ks
+	return []kernel{{name: "windows", cost: cost, run: func(d []byte) { r.add(t, d) }, packed: func(p []byte) { r.addPacked(t, p) }}}
 }
 
-// windowParts is the number of parts the packed windows are counted in, a
-// power of two (a variable so that tests count in several parts). One:
-// measured on a 10^8-byte raw audit, two parts, each computing every
-// window value to count half of them, cost more CPU than they saved.
-var windowParts = 1
-
 // packable reports whether packed chunks are counted by addPacked: bits,
-// bit pairs or nibbles, a batched table, window values of at most 32 bits
-// and enough of them to split in parts. The aligned blocks are then
-// counted by their own kernels (Blocks.addPacked).
+// bit pairs or nibbles, a batched table and window values of more than a
+// byte and at most 32 bits. The aligned blocks are then counted by their
+// own kernels (Blocks.addPacked).
 func (r *Windows) packable() bool {
 	s := packWidth(r.base)
 	return s > 0 && r.batched() && r.K*s <= 32 && r.K*s > 8
 }
 
-// putPart writes window value v to buf[k] as a cell of its part's table
-// (based at cell base) and returns the next k: k+1 when v is in part pt
-// (v>>sh == pt), else k. Branch-free: which part a random window falls in
-// is a coin toss.
-func putPart(buf *[2 * windowBatch]uint32, k int, v uint64, sh uint, pt uint64, base uint32) int {
-	buf[k&(2*windowBatch-1)] = uint32(v) - base
-	if v>>sh == pt {
-		k++
-	}
-	return k
-}
-
-// windowRun shifts the bytes of p into reg and writes the window values
-// of this part (putPart) to buf from k on, which has room for them; it
-// returns the next k and the register. A loop of its own, with its values
-// in registers.
+// windowRun shifts the bytes of p into reg and writes their window values
+// (8/s a byte) to buf from k on, which has room for them; it returns the
+// next k and the register. A loop of its own, with its values in
+// registers (in the caller the index lived on the stack).
 //
 //go:noinline
-func windowRun(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, s int, sh uint, pt uint64, base uint32) (int, uint64) {
-	switch s {
-	case 1:
-		for _, v := range p {
-			reg = reg<<8 | uint64(v)
-			k = putPart(buf, k, reg>>7&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>6&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>5&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>3&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>2&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>1&mask, sh, pt, base)
-			k = putPart(buf, k, reg&mask, sh, pt, base)
-		}
-	case 2:
-		for _, v := range p {
-			reg = reg<<8 | uint64(v)
-			k = putPart(buf, k, reg>>6&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(buf, k, reg>>2&mask, sh, pt, base)
-			k = putPart(buf, k, reg&mask, sh, pt, base)
-		}
-	default:
-		for _, v := range p {
-			reg = reg<<8 | uint64(v)
-			k = putPart(buf, k, reg>>4&mask, sh, pt, base)
-			k = putPart(buf, k, reg&mask, sh, pt, base)
-		}
-	}
-	return k, reg
-}
-
-// windowRunAll is windowRun for one part: every value is written, 8/s a
-// byte, with no test.
-//
-//go:noinline
-func windowRunAll(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, s int) (int, uint64) {
+func windowRun(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint64, s int) (int, uint64) {
 	switch s {
 	case 1:
 		for _, v := range p {
@@ -192,44 +125,34 @@ func windowRunAll(buf *[2 * windowBatch]uint32, k int, p []byte, reg, mask uint6
 	return k, reg
 }
 
-// addPacked counts this part's share of the K-windows that end inside a
-// packed chunk (packed.go): a window of s-bit digits is the K·s-bit field
-// that ends at its last digit, read from a register the bytes are shifted
-// into; the part is its top bits.
-func (r *Windows) addPacked(t *Tally, p []byte, part int) {
+// addPacked counts the K-windows that end inside a packed chunk
+// (packed.go): a window of s-bit digits is the K·s-bit field that ends at
+// its last digit, read from a register the bytes are shifted into.
+func (r *Windows) addPacked(t *Tally, p []byte) {
 	s := packWidth(r.base)
 	m, K, W := 8/s, r.K, r.K*s
 	n := len(p) * m
 	cnt := r.Counts
-	shift := W - bits.Len(uint(windowParts-1)) // value >> shift is the part
-	mine := func(v int) bool { return v>>shift == part }
 	lead := digitsOf(p, s, 0, min(n, K))
 	y := append(slices.Clip(t.Tail), lead[:min(len(lead), K-1)]...)
 	for end := len(t.Tail); end < len(y); end++ {
 		if end+1 >= K {
-			if v := value(y[end+1-K:end+1], r.base); mine(v) {
-				cnt[v]++
-			}
+			cnt[value(y[end+1-K:end+1], r.base)]++
 		}
 	}
 	if n < K {
 		return
 	}
-	if v := value(lead, r.base); mine(v) {
-		cnt[v]++
-	}
+	cnt[value(lead, r.base)]++
 	if n == K {
 		return
 	}
-	lo, hi := part<<shift, (part+1)<<shift // this part's cells
-	if len(cnt) != 1<<W || len(hotTable(&r.hot, len(cnt))) != len(cnt) {
+	hot := hotTable(&r.hot, len(cnt))
+	if len(cnt) != 1<<W || len(hot) != len(cnt) {
 		panic("tally: packed windows need a byte table of 2^(K·s) cells")
 	}
-	hot, cold := r.hot[lo:hi], cnt[lo:hi]
 	mask := uint64(1)<<W - 1
-	// The digits from K on; byte q holds digits q·m … q·m+m−1. Each value
-	// is written to the batch, which advances only when it is this part's
-	// (branch-free: which part a random window falls in is a coin toss).
+	// The digits from K on; byte q holds digits q·m … q·m+m−1.
 	q0 := K / m
 	var reg uint64
 	for q := max(0, q0-8); q < q0; q++ {
@@ -237,26 +160,21 @@ func (r *Windows) addPacked(t *Tally, p []byte, part int) {
 	}
 	var buf [2 * windowBatch]uint32
 	k := 0
-	sh, pt, base := uint(shift), uint64(part), uint32(lo)
 	reg = reg<<8 | uint64(p[q0])
 	for j := K % m; j < m; j++ {
-		k = putPart(&buf, k, reg>>(8-s*(j+1))&mask, sh, pt, base)
+		buf[k] = uint32(reg >> (8 - s*(j+1)) & mask)
+		k++
 	}
-	m8 := 8 / s
 	for q := q0 + 1; q < len(p); {
-		take := min(len(p)-q, (windowBatch-k)/m8)
-		if windowParts == 1 {
-			k, reg = windowRunAll(&buf, k, p[q:q+take], reg, mask, s)
-		} else {
-			k, reg = windowRun(&buf, k, p[q:q+take], reg, mask, s, sh, pt, base)
-		}
+		take := min(len(p)-q, (windowBatch-k)/m)
+		k, reg = windowRun(&buf, k, p[q:q+take], reg, mask, s)
 		q += take
-		if k > windowBatch-m8 {
-			countBytesFast(hot, cold, buf[:k]) // every value is in this part's cells
+		if k > windowBatch-m {
+			countBytesFast(hot, cnt, buf[:k]) // every value is masked below len(hot)
 			k = 0
 		}
 	}
-	countBytesFast(hot, cold, buf[:k])
+	countBytesFast(hot, cnt, buf[:k])
 }
 
 // add counts the K-windows that end inside d, and, when batched, the
