@@ -29,9 +29,9 @@ func packWidth(base int) int {
 }
 
 // PackedWidth returns the digit width in bits of the packed chunks
-// AddPacked reads for this tally's base (1, 2 or 4), or 0 when the base
-// has none.
-func (t *Tally) PackedWidth() int { return packWidth(t.Base) }
+// AddPacked reads in a base (1, 2 or 4 for bases 2, 4 and 16), or 0 when
+// the base has none.
+func PackedWidth(base int) int { return packWidth(base) }
 
 // spread holds, for each byte value, its 8 bits as 8 digit bytes (most
 // significant first, read as a big-endian word), and the same for pairs

@@ -40,7 +40,7 @@ func (p *Plan) Add(d []byte) {
 
 // PackedWidth returns the digit width in bits (1, 2 or 4) of the packed
 // chunks AddPacked reads, or 0 when the plan's base has none.
-func (p *Plan) PackedWidth() int { return p.t.PackedWidth() }
+func (p *Plan) PackedWidth() int { return tally.PackedWidth(p.Spec.Base) }
 
 // AddPacked tallies the next digits of the sequence given packed: 8/s
 // digits of s = PackedWidth() bits in each byte, most significant first
@@ -80,8 +80,13 @@ func (p *Plan) TallyAt(ctx context.Context, r *seq.Reader, offset int64) (*tally
 	if p.opts.Workers > 1 {
 		return p.tallyPipelined(ctx, r)
 	}
+	packed := p.readsPacked(r)
 	for r.Scan() {
-		p.Add(r.Digits())
+		if packed {
+			p.AddPacked(r.Packed())
+		} else {
+			p.Add(r.Digits())
+		}
 		if p.OnChunk != nil {
 			p.OnChunk(r.Count(), r.Offset())
 		}
@@ -95,6 +100,12 @@ func (p *Plan) TallyAt(ctx context.Context, r *seq.Reader, offset int64) (*tally
 	return p.t, nil
 }
 
+// readsPacked reports whether the reader's chunks go to the plan packed:
+// bits read from bytes (seq.Bits) into a base-2 plan.
+func (p *Plan) readsPacked(r *seq.Reader) bool {
+	return r.PackedWidth() > 0 && r.PackedWidth() == p.PackedWidth()
+}
+
 // pipelineChunk is the digits handed to the kernels at a time by
 // tallyPipelined.
 const pipelineChunk = 1 << 18
@@ -106,8 +117,13 @@ const pipelineChunk = 1 << 18
 // in TallyAt, so the tally is too.
 func (p *Plan) tallyPipelined(ctx context.Context, r *seq.Reader) (*tally.Tally, error) {
 	type chunk struct {
-		d             []byte
+		d             []byte // digits, or bytes of bits when packed
 		count, offset int64
+	}
+	packed := p.readsPacked(r)
+	per := 1 // digits a byte of d holds
+	if packed {
+		per = 8
 	}
 	const depth = 2
 	free := make(chan []byte, depth+1)
@@ -129,8 +145,12 @@ func (p *Plan) tallyPipelined(ctx context.Context, r *seq.Reader) (*tally.Tally,
 			// Several reader chunks per step of the pass: each step ends by
 			// waiting for the slowest group of kernels.
 			buf = buf[:0]
-			for more && len(buf) < pipelineChunk {
-				buf = append(buf, r.Digits()...)
+			for more && len(buf)*per < pipelineChunk {
+				if packed {
+					buf = append(buf, r.Packed()...)
+				} else {
+					buf = append(buf, r.Digits()...)
+				}
 				more = r.Scan()
 			}
 			select {
@@ -141,7 +161,11 @@ func (p *Plan) tallyPipelined(ctx context.Context, r *seq.Reader) (*tally.Tally,
 		}
 	}()
 	for c := range full {
-		p.Add(c.d)
+		if packed {
+			p.AddPacked(c.d)
+		} else {
+			p.Add(c.d)
+		}
 		free <- c.d
 		if p.OnChunk != nil {
 			p.OnChunk(c.count, c.offset)

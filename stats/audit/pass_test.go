@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"reflect"
 	"testing"
 
 	"github.com/borel-audit/borel/stats/seq"
@@ -59,6 +60,56 @@ func TestTraceEndsAtN(t *testing.T) {
 	for j, c := range last.Counts {
 		if c != r.DigitCounts[j] {
 			t.Fatalf("last trace point counts %v, digit counts %v", last.Counts, r.DigitCounts)
+		}
+	}
+}
+
+// Bytes read as bits go to the plan packed (Reader.Packed, Plan.AddPacked):
+// the audit is the one of the bits spread out, with one worker and with
+// the pipelined reader, with and without the second level.
+func TestBitsReadPackedSameAudit(t *testing.T) {
+	raw := make([]byte, 700_001) // not a multiple of any chunk
+	x := uint64(88172645463325252)
+	for i := range raw {
+		x ^= x << 13
+		x ^= x >> 7
+		x ^= x << 17
+		raw[i] = byte(x >> 32)
+	}
+	bits := make([]byte, 0, 8*len(raw))
+	for _, c := range raw {
+		for j := 7; j >= 0; j-- {
+			bits = append(bits, c>>j&1)
+		}
+	}
+	for _, segments := range []int{0, 8} {
+		for _, workers := range []int{1, 2} {
+			opts := DefaultOptions()
+			opts.Workers, opts.Segments = workers, segments
+			want, err := Digits(bits, 2, Source{Name: "bits"}, opts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			plan, err := NewPlan(2, int64(len(bits)), opts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, _ := seq.NewReader(bytes.NewReader(raw), seq.Options{Format: seq.Bits, Base: 2})
+			if !plan.readsPacked(r) {
+				t.Fatal("a bit reader into a base-2 plan does not go packed")
+			}
+			tl, err := plan.TallyAt(context.Background(), r, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := plan.Finish(tl, Source{Name: "bits"})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !reflect.DeepEqual(got.Findings, want.Findings) || got.Digits != want.Digits || got.Verdict != want.Verdict {
+				t.Fatalf("segments %d, %d workers: bits read packed audit differently (%d findings, %d digits, %s; want %d, %d, %s)",
+					segments, workers, len(got.Findings), got.Digits, got.Verdict, len(want.Findings), want.Digits, want.Verdict)
+			}
 		}
 	}
 }

@@ -131,6 +131,8 @@ type Reader struct {
 	buf        []byte // raw bytes read
 	out        []byte // decoded digits
 	digits     []byte // what Digits returns
+	packed     []byte // Bits: the chunk's bytes, spread out into digits only when Digits asks
+	nDigits    int    // the digits of the last chunk
 	offset     int64  // bytes consumed before buf
 	lines      int64  // newlines before buf
 	lineStart  int64  // offset of the byte after the last newline before buf
@@ -294,7 +296,42 @@ func (r *Reader) Count() int64 { return r.count }
 func (r *Reader) Offset() int64 { return r.offset }
 
 // Digits returns the digits decoded by the last Scan. The slice is reused.
-func (r *Reader) Digits() []byte { return r.digits }
+func (r *Reader) Digits() []byte {
+	if r.packed != nil && r.digits == nil {
+		r.spread()
+	}
+	return r.digits
+}
+
+// PackedWidth returns 1 when the reader reads bytes as bits (Bits), whose
+// chunks Packed returns as the bytes they are, else 0.
+func (r *Reader) PackedWidth() int {
+	if r.opt.Format == Bits {
+		return 1
+	}
+	return 0
+}
+
+// Packed returns the bytes of the last Scan's chunk when the reader reads
+// bits (PackedWidth 1): its digits are their bits, most significant first,
+// without spreading them out one a byte as Digits does. The slice is
+// reused.
+func (r *Reader) Packed() []byte { return r.packed }
+
+// spread writes the bits of the packed chunk into the digit buffer.
+func (r *Reader) spread() {
+	chunk := r.packed
+	if cap(r.out) < 8*len(chunk) {
+		r.out = make([]byte, 8*chunkSize)
+	}
+	out := r.out[:8*len(chunk)]
+	for i, c := range chunk {
+		o := out[8*i : 8*i+8 : 8*i+8]
+		o[0], o[1], o[2], o[3] = c>>7, c>>6&1, c>>5&1, c>>4&1
+		o[4], o[5], o[6], o[7] = c>>3&1, c>>2&1, c>>1&1, c&1
+	}
+	r.digits = out
+}
 
 // Err returns the first error met, or nil at a clean end of input. An input
 // with no digits at all is an error.
@@ -324,8 +361,8 @@ func (r *Reader) Scan() bool {
 			r.fail(r.readError(err))
 			return false
 		}
-		if n > 0 && len(r.digits) > 0 {
-			r.count += int64(len(r.digits))
+		if n > 0 && r.nDigits > 0 {
+			r.count += int64(r.nDigits)
 			return true
 		}
 	}
@@ -359,7 +396,7 @@ func (r *Reader) readError(err error) error {
 
 func (r *Reader) finish() {
 	r.done = true
-	r.digits = nil
+	r.digits, r.packed, r.nDigits = nil, nil, 0
 	if r.count == 0 && r.err == nil {
 		what := "the input is empty"
 		switch {
@@ -377,7 +414,7 @@ func (r *Reader) finish() {
 
 func (r *Reader) fail(err error) {
 	r.done = true
-	r.digits = nil
+	r.digits, r.packed, r.nDigits = nil, nil, 0
 	r.err = err
 	if r.closer != nil {
 		r.closer.Close()
@@ -387,19 +424,10 @@ func (r *Reader) fail(err error) {
 func (r *Reader) decode(chunk []byte) error {
 	switch r.opt.Format {
 	case Raw:
-		r.digits = chunk
+		r.digits, r.nDigits = chunk, len(chunk)
 		return nil
 	case Bits:
-		if cap(r.out) < 8*len(chunk) {
-			r.out = make([]byte, 8*chunkSize)
-		}
-		out := r.out[:8*len(chunk)]
-		for i, c := range chunk {
-			o := out[8*i : 8*i+8 : 8*i+8]
-			o[0], o[1], o[2], o[3] = c>>7, c>>6&1, c>>5&1, c>>4&1
-			o[4], o[5], o[6], o[7] = c>>3&1, c>>2&1, c>>1&1, c&1
-		}
-		r.digits = out
+		r.packed, r.digits, r.nDigits = chunk, nil, 8*len(chunk)
 		return nil
 	}
 	if cap(r.out) < len(chunk) {
@@ -436,7 +464,7 @@ func (r *Reader) decode(chunk []byte) error {
 		}
 		i++
 	}
-	r.digits = out[:j]
+	r.digits, r.nDigits = out[:j], j
 	return nil
 }
 
