@@ -89,6 +89,12 @@ type Coupons struct {
 	Pending   []PendingSegment
 
 	table *[16][256]couponStep // addPacked's byte table (steps)
+	// inner counts, by state and byte (state·256 + byte), the bytes of
+	// runPacked that completed a segment: the segments they complete after
+	// their first (couponStep.lens) are added to Hist when the record
+	// settles, not one by one in the loop, whose varying count the
+	// processor could not predict.
+	inner *[16 * 256]int64
 }
 
 // PendingSegment is a completed coupon segment of Len digits that counts
@@ -195,6 +201,10 @@ func (r *Coupons) runPacked(seg []byte, pos, restart, end int64) {
 	if kSafe >= m-1 {
 		tab := r.steps()
 		hist := r.Hist
+		if r.inner == nil {
+			r.inner = new([16 * 256]int64)
+		}
+		inner := r.inner
 		seen, n := r.Seen, r.Len
 		for ; q < (kSafe+1)/m; q++ {
 			e := &tab[seen][seg[q]]
@@ -203,9 +213,7 @@ func (r *Coupons) runPacked(seg []byte, pos, restart, end int64) {
 				continue
 			}
 			hist[min(n+int64(e.first), capLen)]++
-			for _, l := range e.lens[:e.nc-1] {
-				hist[min(int64(l), capLen)]++
-			}
+			inner[seen<<8|uint32(seg[q])]++ // its other segments: by kind, added when the record settles
 			seen, n = uint32(e.seen), int64(e.tail)
 		}
 		r.Seen, r.Len = seen, n
@@ -360,10 +368,28 @@ func (r *Coupons) merge(next record, sm *seam) {
 func (r *Coupons) clone() record {
 	u := *r
 	u.Hist, u.Head, u.Pending = slices.Clone(r.Hist), slices.Clone(r.Head), slices.Clone(r.Pending)
+	u.inner = nil // settled before any clone
 	return &u
 }
 
-func (r *Coupons) settle(*Tally) {}
+// settle adds the segments counted by kind in inner to Hist.
+func (r *Coupons) settle(*Tally) {
+	if r.inner == nil {
+		return
+	}
+	tab := r.steps()
+	capLen := int64(r.Cap)
+	for i, k := range r.inner {
+		if k == 0 {
+			continue
+		}
+		e := &tab[i>>8][i&255]
+		for _, l := range e.lens[:e.nc-1] {
+			r.Hist[min(int64(l), capLen)] += k
+		}
+	}
+	clear(r.inner[:])
+}
 
 // couponEntry is the record in a shard; a pending segment is the pair
 // [due, length].
