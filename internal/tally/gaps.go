@@ -223,12 +223,15 @@ func (r *Gaps) add(d []byte, n int64) {
 			last[c] = r.Classes[c].Last
 		}
 	}
-	var class [256]int64 // the digit's class times W: its histograms' offset
+	var class [256]int64 // the digit's class; past the last class for a byte that is no digit
 	for x := range 256 {
-		if x < len(r.Class) {
+		switch {
+		case x < len(r.Class):
 			class[x] = int64(r.Class[x])
-		} else if r.Class == nil {
+		case r.Class == nil:
 			class[x] = int64(x)
+		default:
+			class[x] = int64(len(r.Classes)) // its histogram index is out of range: Add panics
 		}
 	}
 	i := 0

@@ -164,3 +164,20 @@ func TestPackedShortChunks(t *testing.T) {
 		}
 	}
 }
+
+// A byte that is not a digit of the base makes Add panic in the gap
+// record, with gap classes given or not (the reader never sends one; Add's
+// contract), rather than being counted as some class.
+func TestGapsRefuseNonDigits(t *testing.T) {
+	for _, classes := range [][]int{nil, {0, 1, 1, 0}} {
+		tl := mustNew(t, Spec{Base: 4, MaxBlock: 1, Records: []RecordSpec{&GapSpec{Class: classes}}}, 0)
+		func() {
+			defer func() {
+				if recover() == nil {
+					t.Errorf("classes %v: digit 7 in base 4 did not panic", classes)
+				}
+			}()
+			tl.Add([]byte{0, 1, 2, 3, 0, 1, 2, 3, 7, 0, 1, 2, 3})
+		}()
+	}
+}
