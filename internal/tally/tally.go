@@ -19,6 +19,9 @@
 //	walk.go     the digit-sum walk
 //	coupon.go   coupon-collector segments
 //
+// packed.go adds chunks of bits, bit pairs or nibbles as the bytes that
+// hold them (AddPacked), for the records that can read bytes.
+//
 // Each record owns its kernels over a digit buffer, its exact merge with
 // the next stretch given the seam digits, its cell count for the memory
 // budget, its shard entry and its validation. Values a record exposes are
