@@ -124,6 +124,11 @@ func (r *DigitCounts) count(d []byte) {
 	for x := range r.Counts {
 		r.Counts[x] += c[0][x] + c[1][x] + c[2][x] + c[3][x]
 	}
+	for x := len(r.Counts); x < 256; x++ { // Add's contract: every digit below the base
+		if c[0][x]+c[1][x]+c[2][x]+c[3][x] != 0 {
+			panic(fmt.Sprintf("tally: %d is not a digit of base %d", x, len(r.Counts)))
+		}
+	}
 }
 
 // traceNext returns the smallest checkpoint position greater than pos. The

@@ -181,3 +181,15 @@ func TestGapsRefuseNonDigits(t *testing.T) {
 		}()
 	}
 }
+
+// Add panics on a byte that is not a digit of the base even when no
+// record but the digit counts reads it (windows of one digit, no extras).
+func TestDigitCountsRefuseNonDigits(t *testing.T) {
+	tl := mustNew(t, Spec{Base: 4, MaxBlock: 1}, 0)
+	defer func() {
+		if recover() == nil {
+			t.Error("digit 7 in base 4 did not panic")
+		}
+	}()
+	tl.Add([]byte{0, 1, 2, 3, 7, 0})
+}
