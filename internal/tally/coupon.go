@@ -118,25 +118,15 @@ func (r *Coupons) kernels(t *Tally) []kernel {
 // with at most 4 classes and restarts at whole bytes: pos0 and the restart
 // positions are multiples of the digits in a byte.
 func (r *Coupons) addPacked(p []byte, pos0 int64) {
-	m := int64(8 / packWidth(len(r.Class)))
-	every := r.Spacing()
-	end := pos0 + int64(len(p))*m
-	for i := int64(0); i < int64(len(p))*m; {
-		pos := pos0 + i
-		rem := pos % every
-		if rem == 0 {
-			r.close(pos)
-			r.Restarted, r.Seen, r.Len, r.Idle = true, 0, 0, false
-		}
-		next := min(int64(len(p))*m, i+every-rem)
+	s := packWidth(len(r.Class))
+	m := 8 / s
+	r.windows(pos0, len(p)*m, func(i, next int, pos, restart, end int64) {
 		if r.Restarted {
-			r.runPacked(p[i/m:next/m], pos, pos-rem+every, end)
+			r.runPacked(p[i/m:next/m], pos, restart, end)
 		} else {
-			r.Head = append(r.Head, unpack(nil, p[i/m:next/m], packWidth(len(r.Class)))...)
+			r.Head = append(r.Head, unpack(nil, p[i/m:next/m], s)...)
 		}
-		i = next
-	}
-	r.confirm(end)
+	})
 }
 
 // couponStep is what one byte does to the collector from a state seen
@@ -227,21 +217,31 @@ func (r *Coupons) runPacked(seg []byte, pos, restart, end int64) {
 // window by window between the restart positions; before the stretch's
 // first restart the digits are kept in Head (a merge processes them).
 func (r *Coupons) add(d []byte, pos0 int64) {
+	r.windows(pos0, len(d), func(i, next int, pos, restart, end int64) {
+		if r.Restarted {
+			r.run(d[i:next], pos, restart, end)
+		} else {
+			r.Head = append(r.Head, d[i:next]...)
+		}
+	})
+}
+
+// windows cuts n new digits (the first at global position pos0) at the
+// restart positions, restarting the collector at each, and hands each
+// piece [i, next) to feed with its global position, the next restart and
+// the end of the digits known; then it counts the pending segments now due.
+func (r *Coupons) windows(pos0 int64, n int, feed func(i, next int, pos, restart, end int64)) {
 	every := r.Spacing()
-	end := pos0 + int64(len(d))
-	for i := 0; i < len(d); {
+	end := pos0 + int64(n)
+	for i := 0; i < n; {
 		pos := pos0 + int64(i)
 		rem := pos % every
 		if rem == 0 {
 			r.close(pos)
 			r.Restarted, r.Seen, r.Len, r.Idle = true, 0, 0, false
 		}
-		next := min(len(d), i+int(every-rem))
-		if r.Restarted {
-			r.run(d[i:next], pos, pos-rem+every, end)
-		} else {
-			r.Head = append(r.Head, d[i:next]...)
-		}
+		next := min(n, i+int(every-rem))
+		feed(i, next, pos, pos-rem+every, end)
 		i = next
 	}
 	r.confirm(end)

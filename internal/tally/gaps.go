@@ -82,7 +82,7 @@ type Gaps struct {
 	Classes []GapTally
 
 	table         *[256]gapByte // addPacked's byte table
-	joined, spare []int64       // add's flat tables (flat); spare folded in by settle
+	joined, spare []int64       // add's flat tables (flat): the histograms' backing, and a second copy folded in by settle
 }
 
 // GapTally is the gap record of one digit class: Hist[r] counts complete gaps
@@ -268,7 +268,6 @@ func (r *Gaps) add(d []byte, n int64) {
 			r.Classes[c].Last = last[c]
 		}
 	}
-	r.unflat(hist)
 }
 
 // addPairs is add for packed bit pairs or nibbles, the digits read from
@@ -310,31 +309,30 @@ func (r *Gaps) addPairs(p []byte, n int64, s int) {
 	for c := range r.Classes {
 		r.Classes[c].Last = last[c]
 	}
-	r.unflat(hist)
 }
 
 // flat returns the histograms as one table, class c's at c·(cap+1), and
-// the spare copy (made on first use).
+// the spare copy (made on first use). The first call moves the histograms
+// into the table and leaves each class's Hist a view of its part, so later
+// calls copy nothing.
 func (r *Gaps) flat() (hist, spare []int64) {
 	W := r.gapCap() + 1
-	if r.joined == nil {
-		r.joined = make([]int64, len(r.Classes)*W)
-	}
+	joined := r.joined != nil
 	for c := range r.Classes {
-		copy(r.joined[c*W:], r.Classes[c].Hist)
+		joined = joined && &r.Classes[c].Hist[0] == &r.joined[c*W]
+	}
+	if !joined {
+		r.joined = make([]int64, len(r.Classes)*W)
+		for c := range r.Classes {
+			part := r.joined[c*W : (c+1)*W : (c+1)*W]
+			copy(part, r.Classes[c].Hist)
+			r.Classes[c].Hist = part
+		}
 	}
 	if r.spare == nil {
 		r.spare = make([]int64, len(r.Classes)*W)
 	}
 	return r.joined, r.spare
-}
-
-// unflat copies the flat table back into the classes' histograms.
-func (r *Gaps) unflat(hist []int64) {
-	W := r.gapCap() + 1
-	for c := range r.Classes {
-		copy(r.Classes[c].Hist, hist[c*W:(c+1)*W])
-	}
 }
 
 // merge joins each class's records: the gap between a's last and b's first

@@ -116,19 +116,9 @@ func (t *Tally) AddPacked(p []byte) {
 	if s == 0 || len(p) == 0 {
 		return
 	}
-	var d []byte
+	c := &packedChunk{p: p, s: s, t: t}
 	for _, k := range t.kernels() {
-		if k.packed != nil {
-			k.packed(p)
-			continue
-		}
-		if k.run == nil {
-			continue
-		}
-		if d == nil {
-			d = t.spreadOut(p, s)
-		}
-		k.run(d)
+		c.run(k)
 	}
 	t.advancePacked(p, s)
 }
@@ -176,8 +166,9 @@ func (t *Tally) advancePacked(p []byte, s int) {
 	t.N += int64(n)
 }
 
-// runPacked runs kernel k on the packed chunk, or on its digits spread
-// out once (by whichever kernel needs them first).
+// packedChunk is a packed chunk being added: run gives each kernel the
+// bytes, or, without a packed form, the digits spread out once (by
+// whichever kernel needs them first).
 type packedChunk struct {
 	p    []byte
 	s    int

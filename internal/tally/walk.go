@@ -86,7 +86,7 @@ var walkBytes = func() (tab [3][256]walkByte) {
 // a time.
 func (r *Walk) addPacked(p []byte, n int64) {
 	s := packWidth(r.base)
-	tab := &walkBytes[map[int]int{1: 0, 2: 1, 4: 2}[s]]
+	tab := &walkBytes[bits.TrailingZeros(uint(s))] // s = 1, 2, 4: tables 0, 1, 2
 	step := int64(r.base - 1)
 	u := 2*r.Sum - n*step
 	hi, lo := r.UMax, r.UMin
